@@ -1,0 +1,78 @@
+/**
+ * The one interface between the renderer and the host (types only). The desktop shell carries it
+ * over Electron IPC (preload + ipcMain), the browser mode over HTTP on 127.0.0.1; the renderer cannot
+ * tell which. Each request has a name, a request type and a response type. Results are values, never
+ * thrown errors: `{ ok: true, value } | { ok: false, code, message }` (only an error's message would
+ * survive Electron's `handle`).
+ */
+
+export type HostResult<T> =
+  | { ok: true; value: T }
+  | { ok: false; code: HostErrorCode; message: string };
+
+export type HostErrorCode =
+  | 'bad-request'   // the request's arguments were not acceptable
+  | 'not-found'     // a file or folder does not exist
+  | 'forbidden'     // outside the folders the user opened
+  | 'locked'        // another copy of the app holds the review file
+  | 'io'            // the operating system refused
+  | 'internal';
+
+export type FileKind = 'miniseed' | 'stationxml' | 'model' | 'quakeml' | 'review' | 'other';
+
+export interface DatasetFile {
+  /** Path relative to the dataset root, with forward slashes. */
+  path: string;
+  size: number;
+  kind: FileKind;
+}
+
+export interface Dataset {
+  /** Absolute folder path, as the host names it. */
+  root: string;
+  files: DatasetFile[];
+  /** Whether the review file can be written beside the data (else it goes to the user folder). */
+  writable: boolean;
+}
+
+export interface DemoStatus {
+  /** Absolute folder of the demo scenario. */
+  root: string;
+  state: 'missing' | 'generating' | 'ready' | 'failed';
+  /** 0-1 while generating. */
+  progress: number;
+  message: string;
+}
+
+export interface AppInfo {
+  mode: 'desktop' | 'browser';
+  version: string;
+}
+
+/** Request name -> [request, response]. */
+export interface HostRequests {
+  'app.info': [Record<string, never>, AppInfo];
+  'demo.status': [Record<string, never>, DemoStatus];
+  /** Starts generating the demo scenario if it is missing; returns at once (poll demo.status). */
+  'demo.ensure': [Record<string, never>, DemoStatus];
+  'dataset.open': [{ root: string }, Dataset];
+  /** Whole file bytes; `path` relative to an opened dataset's root. */
+  'file.read': [{ root: string; path: string }, Uint8Array];
+}
+
+export type HostRequestName = keyof HostRequests;
+export type RequestOf<N extends HostRequestName> = HostRequests[N][0];
+export type ResponseOf<N extends HostRequestName> = HostRequests[N][1];
+
+/** Names the host answers, for validation on both sides. */
+export const HOST_REQUEST_NAMES: readonly HostRequestName[] = [
+  'app.info', 'demo.status', 'demo.ensure', 'dataset.open', 'file.read',
+];
+
+/** Requests whose response is raw bytes (sent as application/octet-stream over HTTP). */
+export const BINARY_RESPONSES: ReadonlySet<HostRequestName> = new Set<HostRequestName>(['file.read']);
+
+/** What the renderer holds: one method for every request. */
+export interface HostApi {
+  call<N extends HostRequestName>(name: N, request: RequestOf<N>): Promise<HostResult<ResponseOf<N>>>;
+}

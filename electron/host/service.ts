@@ -1,0 +1,153 @@
+/**
+ * The host side of the renderer-host contract (Node): file access and persistence, shared by the
+ * desktop shell (over IPC) and the browser mode (over HTTP). Every request is validated here, once,
+ * whatever carried it; paths are confined to the folders the user opened and the demo folder.
+ */
+import { readdir, readFile, stat, access, constants } from 'node:fs/promises';
+import { existsSync } from 'node:fs';
+import { join, relative, resolve, sep } from 'node:path';
+import type {
+  AppInfo, Dataset, DatasetFile, DemoStatus, FileKind, HostErrorCode, HostRequestName, HostRequests,
+  HostResult, RequestOf, ResponseOf,
+} from '../contract';
+import { HOST_REQUEST_NAMES } from '../contract';
+
+export class HostError extends Error {
+  constructor(readonly code: HostErrorCode, message: string) {
+    super(message);
+    this.name = 'HostError';
+  }
+}
+
+export interface HostServiceOptions {
+  mode: AppInfo['mode'];
+  version: string;
+  /** Folder of the demo scenario. */
+  demoRoot: string;
+  /** Creates the demo scenario in `root`, reporting progress 0-1. */
+  generateDemo?: (root: string, onProgress: (fraction: number, message: string) => void) => Promise<void>;
+}
+
+type Handlers = { [N in HostRequestName]: (req: RequestOf<N>) => Promise<ResponseOf<N>> };
+
+/** The file whose presence marks a finished demo scenario (written last by the generator). */
+export const DEMO_COMPLETE_MARKER = 'scenario-complete.json';
+
+const MAX_FILES_LISTED = 200_000;
+
+export class HostService {
+  private readonly openRoots = new Set<string>();
+  private demo: DemoStatus;
+  private readonly handlers: Handlers;
+
+  constructor(private readonly opts: HostServiceOptions) {
+    const root = resolve(opts.demoRoot);
+    this.demo = {
+      root,
+      state: existsSync(join(root, DEMO_COMPLETE_MARKER)) ? 'ready' : 'missing',
+      progress: 0,
+      message: '',
+    };
+    this.handlers = {
+      'app.info': async () => ({ mode: this.opts.mode, version: this.opts.version }),
+      'demo.status': async () => ({ ...this.demo }),
+      'demo.ensure': async () => this.ensureDemo(),
+      'dataset.open': async (req) => this.openDataset(req.root),
+      'file.read': async (req) => this.readDatasetFile(req.root, req.path),
+    };
+  }
+
+  /** Answers one request; never throws. `request` comes from outside and is validated here. */
+  async handle<N extends HostRequestName>(name: N, request: unknown): Promise<HostResult<ResponseOf<N>>> {
+    try {
+      if (!HOST_REQUEST_NAMES.includes(name)) throw new HostError('bad-request', `unknown request "${String(name)}"`);
+      if (typeof request !== 'object' || request === null || Array.isArray(request)) {
+        throw new HostError('bad-request', `request "${name}" needs an object argument`);
+      }
+      const handler = this.handlers[name] as (req: HostRequests[N][0]) => Promise<ResponseOf<N>>;
+      return { ok: true, value: await handler(request as RequestOf<N>) };
+    } catch (e) {
+      if (e instanceof HostError) return { ok: false, code: e.code, message: e.message };
+      const err = e as NodeJS.ErrnoException;
+      if (err && err.code === 'ENOENT') return { ok: false, code: 'not-found', message: err.message };
+      if (err && (err.code === 'EACCES' || err.code === 'EPERM')) return { ok: false, code: 'io', message: err.message };
+      return { ok: false, code: 'internal', message: err instanceof Error ? err.message : String(e) };
+    }
+  }
+
+  private ensureDemo(): DemoStatus {
+    if (this.demo.state === 'ready' || this.demo.state === 'generating') return { ...this.demo };
+    const generate = this.opts.generateDemo;
+    if (!generate) throw new HostError('internal', 'this host cannot generate the demo scenario');
+    this.demo = { ...this.demo, state: 'generating', progress: 0, message: 'starting' };
+    generate(this.demo.root, (progress, message) => {
+      this.demo = { ...this.demo, progress, message };
+    }).then(
+      () => { this.demo = { ...this.demo, state: 'ready', progress: 1, message: 'ready' }; },
+      (e: unknown) => { this.demo = { ...this.demo, state: 'failed', message: e instanceof Error ? e.message : String(e) }; },
+    );
+    return { ...this.demo };
+  }
+
+  private async openDataset(rootArg: unknown): Promise<Dataset> {
+    const root = this.checkRootArg(rootArg);
+    const st = await stat(root).catch(() => null);
+    if (!st) throw new HostError('not-found', `folder not found: ${root}`);
+    if (!st.isDirectory()) throw new HostError('bad-request', `not a folder: ${root}`);
+    const files: DatasetFile[] = [];
+    await listFiles(root, root, files);
+    files.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
+    const writable = await access(root, constants.W_OK).then(() => true, () => false);
+    this.openRoots.add(root);
+    return { root, files, writable };
+  }
+
+  private async readDatasetFile(rootArg: unknown, pathArg: unknown): Promise<Uint8Array> {
+    const root = this.checkRootArg(rootArg);
+    if (!this.openRoots.has(root) && root !== this.demo.root) {
+      throw new HostError('forbidden', `folder was not opened: ${root}`);
+    }
+    if (typeof pathArg !== 'string' || pathArg.length === 0 || pathArg.includes('\0')) {
+      throw new HostError('bad-request', 'path must be a non-empty relative path');
+    }
+    const full = resolve(root, pathArg);
+    const rel = relative(root, full);
+    if (rel.startsWith('..') || resolve(root, rel) !== full || rel === '') {
+      throw new HostError('forbidden', `path leaves the dataset folder: ${pathArg}`);
+    }
+    const bytes = await readFile(full);
+    return new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  }
+
+  private checkRootArg(rootArg: unknown): string {
+    if (typeof rootArg !== 'string' || rootArg.length === 0 || rootArg.includes('\0')) {
+      throw new HostError('bad-request', 'root must be a folder path');
+    }
+    return resolve(rootArg);
+  }
+}
+
+/** The kind of a dataset file, from its name (content is checked when it is read). */
+export function fileKindOf(name: string): FileKind {
+  const lower = name.toLowerCase();
+  if (/\.(mseed|miniseed|msd|seed)$/.test(lower) || /\.d\d{3}$/.test(lower)) return 'miniseed';
+  if (lower.endsWith('.xml')) return /quakeml|\.qml\.xml$|events?/.test(lower) ? 'quakeml' : 'stationxml';
+  if (lower.endsWith('.qml') || lower.endsWith('.quakeml')) return 'quakeml';
+  if (lower.endsWith('.review.json')) return 'review';
+  if (lower.endsWith('model.json')) return 'model';
+  return 'other';
+}
+
+async function listFiles(root: string, dir: string, out: DatasetFile[]): Promise<void> {
+  const entries = await readdir(dir, { withFileTypes: true });
+  for (const e of entries) {
+    if (out.length >= MAX_FILES_LISTED) throw new HostError('bad-request', `more than ${MAX_FILES_LISTED} files under ${root}`);
+    if (e.name.startsWith('.')) continue;
+    const full = join(dir, e.name);
+    if (e.isDirectory()) await listFiles(root, full, out);
+    else if (e.isFile()) {
+      const st = await stat(full);
+      out.push({ path: relative(root, full).split(sep).join('/'), size: st.size, kind: fileKindOf(e.name) });
+    }
+  }
+}

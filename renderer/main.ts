@@ -1,0 +1,79 @@
+/**
+ * Daybreak's renderer entry: connects to the host, makes sure the demo scenario exists (with
+ * progress), and opens it.
+ */
+import './style.css';
+import { connectHost } from './host';
+import type { Dataset, HostApi } from '../electron/contract';
+import { CAUTION } from '../core/caution';
+
+const host: HostApi = connectHost();
+const app = document.getElementById('app')!;
+
+function el<K extends keyof HTMLElementTagNameMap>(tag: K, props: Partial<HTMLElementTagNameMap[K]> = {}, ...children: (Node | string)[]): HTMLElementTagNameMap[K] {
+  const e = Object.assign(document.createElement(tag), props);
+  e.append(...children);
+  return e;
+}
+
+const mainArea = el('main');
+const themeButton = el('button', { title: 'Switch between light and dark' }, 'Theme');
+const aboutButton = el('button', {}, 'About');
+document.documentElement.dataset.theme = localStorage.getItem('daybreak.theme') ?? 'dark';
+themeButton.addEventListener('click', () => {
+  const next = document.documentElement.dataset.theme === 'dark' ? 'light' : 'dark';
+  document.documentElement.dataset.theme = next;
+  localStorage.setItem('daybreak.theme', next);
+});
+const about = el('dialog', { id: 'about' },
+  el('h2', {}, 'Daybreak'),
+  el('p', {}, 'Review of a seismic network\u2019s overnight triggers: picks, locations, QuakeML.'),
+  el('p', { className: 'caution-text' }, CAUTION),
+  el('form', { method: 'dialog' }, el('button', {}, 'Close')));
+aboutButton.addEventListener('click', () => about.showModal());
+
+app.append(
+  el('header', { className: 'bar' },
+    el('h1', {}, el('span', { className: 'sun' }, '\u25d2 '), 'Daybreak'),
+    el('span', { className: 'spacer' }), themeButton, aboutButton),
+  mainArea,
+  el('footer', { className: 'caution' }, CAUTION),
+  about,
+);
+
+async function openDemo(): Promise<void> {
+  const card = el('div', { className: 'card' }, el('h2', {}, 'Demo scenario'));
+  const bar = el('div', { className: 'progress' }, el('div'));
+  const msg = el('p', {}, 'Checking the demo scenario\u2026');
+  card.append(msg, bar);
+  mainArea.replaceChildren(card);
+  let status = await host.call('demo.ensure', {});
+  while (status.ok && status.value.state === 'generating') {
+    msg.textContent = `Creating the invented demo night: ${status.value.message}`;
+    (bar.firstChild as HTMLDivElement).style.width = `${Math.round(status.value.progress * 100)}%`;
+    await new Promise((r) => setTimeout(r, 250));
+    status = await host.call('demo.status', {});
+  }
+  if (!status.ok || status.value.state !== 'ready') {
+    const why = status.ok ? status.value.message : status.message;
+    card.append(el('p', { className: 'error' }, `The demo scenario could not be made: ${why}`));
+    return;
+  }
+  const ds = await host.call('dataset.open', { root: status.value.root });
+  if (!ds.ok) {
+    card.append(el('p', { className: 'error' }, `Could not open ${status.value.root}: ${ds.message}`));
+    return;
+  }
+  showDataset(ds.value);
+}
+
+function showDataset(ds: Dataset): void {
+  const rows = ds.files.map((f) => el('tr', {}, el('td', {}, f.kind), el('td', {}, f.path), el('td', {}, `${(f.size / 1024).toFixed(0)} KiB`)));
+  mainArea.replaceChildren(el('div', { className: 'card' },
+    el('h2', {}, ds.root),
+    el('table', { className: 'files' }, el('tr', {}, el('th', {}, 'kind'), el('th', {}, 'file'), el('th', {}, 'size')), ...rows)));
+}
+
+openDemo().catch((e: unknown) => {
+  mainArea.replaceChildren(el('p', { className: 'error' }, String(e instanceof Error ? e.message : e)));
+});

@@ -1,0 +1,116 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { request } from 'node:http';
+import { mkdtempSync, mkdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { HostService, DEMO_COMPLETE_MARKER } from '../../../electron/host/service';
+import { startBrowserServer, TOKEN_HEADER, type BrowserServer } from '../../../electron/host/server';
+
+interface Reply { status: number; type: string; body: Buffer; headers: Record<string, string | string[] | undefined> }
+
+function send(port: number, opts: { method?: string; path: string; headers?: Record<string, string>; body?: string }): Promise<Reply> {
+  return new Promise((ok, fail) => {
+    const req = request({ host: '127.0.0.1', port, method: opts.method ?? 'GET', path: opts.path, headers: opts.headers }, (res) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => ok({ status: res.statusCode ?? 0, type: String(res.headers['content-type'] ?? ''), body: Buffer.concat(chunks), headers: res.headers }));
+    });
+    req.on('error', fail);
+    if (opts.body !== undefined) req.write(opts.body);
+    req.end();
+  });
+}
+
+describe('browser-mode server', () => {
+  let server: BrowserServer;
+  let dataRoot: string;
+  const api = (name: string, body: unknown, extra: Record<string, string> = {}) => send(server.port, {
+    method: 'POST', path: `/api/${name}`, body: JSON.stringify(body),
+    headers: { host: `127.0.0.1:${server.port}`, 'content-type': 'application/json', [TOKEN_HEADER]: server.token, ...extra },
+  });
+
+  beforeAll(async () => {
+    const base = mkdtempSync(join(tmpdir(), 'daybreak-server-'));
+    const staticDir = join(base, 'static');
+    mkdirSync(staticDir);
+    writeFileSync(join(staticDir, 'index.html'), '<!doctype html><title>t</title>');
+    dataRoot = join(base, 'data');
+    mkdirSync(join(dataRoot, 'day1'), { recursive: true });
+    writeFileSync(join(dataRoot, 'day1', 'XX.AB..HHZ.mseed'), Buffer.from([1, 2, 3, 250]));
+    writeFileSync(join(dataRoot, 'stations.xml'), '<FDSNStationXML/>');
+    writeFileSync(join(base, 'secret.txt'), 'not yours');
+    const demoRoot = join(base, 'demo');
+    mkdirSync(demoRoot);
+    writeFileSync(join(demoRoot, DEMO_COMPLETE_MARKER), '{}');
+    server = await startBrowserServer({ service: new HostService({ mode: 'browser', version: '9.9.9', demoRoot }), staticDir });
+  });
+  afterAll(async () => { await server.close(); });
+
+  it('listens on 127.0.0.1 and puts the token in the URL fragment, not the path', () => {
+    expect(server.url).toBe(`http://127.0.0.1:${server.port}/#token=${server.token}`);
+    expect(server.token).toMatch(/^[0-9a-f]{64}$/);
+  });
+
+  it('serves the renderer with a Content-Security-Policy that allows only its own origin', async () => {
+    const r = await send(server.port, { path: '/', headers: { host: `127.0.0.1:${server.port}` } });
+    expect(r.status).toBe(200);
+    expect(r.type).toContain('text/html');
+    expect(r.headers['content-security-policy']).toContain("default-src 'self'");
+    expect(r.headers['content-security-policy']).toContain("script-src 'self'");
+  });
+
+  it('refuses a request whose Host header names another server (DNS rebinding)', async () => {
+    const r = await send(server.port, { path: '/', headers: { host: `evil.example:${server.port}` } });
+    expect(r.status).toBe(421);
+  });
+
+  it('refuses API calls without the token, with a wrong token, or from a foreign origin', async () => {
+    expect((await api('app.info', {}, { [TOKEN_HEADER]: '' })).status).toBe(403);
+    expect((await api('app.info', {}, { [TOKEN_HEADER]: 'f'.repeat(64) })).status).toBe(403);
+    expect((await api('app.info', {}, { origin: 'http://evil.example' })).status).toBe(403);
+  });
+
+  it('refuses API calls that are not JSON POSTs', async () => {
+    const get = await send(server.port, { path: '/api/app.info', headers: { host: `127.0.0.1:${server.port}`, [TOKEN_HEADER]: server.token } });
+    expect(get.status).toBe(405);
+    expect((await api('app.info', {}, { 'content-type': 'text/plain' })).status).toBe(415);
+  });
+
+  it('answers app.info with the mode and version', async () => {
+    const r = await api('app.info', {});
+    expect(JSON.parse(r.body.toString())).toEqual({ ok: true, value: { mode: 'browser', version: '9.9.9' } });
+  });
+
+  it('lists a dataset recursively with kinds and sizes', async () => {
+    const r = JSON.parse((await api('dataset.open', { root: dataRoot })).body.toString());
+    expect(r.ok).toBe(true);
+    expect(r.value.files).toEqual([
+      { path: 'day1/XX.AB..HHZ.mseed', size: 4, kind: 'miniseed' },
+      { path: 'stations.xml', size: 17, kind: 'stationxml' },
+    ]);
+  });
+
+  it('returns file bytes as octet-stream, only inside an opened dataset', async () => {
+    await api('dataset.open', { root: dataRoot });
+    const r = await api('file.read', { root: dataRoot, path: 'day1/XX.AB..HHZ.mseed' });
+    expect(r.type).toBe('application/octet-stream');
+    expect([...r.body]).toEqual([1, 2, 3, 250]);
+    const escape = JSON.parse((await api('file.read', { root: dataRoot, path: '../secret.txt' })).body.toString());
+    expect(escape).toMatchObject({ ok: false, code: 'forbidden' });
+    const unopened = JSON.parse((await api('file.read', { root: join(dataRoot, '..'), path: 'secret.txt' })).body.toString());
+    expect(unopened).toMatchObject({ ok: false, code: 'forbidden' });
+  });
+
+  it('answers bad arguments and unknown requests with a value, not a crash', async () => {
+    expect(JSON.parse((await api('file.read', { root: 42 })).body.toString())).toMatchObject({ ok: false, code: 'bad-request' });
+    expect(JSON.parse((await api('no.such', {})).body.toString())).toMatchObject({ ok: false, code: 'bad-request' });
+    expect(JSON.parse((await api('dataset.open', { root: join(dataRoot, 'missing') })).body.toString())).toMatchObject({ ok: false, code: 'not-found' });
+    const broken = await send(server.port, { method: 'POST', path: '/api/app.info', body: '{nope', headers: { host: `127.0.0.1:${server.port}`, 'content-type': 'application/json', [TOKEN_HEADER]: server.token } });
+    expect(JSON.parse(broken.body.toString())).toMatchObject({ ok: false, code: 'bad-request' });
+  });
+
+  it('reports a finished demo scenario as ready', async () => {
+    const r = JSON.parse((await api('demo.status', {})).body.toString());
+    expect(r.value.state).toBe('ready');
+  });
+});
