@@ -8,13 +8,16 @@ export default class PlainSummary implements Reporter {
     let failed = 0;
     let skipped = 0;
     for (const m of modules) {
+      let failedHere = 0;
       for (const t of m.children.allTests()) {
         const state = t.result().state;
         if (state === 'passed') passed++;
-        else if (state === 'failed') failed++;
+        else if (state === 'failed') failedHere++;
         else skipped++;
       }
-      if (m.state() === 'failed' && m.children.size === 0) failed++;
+      // A file that failed outside its tests (import error, failing beforeAll) counts as one failure.
+      if (m.state() === 'failed' && failedHere === 0) failedHere = 1;
+      failed += failedHere;
     }
     process.stdout.write(`\ntests: ${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}\n`);
   }
