@@ -1,0 +1,437 @@
+/**
+ * The trace panel of the event sheet: one row per site (its components stacked in bands), on a
+ * common time axis in seconds from a reference time. Rows are drawn by uPlot; only the rows in view
+ * hold a plot (plots are pooled and reused while scrolling), so 60 sites stay fluid. The view owns
+ * the time window: wheel zooms around the pointer, dragging a box zooms to it, dragging with the
+ * right button (or Shift) pans, and `resetWindow()` returns to the full span. Marks (picks,
+ * uncertainty bars, predicted arrivals) are drawn by plugins on each row's canvas.
+ */
+import uPlot from 'uplot';
+import 'uplot/dist/uPlot.min.css';
+import { rowColumns, type ComponentTrace } from './rowData';
+
+export interface SiteRow {
+  /** "NET.STA". */
+  key: string;
+  label: string;
+  /** Second line of the label, e.g. distance or first-arrival time. */
+  detail?: string;
+  components: ComponentTrace[];
+  /** Row warnings shown beside the label: clipping, questionable timing, gaps. */
+  flags?: string[];
+}
+
+export interface RowMarksContext {
+  row: SiteRow;
+  ctx: CanvasRenderingContext2D;
+  /** Plot area in canvas pixels. */
+  left: number; top: number; width: number; height: number;
+  /** Canvas x of a time (seconds from the reference). */
+  xOf(t: number): number;
+  /** Vertical extent of component `c`'s band in canvas pixels. */
+  band(c: number): [top: number, bottom: number];
+  pxRatio: number;
+}
+
+export interface TraceViewOptions {
+  /** Height of one component band in CSS pixels. */
+  bandHeight?: number;
+  labelWidth?: number;
+  /** Draws marks on a row after its traces. */
+  drawMarks?: (m: RowMarksContext) => void;
+  /** Formats the time axis labels (seconds from the reference). */
+  formatTime?: (t: number) => string;
+  /** Told whenever the window changes. */
+  onWindow?: (x0: number, x1: number) => void;
+  /** Pointer down on a row's plot area: return true to take over the drag (e.g. moving a pick). */
+  onPointerDown?: (row: SiteRow, t: number, band: number, ev: PointerEvent) => boolean;
+}
+
+interface PlotSlot {
+  el: HTMLDivElement;
+  label: HTMLDivElement;
+  plotHost: HTMLDivElement;
+  plot: uPlot | null;
+  series: number;
+  rowIndex: number;
+}
+
+const TRACE_COLOURS = ['var(--trace)', 'var(--trace)', 'var(--trace)'];
+
+export class TraceView {
+  readonly root: HTMLDivElement;
+  private readonly scroller: HTMLDivElement;
+  private readonly spacer: HTMLDivElement;
+  private readonly axisHost: HTMLDivElement;
+  private axis: uPlot | null = null;
+  private rows: SiteRow[] = [];
+  private slots: PlotSlot[] = [];
+  private full: [number, number] = [0, 1];
+  private win: [number, number] = [0, 1];
+  private amplitude: 'trace' | 'common' = 'trace';
+  private rafPending = false;
+  private readonly opts: Required<Omit<TraceViewOptions, 'drawMarks' | 'onWindow' | 'onPointerDown'>> & TraceViewOptions;
+  private readonly selectBox: HTMLDivElement;
+  private traceColour = '#ccc';
+  private resizeObserver: ResizeObserver;
+
+  constructor(container: HTMLElement, opts: TraceViewOptions = {}) {
+    this.opts = { bandHeight: 34, labelWidth: 116, formatTime: (t) => t.toFixed(2), ...opts };
+    this.root = document.createElement('div');
+    this.root.className = 'trace-view';
+    this.axisHost = document.createElement('div');
+    this.axisHost.className = 'trace-axis';
+    this.scroller = document.createElement('div');
+    this.scroller.className = 'trace-scroller';
+    this.spacer = document.createElement('div');
+    this.spacer.className = 'trace-spacer';
+    this.selectBox = document.createElement('div');
+    this.selectBox.className = 'trace-select';
+    this.scroller.append(this.spacer);
+    this.root.append(this.axisHost, this.scroller, this.selectBox);
+    container.append(this.root);
+    this.scroller.addEventListener('scroll', () => this.schedule());
+    this.bindPointer();
+    this.resizeObserver = new ResizeObserver(() => { this.rebuildAxis(); this.schedule(true); });
+    this.resizeObserver.observe(this.root);
+  }
+
+  destroy(): void {
+    this.resizeObserver.disconnect();
+    for (const s of this.slots) s.plot?.destroy();
+    this.axis?.destroy();
+    this.root.remove();
+  }
+
+  /** Replaces the rows; `span` is the full time span [x0, x1] in seconds. */
+  setRows(rows: SiteRow[], span: [number, number]): void {
+    this.rows = rows;
+    this.full = span;
+    this.win = [span[0], span[1]];
+    this.traceColour = getComputedStyle(this.root).getPropertyValue('--trace').trim() || '#ccc';
+    this.layout();
+    this.rebuildAxis();
+    this.drawNow(true);
+  }
+
+  /** Re-draws after the samples of some rows changed (e.g. a new filter). */
+  refresh(): void {
+    this.drawNow(true);
+  }
+
+  get window(): [number, number] {
+    return [this.win[0], this.win[1]];
+  }
+
+  setWindow(x0: number, x1: number): void {
+    const minSpan = 0.02;
+    if (x1 - x0 < minSpan) {
+      const c = (x0 + x1) / 2;
+      x0 = c - minSpan / 2;
+      x1 = c + minSpan / 2;
+    }
+    this.win = [x0, x1];
+    this.opts.onWindow?.(x0, x1);
+    this.schedule();
+  }
+
+  resetWindow(): void {
+    this.setWindow(this.full[0], this.full[1]);
+  }
+
+  setAmplitudeMode(mode: 'trace' | 'common'): void {
+    this.amplitude = mode;
+    this.schedule(true);
+  }
+
+  /** Canvas-independent mapping: time at a client x coordinate over the plot area. */
+  timeAtClientX(clientX: number): number {
+    const r = this.plotRect();
+    return this.win[0] + ((clientX - r.left) / r.width) * (this.win[1] - this.win[0]);
+  }
+
+  clientXOfTime(t: number): number {
+    const r = this.plotRect();
+    return r.left + ((t - this.win[0]) / (this.win[1] - this.win[0])) * r.width;
+  }
+
+  /** Asks for a redraw of marks only (picks changed). */
+  redrawMarks(): void {
+    for (const s of this.slots) s.plot?.redraw(false, false);
+  }
+
+  /** Scrolls so that row `index` is visible. */
+  revealRow(index: number): void {
+    const top = this.rowTop(index);
+    const h = this.rowHeight(this.rows[index]);
+    if (top < this.scroller.scrollTop) this.scroller.scrollTop = top;
+    else if (top + h > this.scroller.scrollTop + this.scroller.clientHeight) this.scroller.scrollTop = top + h - this.scroller.clientHeight;
+  }
+
+  private plotRect(): { left: number; width: number } {
+    const r = this.scroller.getBoundingClientRect();
+    const left = r.left + this.opts.labelWidth;
+    return { left, width: Math.max(1, this.scroller.clientWidth - this.opts.labelWidth) };
+  }
+
+  private rowHeight(row: SiteRow): number {
+    return Math.max(1, row.components.length) * this.opts.bandHeight + 4;
+  }
+
+  private rowTop(index: number): number {
+    let y = 0;
+    for (let i = 0; i < index; i++) y += this.rowHeight(this.rows[i]);
+    return y;
+  }
+
+  private layout(): void {
+    let total = 0;
+    for (const r of this.rows) total += this.rowHeight(r);
+    this.spacer.style.height = `${total}px`;
+  }
+
+  private schedule(rebuild = false): void {
+    if (rebuild) this.forceRebuild = true;
+    if (this.rafPending) return;
+    this.rafPending = true;
+    requestAnimationFrame(() => {
+      this.rafPending = false;
+      this.drawNow(this.forceRebuild);
+      this.forceRebuild = false;
+    });
+  }
+  private forceRebuild = false;
+
+  private rebuildAxis(): void {
+    this.axis?.destroy();
+    const width = Math.max(50, this.scroller.clientWidth - this.opts.labelWidth);
+    const fmt = this.opts.formatTime;
+    this.axisHost.style.paddingLeft = `${this.opts.labelWidth}px`;
+    this.axis = new uPlot({
+      width, height: 30,
+      legend: { show: false }, cursor: { show: false },
+      scales: { x: { time: false, auto: false }, y: { auto: false, range: [0, 1] } },
+      series: [{}, { show: false }],
+      axes: [
+        { side: 0, size: 28, stroke: 'var(--muted)', grid: { show: false }, ticks: { stroke: 'var(--line)' }, values: (_u, vals) => vals.map((v) => fmt(v)) },
+        { show: false },
+      ],
+    }, [[this.win[0], this.win[1]], [null, null]], this.axisHost);
+  }
+
+  /** Draws the rows in view: pooled plots get their row's data for the current window. */
+  private drawNow(rebuild: boolean): void {
+    const [x0, x1] = this.win;
+    this.axis?.setScale('x', { min: x0, max: x1 });
+    const viewTop = this.scroller.scrollTop;
+    const viewBottom = viewTop + this.scroller.clientHeight;
+    const width = Math.max(50, this.scroller.clientWidth - this.opts.labelWidth);
+    // Rows in view (plus one screen of margin below for smooth scrolling).
+    const wanted: number[] = [];
+    let y = 0;
+    for (let i = 0; i < this.rows.length; i++) {
+      const h = this.rowHeight(this.rows[i]);
+      if (y + h >= viewTop && y <= viewBottom + this.scroller.clientHeight * 0.5) wanted.push(i);
+      y += h;
+    }
+    // Free slots whose rows left the view.
+    const keep = new Set(wanted);
+    const free: PlotSlot[] = [];
+    for (const s of this.slots) if (!keep.has(s.rowIndex)) { s.rowIndex = -1; s.el.style.display = 'none'; free.push(s); }
+    const byRow = new Map(this.slots.filter((s) => s.rowIndex >= 0).map((s) => [s.rowIndex, s]));
+    let common = 0;
+    const rowsData = new Map<number, ReturnType<typeof rowColumns>>();
+    for (const i of wanted) {
+      const d = rowColumns(this.rows[i].components, x0, x1, width);
+      rowsData.set(i, d);
+      for (const [lo, hi] of d.ranges) if (Number.isFinite(lo)) common = Math.max(common, (hi - lo) / 2);
+    }
+    for (const i of wanted) {
+      const row = this.rows[i];
+      let slot = byRow.get(i);
+      if (!slot) {
+        slot = free.pop() ?? this.newSlot();
+        slot.rowIndex = i;
+        slot.label.replaceChildren(labelContent(row));
+        slot.el.title = row.flags?.join('\n') ?? '';
+        rebuild = true;
+      }
+      slot.el.style.display = '';
+      slot.el.style.top = `${this.rowTop(i)}px`;
+      const h = this.rowHeight(row);
+      slot.el.style.height = `${h}px`;
+      const d = rowsData.get(i)!;
+      const nComp = row.components.length;
+      const ys = d.data.slice(1) as (number | null | undefined)[][];
+      const placed: (number | null | undefined)[][] = ys.map((col, c) => {
+        const [lo, hi] = d.ranges[c];
+        const mid = (lo + hi) / 2;
+        const half = this.amplitude === 'common' ? common : (hi - lo) / 2;
+        const scale = half > 0 ? 0.46 / half : 0;
+        const centre = nComp - c - 0.5;
+        return col.map((v) => (v === null || v === undefined ? v : centre + (v - mid) * scale));
+      });
+      const data = [d.data[0], ...placed] as uPlot.AlignedData;
+      if (!slot.plot || slot.series !== nComp || slot.plot.width !== width || slot.plot.height !== h - 4) {
+        slot.plot?.destroy();
+        slot.plot = this.newPlot(slot, nComp, width, h - 4, data);
+        slot.series = nComp;
+      } else {
+        slot.plot.batch(() => {
+          slot!.plot!.setData(data, false);
+          slot!.plot!.setScale('x', { min: x0, max: x1 });
+        });
+      }
+    }
+    void rebuild;
+  }
+
+  private newSlot(): PlotSlot {
+    const el = document.createElement('div');
+    el.className = 'trace-row';
+    const label = document.createElement('div');
+    label.className = 'trace-label';
+    label.style.width = `${this.opts.labelWidth}px`;
+    const plotHost = document.createElement('div');
+    plotHost.className = 'trace-plot';
+    el.append(label, plotHost);
+    this.spacer.append(el);
+    const slot: PlotSlot = { el, label, plotHost, plot: null, series: 0, rowIndex: -1 };
+    this.slots.push(slot);
+    return slot;
+  }
+
+  private newPlot(slot: PlotSlot, nComp: number, width: number, height: number, data: uPlot.AlignedData): uPlot {
+    const series: uPlot.Series[] = [{}];
+    for (let c = 0; c < nComp; c++) {
+      series.push({ stroke: this.traceColour || TRACE_COLOURS[c], width: 1, points: { show: false }, spanGaps: false });
+    }
+    return new uPlot({
+      width, height,
+      legend: { show: false },
+      cursor: { x: true, y: false, points: { show: false }, drag: { x: false, y: false, setScale: false }, sync: { key: 'daybreak-traces' } },
+      select: { show: false, left: 0, top: 0, width: 0, height: 0 },
+      scales: { x: { time: false, auto: false, min: this.win[0], max: this.win[1] }, y: { auto: false, range: [0, nComp] } },
+      axes: [{ show: false }, { show: false }],
+      series,
+      hooks: {
+        draw: [(u: uPlot) => {
+          const drawMarks = this.opts.drawMarks;
+          if (!drawMarks || slot.rowIndex < 0) return;
+          const row = this.rows[slot.rowIndex];
+          const { left, top, width: w, height: hh } = u.bbox;
+          u.ctx.save();
+          u.ctx.beginPath();
+          u.ctx.rect(left, top, w, hh);
+          u.ctx.clip();
+          drawMarks({
+            row, ctx: u.ctx, left, top, width: w, height: hh, pxRatio: uPlot.pxRatio,
+            xOf: (t) => u.valToPos(t, 'x', true),
+            band: (c) => [u.valToPos(nComp - c, 'y', true), u.valToPos(nComp - c - 1, 'y', true)],
+          });
+          u.ctx.restore();
+        }],
+      },
+    }, data, slot.plotHost);
+  }
+
+  private bindPointer(): void {
+    let mode: 'none' | 'box' | 'pan' | 'external' = 'none';
+    let startX = 0;
+    let startWin: [number, number] = [0, 1];
+    this.scroller.addEventListener('wheel', (e) => {
+      if (e.shiftKey) return; // Shift+wheel scrolls the rows
+      e.preventDefault();
+      const t = this.timeAtClientX(e.clientX);
+      const factor = Math.exp(Math.sign(e.deltaY) * Math.min(Math.abs(e.deltaY), 200) * 0.002);
+      const [x0, x1] = this.win;
+      this.setWindow(t - (t - x0) * factor, t + (x1 - t) * factor);
+    }, { passive: false });
+    this.scroller.addEventListener('contextmenu', (e) => e.preventDefault());
+    this.scroller.addEventListener('pointerdown', (e) => {
+      const rect = this.plotRect();
+      if (e.clientX < rect.left) return;
+      const rowIndex = this.rowIndexAtClientY(e.clientY);
+      if (e.button === 0 && !e.shiftKey && rowIndex >= 0 && this.opts.onPointerDown) {
+        const row = this.rows[rowIndex];
+        const band = this.bandAtClientY(rowIndex, e.clientY);
+        if (this.opts.onPointerDown(row, this.timeAtClientX(e.clientX), band, e)) { mode = 'external'; return; }
+      }
+      startX = e.clientX;
+      startWin = [this.win[0], this.win[1]];
+      mode = e.button === 2 || (e.button === 0 && e.shiftKey) || e.button === 1 ? 'pan' : 'box';
+      this.scroller.setPointerCapture(e.pointerId);
+      e.preventDefault();
+    });
+    this.scroller.addEventListener('pointermove', (e) => {
+      if (mode === 'pan') {
+        const r = this.plotRect();
+        const dt = ((e.clientX - startX) / r.width) * (startWin[1] - startWin[0]);
+        this.setWindow(startWin[0] - dt, startWin[1] - dt);
+      } else if (mode === 'box') {
+        const a = Math.min(startX, e.clientX);
+        const b = Math.max(startX, e.clientX);
+        const root = this.root.getBoundingClientRect();
+        const sc = this.scroller.getBoundingClientRect();
+        Object.assign(this.selectBox.style, {
+          display: 'block', left: `${a - root.left}px`, width: `${b - a}px`, top: `${sc.top - root.top}px`, height: `${sc.height}px`,
+        });
+      }
+    });
+    const finish = (e: PointerEvent) => {
+      if (mode === 'box') {
+        this.selectBox.style.display = 'none';
+        if (Math.abs(e.clientX - startX) > 4) {
+          const t0 = this.timeAtClientX(Math.min(startX, e.clientX));
+          const t1 = this.timeAtClientX(Math.max(startX, e.clientX));
+          this.setWindow(t0, t1);
+        }
+      }
+      mode = 'none';
+    };
+    this.scroller.addEventListener('pointerup', finish);
+    this.scroller.addEventListener('pointercancel', finish);
+  }
+
+  private rowIndexAtClientY(clientY: number): number {
+    const r = this.scroller.getBoundingClientRect();
+    let y = clientY - r.top + this.scroller.scrollTop;
+    for (let i = 0; i < this.rows.length; i++) {
+      const h = this.rowHeight(this.rows[i]);
+      if (y < h) return i;
+      y -= h;
+    }
+    return -1;
+  }
+
+  private bandAtClientY(rowIndex: number, clientY: number): number {
+    const r = this.scroller.getBoundingClientRect();
+    const y = clientY - r.top + this.scroller.scrollTop - this.rowTop(rowIndex);
+    return Math.min(this.rows[rowIndex].components.length - 1, Math.max(0, Math.floor(y / this.opts.bandHeight)));
+  }
+}
+
+function labelContent(row: SiteRow): DocumentFragment {
+  const f = document.createDocumentFragment();
+  const name = document.createElement('div');
+  name.className = 'site';
+  name.textContent = row.label;
+  f.append(name);
+  if (row.detail) {
+    const d = document.createElement('div');
+    d.className = 'detail';
+    d.textContent = row.detail;
+    f.append(d);
+  }
+  const comps = document.createElement('div');
+  comps.className = 'comps';
+  comps.textContent = row.components.map((c) => c.label).join(' ');
+  f.append(comps);
+  if (row.flags?.length) {
+    const w = document.createElement('div');
+    w.className = 'flags';
+    w.textContent = row.flags.map((x) => `\u25b2 ${x}`).join(' ');
+    f.append(w);
+  }
+  return f;
+}
