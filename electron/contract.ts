@@ -58,6 +58,8 @@ export interface HostRequests {
   'dataset.open': [{ root: string }, Dataset];
   /** Whole file bytes; `path` relative to an opened dataset's root. */
   'file.read': [{ root: string; path: string }, Uint8Array];
+  /** Bytes [offset, offset + length) of a file (fewer at its end). */
+  'file.readRange': [{ root: string; path: string; offset: number; length: number }, Uint8Array];
 }
 
 export type HostRequestName = keyof HostRequests;
@@ -66,11 +68,11 @@ export type ResponseOf<N extends HostRequestName> = HostRequests[N][1];
 
 /** Names the host answers, for validation on both sides. */
 export const HOST_REQUEST_NAMES: readonly HostRequestName[] = [
-  'app.info', 'demo.status', 'demo.ensure', 'dataset.open', 'file.read',
+  'app.info', 'demo.status', 'demo.ensure', 'dataset.open', 'file.read', 'file.readRange',
 ];
 
 /** Requests whose response is raw bytes (sent as application/octet-stream over HTTP). */
-export const BINARY_RESPONSES: ReadonlySet<HostRequestName> = new Set<HostRequestName>(['file.read']);
+export const BINARY_RESPONSES: ReadonlySet<HostRequestName> = new Set<HostRequestName>(['file.read', 'file.readRange']);
 
 /** What the renderer holds: one method for every request. */
 export interface HostApi {

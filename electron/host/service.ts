@@ -3,7 +3,7 @@
  * desktop shell (over IPC) and the browser mode (over HTTP). Every request is validated here, once,
  * whatever carried it; paths are confined to the folders the user opened and the demo folder.
  */
-import { readdir, readFile, stat, access, constants } from 'node:fs/promises';
+import { readdir, readFile, stat, access, constants, open } from 'node:fs/promises';
 import { existsSync } from 'node:fs';
 import { join, relative, resolve, sep } from 'node:path';
 import type {
@@ -34,6 +34,7 @@ type Handlers = { [N in HostRequestName]: (req: RequestOf<N>) => Promise<Respons
 export const DEMO_COMPLETE_MARKER = 'scenario-complete.json';
 
 const MAX_FILES_LISTED = 200_000;
+const MAX_RANGE_BYTES = 256 << 20;
 
 export class HostService {
   private readonly openRoots = new Set<string>();
@@ -54,6 +55,7 @@ export class HostService {
       'demo.ensure': async () => this.ensureDemo(),
       'dataset.open': async (req) => this.openDataset(req.root),
       'file.read': async (req) => this.readDatasetFile(req.root, req.path),
+      'file.readRange': async (req) => this.readDatasetRange(req.root, req.path, req.offset, req.length),
     };
   }
 
@@ -103,6 +105,32 @@ export class HostService {
   }
 
   private async readDatasetFile(rootArg: unknown, pathArg: unknown): Promise<Uint8Array> {
+    const bytes = await readFile(this.datasetPath(rootArg, pathArg));
+    return new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  }
+
+  private async readDatasetRange(rootArg: unknown, pathArg: unknown, offset: unknown, length: unknown): Promise<Uint8Array> {
+    if (!Number.isSafeInteger(offset) || (offset as number) < 0) throw new HostError('bad-request', `offset must be an integer >= 0, got ${String(offset)}`);
+    if (!Number.isSafeInteger(length) || (length as number) < 0 || (length as number) > MAX_RANGE_BYTES) {
+      throw new HostError('bad-request', `length must be an integer 0..${MAX_RANGE_BYTES}, got ${String(length)}`);
+    }
+    const handle = await open(this.datasetPath(rootArg, pathArg), 'r');
+    try {
+      const buf = new Uint8Array(length as number);
+      let got = 0;
+      while (got < buf.length) {
+        const { bytesRead } = await handle.read(buf, got, buf.length - got, (offset as number) + got);
+        if (bytesRead === 0) break;
+        got += bytesRead;
+      }
+      return buf.subarray(0, got);
+    } finally {
+      await handle.close();
+    }
+  }
+
+  /** Absolute path of a file inside an opened dataset (or the demo folder); refuses anything outside. */
+  private datasetPath(rootArg: unknown, pathArg: unknown): string {
     const root = this.checkRootArg(rootArg);
     if (!this.openRoots.has(root) && root !== this.demo.root) {
       throw new HostError('forbidden', `folder was not opened: ${root}`);
@@ -115,8 +143,7 @@ export class HostService {
     if (rel.startsWith('..') || resolve(root, rel) !== full || rel === '') {
       throw new HostError('forbidden', `path leaves the dataset folder: ${pathArg}`);
     }
-    const bytes = await readFile(full);
-    return new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+    return full;
   }
 
   private checkRootArg(rootArg: unknown): string {

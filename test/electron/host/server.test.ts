@@ -101,6 +101,16 @@ describe('browser-mode server', () => {
     expect(unopened).toMatchObject({ ok: false, code: 'forbidden' });
   });
 
+  it('returns a byte range of a file, shorter at its end', async () => {
+    await api('dataset.open', { root: dataRoot });
+    const mid = await api('file.readRange', { root: dataRoot, path: 'day1/XX.AB..HHZ.mseed', offset: 1, length: 2 });
+    expect([...mid.body]).toEqual([2, 3]);
+    const tail = await api('file.readRange', { root: dataRoot, path: 'day1/XX.AB..HHZ.mseed', offset: 2, length: 100 });
+    expect([...tail.body]).toEqual([3, 250]);
+    const bad = JSON.parse((await api('file.readRange', { root: dataRoot, path: 'day1/XX.AB..HHZ.mseed', offset: -1, length: 2 })).body.toString());
+    expect(bad).toMatchObject({ ok: false, code: 'bad-request' });
+  });
+
   it('answers bad arguments and unknown requests with a value, not a crash', async () => {
     expect(JSON.parse((await api('file.read', { root: 42 })).body.toString())).toMatchObject({ ok: false, code: 'bad-request' });
     expect(JSON.parse((await api('no.such', {})).body.toString())).toMatchObject({ ok: false, code: 'bad-request' });
