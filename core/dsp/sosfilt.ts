@@ -1,0 +1,138 @@
+/**
+ * Causal filtering by a cascade of second-order sections (transposed direct form II, as scipy's
+ * `sosfilt`), and the steady-state initial conditions of the cascade (scipy's `sosfilt_zi`).
+ *
+ * The state is a Float64Array of 2 numbers per section, [z1, z2] (scipy's `zi[s, 0]`, `zi[s, 1]`).
+ * Per sample v and section: y = b0·v + z1; z1 = (b1·v + z2) − a1·y; z2 = b2·v − a2·y. Written that
+ * way the loop-carried chain through y is one multiply and one subtract, and z2's products can start
+ * early. The inner loops run two sections per pass over the samples with every coefficient and state
+ * in local variables (two independent recurrences keep the floating-point units busy).
+ */
+import type { SampleArray } from '../model';
+import { checkSamples, outputArray } from './checkSamples';
+
+/** Checks the shape of a section array (6 numbers per section, a0 = 1) and returns the section count. */
+export function sectionCount(sos: Float64Array): number {
+  if (!(sos instanceof Float64Array)) throw new TypeError('second-order sections must be a Float64Array of 6 coefficients per section');
+  if (sos.length === 0 || sos.length % 6 !== 0) {
+    throw new RangeError(`second-order sections need 6 coefficients per section (a positive multiple of 6), got ${sos.length}`);
+  }
+  const n = sos.length / 6;
+  for (let s = 0; s < n; s++) {
+    if (sos[6 * s + 3] !== 1) throw new RangeError(`section ${s}: a0 must be 1 (normalised sections), got ${sos[6 * s + 3]}`);
+  }
+  return n;
+}
+
+/**
+ * Initial state for which the cascade's response to a unit step is already steady (multiply by the
+ * first sample to start a signal without a start-up transient), as scipy's `sosfilt_zi`.
+ * Per section with b, a: zi solves zi = A·zi + B for the section's companion matrix, scaled by the
+ * DC gain of the sections before it.
+ */
+export function sosfiltZi(sos: Float64Array): Float64Array {
+  const n = sectionCount(sos);
+  const zi = new Float64Array(2 * n);
+  let scale = 1;
+  for (let s = 0; s < n; s++) {
+    const k = 6 * s;
+    const b0 = sos[k], b1 = sos[k + 1], b2 = sos[k + 2], a1 = sos[k + 4], a2 = sos[k + 5];
+    // (1 + a1)·z1 − z2 = b1 − a1·b0 and a2·z1 + z2 = b2 − a2·b0.
+    const r1 = b1 - a1 * b0;
+    const r2 = b2 - a2 * b0;
+    const z1 = (r1 + r2) / (1 + a1 + a2);
+    zi[2 * s] = scale * z1;
+    zi[2 * s + 1] = scale * (r2 - a2 * z1);
+    scale *= (b0 + b1 + b2) / (1 + a1 + a2);
+  }
+  return zi;
+}
+
+/**
+ * Two sections, k and k + 6, over dst[first], dst[first + step], ... (stop excluded), reading src
+ * (which may be dst). State of section s at state[2s], state[2s + 1], read and written back.
+ */
+function twoSections(sos: Float64Array, k: number, state: Float64Array, src: Float64Array, dst: Float64Array, first: number, stop: number, step: number): void {
+  const b0 = sos[k], b1 = sos[k + 1], b2 = sos[k + 2], a1 = sos[k + 4], a2 = sos[k + 5];
+  const c0 = sos[k + 6], c1 = sos[k + 7], c2 = sos[k + 8], d1 = sos[k + 10], d2 = sos[k + 11];
+  const j = k / 3;
+  let z1 = state[j], z2 = state[j + 1], w1 = state[j + 2], w2 = state[j + 3];
+  for (let i = first; i !== stop; i += step) {
+    const v = src[i];
+    const y = b0 * v + z1;
+    z1 = (b1 * v + z2) - a1 * y;
+    z2 = b2 * v - a2 * y;
+    const u = c0 * y + w1;
+    w1 = (c1 * y + w2) - d1 * u;
+    w2 = c2 * y - d2 * u;
+    dst[i] = u;
+  }
+  state[j] = z1; state[j + 1] = z2; state[j + 2] = w1; state[j + 3] = w2;
+}
+
+/** One section k, as {@link twoSections}. */
+function oneSection(sos: Float64Array, k: number, state: Float64Array, src: Float64Array, dst: Float64Array, first: number, stop: number, step: number): void {
+  const b0 = sos[k], b1 = sos[k + 1], b2 = sos[k + 2], a1 = sos[k + 4], a2 = sos[k + 5];
+  const j = k / 3;
+  let z1 = state[j], z2 = state[j + 1];
+  for (let i = first; i !== stop; i += step) {
+    const v = src[i];
+    const y = b0 * v + z1;
+    z1 = (b1 * v + z2) - a1 * y;
+    z2 = b2 * v - a2 * y;
+    dst[i] = y;
+  }
+  state[j] = z1; state[j + 1] = z2;
+}
+
+/**
+ * Runs the whole cascade over `src` into `dst` (which may be `src`), forward (`reverse` false) or
+ * from the last sample to the first. No argument checks: for this module and sosfiltfilt.
+ */
+export function runCascade(sos: Float64Array, state: Float64Array, src: Float64Array, dst: Float64Array, reverse: boolean): void {
+  const n = src.length;
+  if (n === 0) return;
+  const first = reverse ? n - 1 : 0;
+  const stop = reverse ? -1 : n;
+  const step = reverse ? -1 : 1;
+  const sections = sos.length / 6;
+  let from = src;
+  let s = 0;
+  for (; s + 1 < sections; s += 2) {
+    twoSections(sos, 6 * s, state, from, dst, first, stop, step);
+    from = dst;
+  }
+  if (s < sections) oneSection(sos, 6 * s, state, from, dst, first, stop, step);
+}
+
+export interface SosfiltOptions {
+  /**
+   * Filter state, 2 numbers per section: read as the initial conditions (zeros when absent) and
+   * overwritten with the final conditions, so the next chunk of the same stream continues seamlessly
+   * when given the same array.
+   */
+  state?: Float64Array;
+  /** Where to write the output (length of x); may be x itself when x is a Float64Array. */
+  out?: Float64Array;
+}
+
+/**
+ * Causal filtering of `x` by second-order sections `sos` (6 per section, see `butterworth`), as
+ * scipy's `sosfilt(sos, x, zi=state)`. Returns the filtered samples (float64, same units as x).
+ */
+export function sosfilt(sos: Float64Array, x: SampleArray, options: SosfiltOptions = {}): Float64Array {
+  const sections = sectionCount(sos);
+  checkSamples(x);
+  const { state = new Float64Array(2 * sections) } = options;
+  if (!(state instanceof Float64Array) || state.length !== 2 * sections) {
+    throw new RangeError(`filter state must be a Float64Array of 2 per section (${2 * sections}), got length ${(state as { length?: number }).length}`);
+  }
+  const out = outputArray(x.length, options.out);
+  if (x instanceof Float64Array) {
+    runCascade(sos, state, x, out, false);
+  } else {
+    out.set(x);
+    runCascade(sos, state, out, out, false);
+  }
+  return out;
+}
