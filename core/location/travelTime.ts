@@ -19,7 +19,10 @@
  *   runs along its top: low-velocity layers are handled by this rule). It exists from its critical
  *   distance on, and its time is x/v_m plus the intercept sum over the legs, h_i sqrt(1/v_i^2 -
  *   1/v_m^2). Named 'Pn' / 'Sn' along the top of the half-space (the last layer) and 'P1', 'S1',
- *   'P2', ... along the top of intermediate layer 1, 2, ... (layer indices count from 0 at the datum).
+ *   'P2', ... along the top of intermediate layer 1, 2, ... (layer indices count from 0 at the datum);
+ * - by the same rule a head wave along the base of a layer m above both ends, when it is faster than
+ *   every layer from it down to the deeper end (this needs a receiver below the datum, in a borehole
+ *   under a faster layer); named 'P' + m / 'S' + m as well (so 'P0' runs along the base of the top layer).
  * The fastest of these is returned. Reflections are never first (a wide-angle reflection is always
  * later than the direct or the head wave it tends to), and a flat model has no turning rays.
  *
@@ -35,7 +38,7 @@ export type Wave = 'P' | 'S';
 export interface TravelTime {
   /** Travel time, seconds. */
   time: number;
-  /** 'Pg'/'Sg' direct; 'Pn'/'Sn' head wave along the half-space's top; 'P1'/'S1', ... along layer 1's, ... top. */
+  /** 'Pg'/'Sg' direct; 'Pn'/'Sn' head wave along the half-space's top; 'P1'/'S1', ... head wave in layer 1, ... (see above). */
   phase: string;
   /** Angle of the ray at the source from the downward vertical, degrees (0 down, 90 horizontal, >90 upward). */
   takeoffDeg: number;
@@ -149,54 +152,53 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
   let cosS = dCosSrc; // cos of the ray's angle to the vertical at the source
   let cosR = dCosRcv;
   let phase: string = names.direct;
-  let head = false;
 
-  // ---- head waves along the tops of layers below both ends
+  // ---- head waves along the tops of layers below both ends, and along the bases of layers above
+  // both ends (only possible for a receiver below the datum under a faster layer)
   const kTop = ks < kr ? ks : kr;
   const kBot = ks < kr ? kr : ks;
-  let vAbove = 0;
-  for (let i = kTop; i <= kBot; i++) if (v[i] > vAbove) vAbove = v[i];
+  let vPath = 0;
+  for (let i = kTop; i <= kBot; i++) if (v[i] > vPath) vPath = v[i];
+  let headDir = 0; // 0 direct, 1 head wave below both ends, -1 above both ends
+  let vFaster = vPath;
   for (let m = kBot + 1; m < n; m++) {
     const vm = v[m];
-    if (vm > vAbove) {
-      const pm = 1 / vm;
-      const pm2 = pm * pm;
-      let tau = 0;
-      let xc = 0;
-      for (let i = kTop; i < m; i++) {
-        const bottom = tops[i + 1];
-        const top = i === 0 ? -Infinity : tops[i];
-        // Thickness of layer i on the source's leg plus on the receiver's leg, down to the top of m.
-        const hs = bottom - (zs > top ? zs : top);
-        const hr = bottom - (zr > top ? zr : top);
-        const h = (hs > 0 ? hs : 0) + (hr > 0 ? hr : 0);
-        if (h > 0) {
-          const eta = Math.sqrt(1 / (v[i] * v[i]) - pm2);
-          tau += h * eta;
-          xc += h / eta;
-        }
+    if (vm > vFaster) {
+      const t = headTime(tops, v, n, m, 1, x, zs, zr, kTop);
+      if (t < time) {
+        time = t;
+        p = 1 / vm;
+        phase = m === n - 1 ? names.half : names.prefix + m;
+        headDir = 1;
       }
-      xc *= pm;
-      if (x >= xc) {
-        const t = x * pm + tau;
-        if (t < time) {
-          time = t;
-          p = pm;
-          cosS = Math.sqrt(1 - vsrc * vsrc * pm2);
-          cosR = Math.sqrt(1 - vrcv * vrcv * pm2);
-          phase = m === n - 1 ? names.half : names.prefix + m;
-          head = true;
-        }
-      }
+      vFaster = vm;
     }
-    if (vm > vAbove) vAbove = vm;
+  }
+  vFaster = vPath;
+  for (let m = kTop - 1; m >= 0; m--) {
+    const vm = v[m];
+    if (vm > vFaster) {
+      const t = headTime(tops, v, n, m, -1, x, zs, zr, kBot);
+      if (t < time) {
+        time = t;
+        p = 1 / vm;
+        phase = names.prefix + m;
+        headDir = -1;
+      }
+      vFaster = vm;
+    }
+  }
+  const head = headDir !== 0;
+  if (head) {
+    cosS = Math.sqrt(1 - vsrc * vsrc * p * p);
+    cosR = Math.sqrt(1 - vrcv * vrcv * p * p);
   }
 
   // ---- angles and derivatives. Sign of the vertical direction the ray leaves the source in:
-  // head waves always go down; the direct wave goes up when the source is the deeper end.
+  // a head wave goes toward its refractor; the direct wave goes up when the source is the deeper end.
   const sinS = p * vsrc;
   const sinR = p * vrcv;
-  const up = !head && zs > zr;
+  const up = head ? headDir < 0 : zs > zr;
   const angS = Math.atan2(sinS, cosS) * RAD;
   const angR = Math.atan2(sinR, cosR) * RAD;
   out.time = time;
@@ -204,7 +206,7 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
   out.slownessH = p;
   if (up) {
     out.takeoffDeg = 180 - angS;
-    out.incidenceDeg = angR;
+    out.incidenceDeg = headDir < 0 ? 180 - angR : angR;
     out.dTdDepth = cosS / vsrc;
   } else if (!head && zs === zr) {
     // Both ends at one depth: the ray runs horizontally (or, at x = 0, the limit from above: down).
@@ -213,10 +215,47 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
     out.dTdDepth = x > 0 ? 0 : -1 / vsrc;
   } else {
     out.takeoffDeg = angS;
-    out.incidenceDeg = head ? angR : 180 - angR;
+    out.incidenceDeg = headDir > 0 ? angR : 180 - angR;
     out.dTdDepth = -cosS / vsrc;
   }
   return out;
+}
+
+/**
+ * Time of the head wave running in layer m, or Infinity before its critical distance. dir = 1: along
+ * the top of m, below both ends (legs go down through layers kEnd..m-1, kEnd the shallower end's
+ * layer); dir = -1: along the base of m, above both ends (legs go up through m+1..kEnd, kEnd the
+ * deeper end's layer). Time = x/v_m + sum h_i sqrt(1/v_i^2 - 1/v_m^2) over both legs, from the
+ * critical distance sum h_i tan(i_i) on (Stein & Wysession 2003, section 3.2).
+ */
+function headTime(tops: Float64Array, v: Float64Array, n: number, m: number, dir: number, x: number, zs: number, zr: number, kEnd: number): number {
+  const pm = 1 / v[m];
+  const pm2 = pm * pm;
+  let tau = 0;
+  let xc = 0;
+  const iFrom = dir > 0 ? kEnd : m + 1;
+  const iTo = dir > 0 ? m - 1 : kEnd;
+  for (let i = iFrom; i <= iTo; i++) {
+    const top = i === 0 ? -Infinity : tops[i];
+    const bottom = i === n - 1 ? Infinity : tops[i + 1];
+    // Thickness of layer i on the source's leg plus on the receiver's leg.
+    let hs: number;
+    let hr: number;
+    if (dir > 0) {
+      hs = bottom - (zs > top ? zs : top);
+      hr = bottom - (zr > top ? zr : top);
+    } else {
+      hs = (zs < bottom ? zs : bottom) - top;
+      hr = (zr < bottom ? zr : bottom) - top;
+    }
+    const h = (hs > 0 ? hs : 0) + (hr > 0 ? hr : 0);
+    if (h > 0) {
+      const eta = Math.sqrt(1 / (v[i] * v[i]) - pm2);
+      tau += h * eta;
+      xc += h / eta;
+    }
+  }
+  return x >= xc * pm ? x * pm + tau : Infinity;
 }
 
 // Results of solveDirect (module-level so the hot path allocates nothing).
@@ -267,8 +306,6 @@ function solveDirect(c: Compiled, v: Float64Array, x: number, zs: number, zr: nu
     if (v[i] === vmax) hmax += h[i];
     t0 += h[i] / v[i];
   }
-  const vS = v[ks];
-  const vR = v[kr];
   if (x === 0 || H === 0) {
     if (x === 0) {
       dTime = t0; dP = 0; dCosSrc = 1; dCosRcv = 1;
