@@ -397,7 +397,9 @@ export class MiniSeedCollector {
     }
     const channels: ChannelData[] = [];
     for (const [, ch] of [...this.channels.entries()].sort((a, b) => (a[0] < b[0] ? -1 : a[0] > b[0] ? 1 : 0))) {
-      channels.push(this.finishChannel(ch));
+      const data = this.finishChannel(ch);
+      // A channel all of whose records failed to decode has nothing to show; its errors are reported.
+      if (data.segments.length > 0 || data.overlaps.length > 0) channels.push(data);
     }
     const logs: LogChannel[] = [...this.logs.entries()]
       .sort((a, b) => (a[0] < b[0] ? -1 : 1))
