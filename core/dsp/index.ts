@@ -3,6 +3,7 @@ export { type FilterKind, type Corners, MIN_ORDER, MAX_ORDER, butterworth, butte
 export { type FilterRequest, type ChannelFilter, DEFAULT_NYQUIST_FRACTION, designForChannel } from './designForChannel';
 export { type Zpk, butterworthPrototype, prewarp, lowpassToLowpass, lowpassToHighpass, lowpassToBandpass, bilinear } from './zpk';
 export { zpkToSos } from './zpkToSos';
+export { sosMagnitude } from './sosMagnitude';
 export { type Complex } from './complex';
 export { type SosfiltOptions, sosfilt, sosfiltZi, sectionCount } from './sosfilt';
 export { type SosfiltfiltOptions, sosfiltfilt, defaultPadLength } from './sosfiltfilt';
