@@ -1,21 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { type Corners, type FilterKind, butterworth } from '../../../core/dsp/butterworth';
+import { butterworth } from '../../../core/dsp/butterworth';
 import { sectionCount, sosfilt, sosfiltZi } from '../../../core/dsp/sosfilt';
 import { scipyReference } from '../../ref/scipy/dspReference';
-import { relDiff, testSignal } from './signals';
+import { caseLabel, filterCases, relDiff, testSignal } from './signals';
 
 // Reference: scipy.signal.sosfilt(sos, x, zi=zi) and sosfilt_zi(sos) (scipy 1.17.1, float64) in the
 // machine's python3, one run for the file. Tolerance 1e-10 of the peak output amplitude.
 
-interface Case { order: number; corners: Corners; kind: FilterKind; fs: number }
-const cases: Case[] = [];
-for (const fs of [40, 100, 200, 500]) {
-  for (let order = 1; order <= 8; order++) {
-    cases.push({ order, corners: 0.3 * (fs / 2), kind: 'lowpass', fs });
-    cases.push({ order, corners: 0.5, kind: 'highpass', fs });
-    cases.push({ order, corners: [1, 0.4 * (fs / 2)], kind: 'bandpass', fs });
-  }
-}
+const cases = filterCases();
 const x = testSignal(4000);
 const designs = cases.map((c) => butterworth(c.order, c.corners, c.kind, c.fs));
 const zis = designs.map((sos) => sosfiltZi(sos));
@@ -32,7 +24,7 @@ const refFilt = ref.slice(0, cases.length) as { y: number[]; zf: number[] }[];
 const refZi = ref.slice(cases.length, 2 * cases.length) as number[][];
 const refChunked = ref[2 * cases.length] as { y: number[]; zf: number[] };
 
-const label = (c: Case) => `${c.kind} order ${c.order} ${JSON.stringify(c.corners)} Hz at ${c.fs} Hz`;
+const label = caseLabel;
 
 describe('sosfilt', () => {
   it('agrees with scipy sosfilt to 1e-10 of the peak output, orders 1-8, three kinds, 40-500 Hz', () => {

@@ -1,21 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { type Corners, type FilterKind, butterworth } from '../../../core/dsp/butterworth';
+import { butterworth } from '../../../core/dsp/butterworth';
 import { defaultPadLength, sosfiltfilt } from '../../../core/dsp/sosfiltfilt';
 import { scipyReference } from '../../ref/scipy/dspReference';
-import { relDiff, testSignal } from './signals';
+import { caseLabel, filterCases, relDiff, testSignal } from './signals';
 
 // Reference: scipy.signal.sosfiltfilt(sos, x, padtype='odd', padlen=None|n) (scipy 1.17.1, float64)
 // in the machine's python3, one run for the file. Tolerance 1e-10 of the peak output amplitude.
 
-interface Case { order: number; corners: Corners; kind: FilterKind; fs: number }
-const cases: Case[] = [];
-for (const fs of [40, 100, 200, 500]) {
-  for (let order = 1; order <= 8; order++) {
-    cases.push({ order, corners: 0.3 * (fs / 2), kind: 'lowpass', fs });
-    cases.push({ order, corners: 0.5, kind: 'highpass', fs });
-    cases.push({ order, corners: [1, 0.4 * (fs / 2)], kind: 'bandpass', fs });
-  }
-}
+const cases = filterCases();
 const x = testSignal(3000, 7);
 const short = testSignal(40, 3);
 const designs = cases.map((c) => butterworth(c.order, c.corners, c.kind, c.fs));
@@ -29,7 +21,7 @@ const ref = scipyReference([
   { op: 'sosfiltfilt', sos: lp1, x: short },
 ]) as number[][];
 
-const label = (c: Case) => `${c.kind} order ${c.order} ${JSON.stringify(c.corners)} Hz at ${c.fs} Hz`;
+const label = caseLabel;
 
 describe('sosfiltfilt', () => {
   it('agrees with scipy sosfiltfilt (odd padding, steady-state starts) to 1e-10 of the peak output, orders 1-8, three kinds, 40-500 Hz', () => {
