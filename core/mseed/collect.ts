@@ -199,6 +199,17 @@ export class MiniSeedCollector {
         p += inner;
         continue;
       }
+      // A record cut short inside the file: what follows its stated end is no record header, but a
+      // record header starts before that end. Only looked for when the end does not line up.
+      const end = p + h.recordLength;
+      if (end + FIXED_HEADER_LENGTH <= len && !looksLikeRecordStart(bytes, end) && !isMiniSeed3(bytes, end)) {
+        const cut = this.headerWithin(bytes, p + FIXED_HEADER_LENGTH, end);
+        if (cut > 0) {
+          fs.errors.push({ offset: base + p, reason: `record cut short: ${h.recordLength} bytes stated, but the next record header starts ${cut - p} bytes on; record skipped` });
+          p = cut;
+          continue;
+        }
+      }
       this.addRecord(fs, file, bytes, p, base, h);
       fs.lastRecordLength = h.recordLength;
       p += h.recordLength;
@@ -216,6 +227,12 @@ export class MiniSeedCollector {
     for (let d = MIN_RECORD_LENGTH; d < len; d *= 2) {
       if (looksLikeRecordStart(bytes, p + d)) return d;
     }
+    return 0;
+  }
+
+  /** First offset in [from, to) where a record header (2 or 3) starts, or 0. */
+  private headerWithin(bytes: Uint8Array, from: number, to: number): number {
+    for (let q = from; q < to; q++) if (looksLikeRecordStart(bytes, q) || isMiniSeed3(bytes, q)) return q;
     return 0;
   }
 
