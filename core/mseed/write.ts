@@ -93,9 +93,10 @@ function rateFields(rate: number): RateFields {
       const f = fieldsFor(rate, -period, 1);
       if (f.exact) return f;
     } else {
-      const split = splitInt16(period);
-      if (split) {
-        const f = fieldsFor(rate, -split[0], -split[1]);
+      // The first split whose ratio both ways of computing it give exactly.
+      for (let a = Math.ceil(period / 32767); a <= 32767; a++) {
+        if (period % a !== 0 || period / a > 32767) continue;
+        const f = fieldsFor(rate, -(period / a), -a);
         if (f.exact) return f;
       }
     }

@@ -6,6 +6,7 @@
  *   time, rate, encoding, flags and samples; per trace segment (libmseed's trace list) its start,
  *   end, rate and samples. Times are integer microseconds, samples exactly as libmseed unpacked them.
  * - {@link libmseedPack}: records packed by libmseed's msr_pack from given samples (mspack.c).
+ * - {@link intSignal}: the deterministic integer test signal both libmseed and the project's writer pack.
  *
  * Parallel test files may build at the same time: each build goes to a temporary name and is renamed
  * into place (rename is atomic), and a program is rebuilt only when missing or older than its source,
@@ -215,4 +216,33 @@ export function libmseedDecodeBytes(bytes: Uint8Array): LibmseedReading {
   } finally {
     file.remove();
   }
+}
+
+/** Deterministic pseudo-random numbers in [0, 1) (a 32-bit LCG, Numerical Recipes constants). */
+export function lcg(seed: number): () => number {
+  let s = seed >>> 0;
+  return () => {
+    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+    return s / 4294967296;
+  };
+}
+
+/**
+ * Integer test signal: a random walk whose step sizes change in bursts, so every Steim difference
+ * width occurs (4 to 30 bits), within ±`limit`.
+ */
+export function intSignal(n: number, seed: number, limit = 0x3fffffff): Int32Array {
+  const rnd = lcg(seed);
+  const out = new Int32Array(n);
+  const scales = [3, 7, 15, 31, 127, 511, 16383, 1 << 20, 1 << 27];
+  let v = 0;
+  let scale = 3;
+  for (let i = 0; i < n; i++) {
+    if (i % 97 === 0) scale = Math.min(scales[Math.floor(rnd() * scales.length)], limit);
+    v += Math.round((rnd() * 2 - 1) * scale);
+    if (v > limit) v = limit - (v - limit);
+    if (v < -limit) v = -limit + (-limit - v);
+    out[i] = v;
+  }
+  return out;
 }
