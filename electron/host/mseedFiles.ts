@@ -92,6 +92,10 @@ async function withChunks(
   handle: (bytes: Uint8Array, base: number, atEnd: boolean) => number,
   progress: (n: number) => void,
 ): Promise<void> {
+  if (size === 0) {
+    handle(buffer.subarray(0, 0), 0, true);
+    return;
+  }
   const fh = await open(path, 'r');
   try {
     let pos = from;
