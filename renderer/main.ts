@@ -6,6 +6,7 @@ import './style.css';
 import { connectHost } from './host';
 import type { Dataset, HostApi } from '../electron/contract';
 import { CAUTION } from '../core/caution';
+import { Desk } from './desk';
 
 const host: HostApi = connectHost();
 const app = document.getElementById('app')!;
@@ -17,6 +18,7 @@ function el<K extends keyof HTMLElementTagNameMap>(tag: K, props: Partial<HTMLEl
 }
 
 const mainArea = el('main');
+const statusText = el('span', { className: 'status' });
 const themeButton = el('button', { title: 'Switch between light and dark' }, 'Theme');
 const aboutButton = el('button', {}, 'About');
 document.documentElement.dataset.theme = localStorage.getItem('daybreak.theme') ?? 'dark';
@@ -25,6 +27,16 @@ themeButton.addEventListener('click', () => {
   document.documentElement.dataset.theme = next;
   localStorage.setItem('daybreak.theme', next);
 });
+function folderForm(): HTMLFormElement {
+  const input = el('input', { type: 'text', placeholder: 'Open a data folder (path)\u2026', size: 36, name: 'folder' });
+  const form = el('form', { className: 'folder-form' }, input);
+  form.addEventListener('submit', (e) => {
+    e.preventDefault();
+    if (input.value.trim()) void openFolder(input.value.trim());
+  });
+  return form;
+}
+
 const about = el('dialog', { id: 'about' },
   el('h2', {}, 'Daybreak'),
   el('p', {}, 'Review of a seismic network\u2019s overnight triggers: picks, locations, QuakeML.'),
@@ -35,6 +47,7 @@ aboutButton.addEventListener('click', () => about.showModal());
 app.append(
   el('header', { className: 'bar' },
     el('h1', {}, el('span', { className: 'sun' }, '\u25d2 '), 'Daybreak'),
+    folderForm(), statusText,
     el('span', { className: 'spacer' }), themeButton, aboutButton),
   mainArea,
   el('footer', { className: 'caution' }, CAUTION),
@@ -67,13 +80,34 @@ async function openDemo(): Promise<void> {
   showDataset(ds.value);
 }
 
-function showDataset(ds: Dataset): void {
-  const rows = ds.files.map((f) => el('tr', {}, el('td', {}, f.kind), el('td', {}, f.path), el('td', {}, `${(f.size / 1024).toFixed(0)} KiB`)));
-  mainArea.replaceChildren(el('div', { className: 'card' },
-    el('h2', {}, ds.root),
-    el('table', { className: 'files' }, el('tr', {}, el('th', {}, 'kind'), el('th', {}, 'file'), el('th', {}, 'size')), ...rows)));
+let desk: Desk | null = null;
+
+async function openFolder(root: string): Promise<void> {
+  const ds = await host.call('dataset.open', { root });
+  if (!ds.ok) {
+    mainArea.replaceChildren(el('div', { className: 'card' }, el('p', { className: 'error' }, `Could not open ${root}: ${ds.message}`)));
+    return;
+  }
+  showDataset(ds.value);
 }
 
-openDemo().catch((e: unknown) => {
+async function showDataset(ds: Dataset): Promise<void> {
+  desk?.close();
+  const card = el('div', { className: 'card' }, el('h2', {}, ds.root));
+  const bar = el('div', { className: 'progress' }, el('div'));
+  const msg = el('p', {}, `Reading ${ds.files.filter((f) => f.kind === 'miniseed').length} miniSEED files\u2026`);
+  card.append(msg, bar);
+  mainArea.replaceChildren(card);
+  desk = new Desk(host, ds, (text) => { statusText.textContent = text; });
+  await desk.open((fraction, note) => {
+    (bar.firstChild as HTMLDivElement).style.width = `${Math.round(fraction * 100)}%`;
+    msg.textContent = `Reading ${note}`;
+  });
+  mainArea.replaceChildren(desk.root);
+  mainArea.classList.add('with-desk');
+}
+
+const wanted = new URLSearchParams(location.search).get('dataset');
+(wanted ? openFolder(wanted) : openDemo()).catch((e: unknown) => {
   mainArea.replaceChildren(el('p', { className: 'error' }, String(e instanceof Error ? e.message : e)));
 });

@@ -106,7 +106,9 @@ export class HostService {
 
   private async readDatasetFile(rootArg: unknown, pathArg: unknown): Promise<Uint8Array> {
     const bytes = await readFile(this.datasetPath(rootArg, pathArg));
-    return new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+    // A view that owns its whole buffer, so IPC's structured clone copies no more than the file.
+    if (bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength) return new Uint8Array(bytes.buffer);
+    return new Uint8Array(bytes);
   }
 
   private async readDatasetRange(rootArg: unknown, pathArg: unknown, offset: unknown, length: unknown): Promise<Uint8Array> {
@@ -123,7 +125,7 @@ export class HostService {
         if (bytesRead === 0) break;
         got += bytesRead;
       }
-      return buf.subarray(0, got);
+      return got === buf.length ? buf : buf.slice(0, got);
     } finally {
       await handle.close();
     }
@@ -154,15 +156,33 @@ export class HostService {
   }
 }
 
-/** The kind of a dataset file, from its name (content is checked when it is read). */
-export function fileKindOf(name: string): FileKind {
+/**
+ * The kind of a dataset file, from its name and, for XML, the root element in its first bytes
+ * (`head`). Content is checked again when the file is read.
+ */
+export function fileKindOf(name: string, head = ''): FileKind {
   const lower = name.toLowerCase();
   if (/\.(mseed|miniseed|msd|seed)$/.test(lower) || /\.d\d{3}$/.test(lower)) return 'miniseed';
-  if (lower.endsWith('.xml')) return /quakeml|\.qml\.xml$|events?/.test(lower) ? 'quakeml' : 'stationxml';
+  if (lower.endsWith('.xml')) {
+    if (/<(\w+:)?FDSNStationXML[\s/>]/.test(head)) return 'stationxml';
+    if (/<(\w+:)?quakeml[\s/>]/i.test(head)) return 'quakeml';
+    return 'other';
+  }
   if (lower.endsWith('.qml') || lower.endsWith('.quakeml')) return 'quakeml';
   if (lower.endsWith('.review.json')) return 'review';
   if (lower.endsWith('model.json')) return 'model';
   return 'other';
+}
+
+async function readHead(path: string, bytes: number): Promise<string> {
+  const h = await open(path, 'r');
+  try {
+    const buf = Buffer.alloc(bytes);
+    const { bytesRead } = await h.read(buf, 0, bytes, 0);
+    return buf.subarray(0, bytesRead).toString('utf8');
+  } finally {
+    await h.close();
+  }
 }
 
 async function listFiles(root: string, dir: string, out: DatasetFile[]): Promise<void> {
@@ -174,7 +194,8 @@ async function listFiles(root: string, dir: string, out: DatasetFile[]): Promise
     if (e.isDirectory()) await listFiles(root, full, out);
     else if (e.isFile()) {
       const st = await stat(full);
-      out.push({ path: relative(root, full).split(sep).join('/'), size: st.size, kind: fileKindOf(e.name) });
+      const head = e.name.toLowerCase().endsWith('.xml') ? await readHead(full, 2048) : '';
+      out.push({ path: relative(root, full).split(sep).join('/'), size: st.size, kind: fileKindOf(e.name, head) });
     }
   }
 }

@@ -39,8 +39,8 @@ export interface TraceViewOptions {
   labelWidth?: number;
   /** Draws marks on a row after its traces. */
   drawMarks?: (m: RowMarksContext) => void;
-  /** Formats the time axis labels (seconds from the reference). */
-  formatTime?: (t: number) => string;
+  /** Formats a time axis label (seconds from the reference; `step` is the tick spacing in seconds). */
+  formatTime?: (t: number, step: number) => string;
   /** Told whenever the window changes. */
   onWindow?: (x0: number, x1: number) => void;
   /** Pointer down on a row's plot area: return true to take over the drag (e.g. moving a pick). */
@@ -213,7 +213,11 @@ export class TraceView {
       scales: { x: { time: false, auto: false }, y: { auto: false, range: [0, 1] } },
       series: [{}, { show: false }],
       axes: [
-        { side: 0, size: 28, stroke: 'var(--muted)', grid: { show: false }, ticks: { stroke: 'var(--line)' }, values: (_u, vals) => vals.map((v) => fmt(v)) },
+        {
+          side: 0, size: 28, space: 110, stroke: getComputedStyle(this.root).getPropertyValue('--muted').trim() || '#888',
+          grid: { show: false }, ticks: { stroke: getComputedStyle(this.root).getPropertyValue('--line').trim() || '#444' },
+          values: (_u, vals, _axis, _space, incr) => vals.map((v) => fmt(v, incr)),
+        },
         { show: false },
       ],
     }, [[this.win[0], this.win[1]], [null, null]], this.axisHost);

@@ -6,6 +6,8 @@ import { join } from 'node:path';
 import { HostService, DEMO_COMPLETE_MARKER } from '../../../electron/host/service';
 import { startBrowserServer, TOKEN_HEADER, type BrowserServer } from '../../../electron/host/server';
 
+const EVENT_XML = '<?xml version="1.0"?><q:quakeml xmlns:q="x"/>';
+
 interface Reply { status: number; type: string; body: Buffer; headers: Record<string, string | string[] | undefined> }
 
 function send(port: number, opts: { method?: string; path: string; headers?: Record<string, string>; body?: string }): Promise<Reply> {
@@ -38,6 +40,7 @@ describe('browser-mode server', () => {
     mkdirSync(join(dataRoot, 'day1'), { recursive: true });
     writeFileSync(join(dataRoot, 'day1', 'XX.AB..HHZ.mseed'), Buffer.from([1, 2, 3, 250]));
     writeFileSync(join(dataRoot, 'stations.xml'), '<FDSNStationXML/>');
+    writeFileSync(join(dataRoot, 'day1', 'event.xml'), EVENT_XML);
     writeFileSync(join(base, 'secret.txt'), 'not yours');
     const demoRoot = join(base, 'demo');
     mkdirSync(demoRoot);
@@ -81,11 +84,12 @@ describe('browser-mode server', () => {
     expect(JSON.parse(r.body.toString())).toEqual({ ok: true, value: { mode: 'browser', version: '9.9.9' } });
   });
 
-  it('lists a dataset recursively with kinds and sizes', async () => {
+  it('lists a dataset recursively, telling StationXML from QuakeML by the root element', async () => {
     const r = JSON.parse((await api('dataset.open', { root: dataRoot })).body.toString());
     expect(r.ok).toBe(true);
     expect(r.value.files).toEqual([
       { path: 'day1/XX.AB..HHZ.mseed', size: 4, kind: 'miniseed' },
+      { path: 'day1/event.xml', size: Buffer.byteLength(EVENT_XML), kind: 'quakeml' },
       { path: 'stations.xml', size: 17, kind: 'stationxml' },
     ]);
   });
