@@ -19,7 +19,7 @@
  */
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { readMiniSeedBuffer } from '../../core/mseed';
@@ -34,7 +34,7 @@ const RATE = 100;
 const CHANNELS = ['HHZ', 'HHN', 'HHE'];
 const START = microsFromIso('2026-11-30T00:00:00Z');
 /** Alternating decode passes; the best of each decoder is reported. */
-const ROUNDS = 7;
+const ROUNDS = 10;
 
 declare const gc: () => void;
 
@@ -142,6 +142,7 @@ async function measureMemory(path: string): Promise<void> {
 }
 
 async function main(): Promise<void> {
+  const loadAtStart = loadavg()[0];
   const dir = mkdtempSync(join(tmpdir(), 'daybreak-bench-'));
   try {
     const path = join(dir, 'station-day.mseed');
@@ -211,6 +212,7 @@ async function main(): Promise<void> {
     const m = JSON.parse(spawnSync(process.execPath, ['--import', 'tsx', '--expose-gc', fileURLToPath(import.meta.url), '--measure-memory', path],
       { cwd: root, encoding: 'utf8', stdio: ['ignore', 'pipe', 'inherit'] }).stdout) as { baseline: number; peak: number; held: number; decodedBytes: number };
     const mb = (n: number) => `${(n / 1048576).toFixed(1)} MiB`;
+    console.log(`load average (1 min) at start ${loadAtStart.toFixed(1)}, now ${loadavg()[0].toFixed(1)} on ${availableParallelism()} cores: figures from a shared machine vary with it`);
     const ratio = jsRate / cRate;
     const memoryRatio = (m.peak - m.baseline) / m.decodedBytes;
     console.log(`libmseed 2.19 msr_parse loop: ${(cRate / 1e6).toFixed(0)} M samples/s (${(cBest * 1000).toFixed(1)} ms)`);
