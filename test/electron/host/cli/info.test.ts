@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -87,6 +87,26 @@ describe('daybreak info --json on the libmseed example file (examples/test.mseed
     expect(s.timingQuality).toEqual({ min: Math.min(...tq), max: Math.max(...tq) });
     // I/O and clock flags bit 5: clock locked (SEED manual v2.4, fixed header field 14).
     expect(s.flags.clockLocked).toBe(ref.records.filter((r) => (r.ioFlags & 0x20) !== 0).length);
+  });
+});
+
+describe('daybreak info --json on a real FLOAT32 file (../shared/data/real-microseismic)', () => {
+  it('reports the 36 traces with the ids, start times, sample counts and rate libmseed reads', () => {
+    const file = join(root, '../shared/data/real-microseismic/waveforms/2018-05-22T17-02-16.mseed');
+    if (!existsSync(file)) throw new Error(`the real test data is missing: ${file} (expected ../shared beside the repository)`);
+    const ref = libmseedDecode(file);
+    expect(ref.error).toBeNull();
+    const { code, json } = infoJson(file);
+    expect(code).toBe(0);
+    expect(json.files[0].records).toBe(ref.records.length);
+    const expected = [...ref.segments].sort((a, b) => (a.id < b.id ? -1 : 1))
+      .map((s) => [s.id, isoFromMicros(s.start), s.count, s.rate, 'FLOAT32', 4096]);
+    expect(expected).toHaveLength(36);
+    expect(json.channels.map((c) => {
+      expect(c.segments).toHaveLength(1);
+      const s = c.segments[0];
+      return [c.id, s.start, s.samples, s.sampleRate, s.encoding, s.recordLength];
+    })).toEqual(expected);
   });
 });
 
