@@ -170,10 +170,12 @@ function packSteim2(x: Int32Array, s: number, limit: number, dv: DataView, data:
     let wi = f === 0 ? 3 : 1;
     for (; wi < 16 && p < end; wi++) {
       if (end - p >= 7) {
-        // Fast path, seven differences ahead. |2d + 1| < 2^b exactly when d fits a signed b-bit field.
-        const x0 = x[p], x1 = x[p + 1], x2 = x[p + 2], x3 = x[p + 3], x4 = x[p + 4], x5 = x[p + 5], x6 = x[p + 6];
+        // Fast path, seven differences ahead. |2d + 1| < 2^b exactly when d fits a signed b-bit
+        // field. The first four decide between the wide layouts; the last three are looked at only
+        // when four fit in 8 bits.
+        const x0 = x[p], x1 = x[p + 1], x2 = x[p + 2], x3 = x[p + 3];
         const a0 = x0 - (p > 0 ? x[p - 1] : x0);
-        const a1 = x1 - x0, a2 = x2 - x1, a3 = x3 - x2, a4 = x4 - x3, a5 = x5 - x4, a6 = x6 - x5;
+        const a1 = x1 - x0, a2 = x2 - x1, a3 = x3 - x2;
         let m = Math.abs(2 * a0 + 1);
         if (m >= 0x40000000) { wide = true; break; }
         let t = Math.abs(2 * a1 + 1); if (t > m) m = t;
@@ -181,27 +183,30 @@ function packSteim2(x: Int32Array, s: number, limit: number, dv: DataView, data:
         t = Math.abs(2 * a2 + 1); if (t > m) m = t;
         const m3 = m;
         t = Math.abs(2 * a3 + 1); if (t > m) m = t;
-        const m4 = m;
-        t = Math.abs(2 * a4 + 1); if (t > m) m = t;
-        const m5 = m;
-        t = Math.abs(2 * a5 + 1); if (t > m) m = t;
-        const m6 = m;
-        t = Math.abs(2 * a6 + 1); if (t > m) m = t;
         let w: number;
-        if (m < 16) {
-          w = 0x80000000 | (a0 & 0xf) << 24 | (a1 & 0xf) << 20 | (a2 & 0xf) << 16
-            | (a3 & 0xf) << 12 | (a4 & 0xf) << 8 | (a5 & 0xf) << 4 | (a6 & 0xf);
-          ctrl |= 3 << (30 - 2 * wi); p += 7;
-        } else if (m6 < 32) {
-          w = 0x40000000 | (a0 & 0x1f) << 25 | (a1 & 0x1f) << 20 | (a2 & 0x1f) << 15
-            | (a3 & 0x1f) << 10 | (a4 & 0x1f) << 5 | (a5 & 0x1f);
-          ctrl |= 3 << (30 - 2 * wi); p += 6;
-        } else if (m5 < 64) {
-          w = (a0 & 0x3f) << 24 | (a1 & 0x3f) << 18 | (a2 & 0x3f) << 12 | (a3 & 0x3f) << 6 | (a4 & 0x3f);
-          ctrl |= 3 << (30 - 2 * wi); p += 5;
-        } else if (m4 < 256) {
-          w = (a0 & 0xff) << 24 | (a1 & 0xff) << 16 | (a2 & 0xff) << 8 | (a3 & 0xff);
-          ctrl |= 1 << (30 - 2 * wi); p += 4;
+        if (m < 256) {
+          const x4 = x[p + 4], x5 = x[p + 5], x6 = x[p + 6];
+          const a4 = x4 - x3, a5 = x5 - x4, a6 = x6 - x5;
+          t = Math.abs(2 * a4 + 1); if (t > m) m = t;
+          const m5 = m;
+          t = Math.abs(2 * a5 + 1); if (t > m) m = t;
+          const m6 = m;
+          t = Math.abs(2 * a6 + 1); if (t > m) m = t;
+          if (m < 16) {
+            w = 0x80000000 | (a0 & 0xf) << 24 | (a1 & 0xf) << 20 | (a2 & 0xf) << 16
+              | (a3 & 0xf) << 12 | (a4 & 0xf) << 8 | (a5 & 0xf) << 4 | (a6 & 0xf);
+            ctrl |= 3 << (30 - 2 * wi); p += 7;
+          } else if (m6 < 32) {
+            w = 0x40000000 | (a0 & 0x1f) << 25 | (a1 & 0x1f) << 20 | (a2 & 0x1f) << 15
+              | (a3 & 0x1f) << 10 | (a4 & 0x1f) << 5 | (a5 & 0x1f);
+            ctrl |= 3 << (30 - 2 * wi); p += 6;
+          } else if (m5 < 64) {
+            w = (a0 & 0x3f) << 24 | (a1 & 0x3f) << 18 | (a2 & 0x3f) << 12 | (a3 & 0x3f) << 6 | (a4 & 0x3f);
+            ctrl |= 3 << (30 - 2 * wi); p += 5;
+          } else {
+            w = (a0 & 0xff) << 24 | (a1 & 0xff) << 16 | (a2 & 0xff) << 8 | (a3 & 0xff);
+            ctrl |= 1 << (30 - 2 * wi); p += 4;
+          }
         } else if (m3 < 1024) {
           w = 0xc0000000 | (a0 & 0x3ff) << 20 | (a1 & 0x3ff) << 10 | (a2 & 0x3ff);
           ctrl |= 2 << (30 - 2 * wi); p += 3;

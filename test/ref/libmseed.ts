@@ -171,8 +171,8 @@ export interface LibmseedPackParams {
   blockette1001?: boolean;
 }
 
-/** Packs `p` with libmseed 2.19 (msr_pack, flushed) into the bytes of a miniSEED file. */
-export function libmseedPack(p: LibmseedPackParams): { bytes: Uint8Array; records: number; samples: number } {
+/** Packs `p` with libmseed 2.19 (msr_pack, flushed) into the bytes of a miniSEED file; `seconds`: msr_pack's wall-clock time. */
+export function libmseedPack(p: LibmseedPackParams): { bytes: Uint8Array; records: number; samples: number; seconds: number } {
   const tool = libmseedTool('mspack');
   const dir = scratchDir();
   try {
@@ -193,8 +193,8 @@ export function libmseedPack(p: LibmseedPackParams): { bytes: Uint8Array; record
       `encoding=${p.encoding}`, `byteorder=${p.byteorder}`, `reclen=${p.reclen}`,
       `seq=${p.sequenceStart ?? 1}`, `b1001=${p.blockette1001 === false ? 0 : 1}`,
     ];
-    const out = JSON.parse(execFileSync(tool, args, { stdio: ['ignore', 'pipe', 'pipe'] }).toString()) as { records: number; samples: number };
-    return { bytes: new Uint8Array(readFileSync(outPath)), records: out.records, samples: out.samples };
+    const out = JSON.parse(execFileSync(tool, args, { stdio: ['ignore', 'pipe', 'pipe'] }).toString()) as { records: number; samples: number; seconds: number };
+    return { bytes: new Uint8Array(readFileSync(outPath)), ...out };
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

@@ -279,15 +279,20 @@ describe('argument checks name the bad value and the allowed range', () => {
 });
 
 describe('speed', () => {
-  it('writes a 100 Hz channel-hour of noise-like counts well above real time (measured, printed)', () => {
-    const samples = noise(360_000 * 4, 13);
+  it('writes Steim-2 at least a quarter as fast as libmseed 2.19\'s msr_pack on the same samples (measured, printed)', () => {
+    const samples = noise(1_440_000, 13);
     write(samples.subarray(0, 100_000), 100);
-    const t0 = performance.now();
-    const bytes = write(samples, 100);
-    const seconds = (performance.now() - t0) / 1000;
-    const rate = samples.length / seconds;
-    console.log(`writeMiniSeed: ${(rate / 1e6).toFixed(1)} million samples/s (${samples.length} samples, ${bytes.length} bytes)`);
-    // A floor far below the measured figure, so a busy shared machine does not fail it.
-    expect(rate).toBeGreaterThan(5e6);
+    let ours = Infinity;
+    let theirs = Infinity;
+    for (let rep = 0; rep < 3; rep++) {
+      const t0 = performance.now();
+      write(samples, 100);
+      ours = Math.min(ours, (performance.now() - t0) / 1000);
+      theirs = Math.min(theirs, libmseedPack({ samples, encoding: 11, byteorder: 1, reclen: 4096, rate: 100, start: START }).seconds);
+    }
+    const rate = samples.length / ours;
+    console.log(`writeMiniSeed: ${(rate / 1e6).toFixed(1)} million samples/s; libmseed msr_pack: ${(samples.length / theirs / 1e6).toFixed(1)} million samples/s (best of 3, 4096-byte Steim-2)`);
+    // Far below the ratio measured (about 1), so a busy shared machine does not fail it.
+    expect(theirs / ours).toBeGreaterThan(0.25);
   });
 });
