@@ -1,0 +1,225 @@
+/**
+ * Every change the analyst can make to a review, as pure functions from one document to the next.
+ * They check their arguments (an edit that names a missing event or pick throws a RangeError naming
+ * it) and never mutate their input, so the app keeps old documents for undo.
+ */
+import type { Micros } from '../time';
+import type { PickOnset, PickPolarity, PhaseHint } from '../pick/types';
+import type { EventType, EventTypeCertainty, ReviewDocument, ReviewEvent, ReviewState } from './types';
+
+function eventIndex(doc: ReviewDocument, eventId: string): number {
+  const i = doc.events.findIndex((e) => e.id === eventId);
+  if (i < 0) throw new RangeError(`no event "${eventId}" in the review`);
+  return i;
+}
+
+function pickIndex(ev: ReviewEvent, pickId: string): number {
+  const i = ev.picks.findIndex((p) => p.id === pickId);
+  if (i < 0) throw new RangeError(`no pick "${pickId}" in event "${ev.id}"`);
+  return i;
+}
+
+function withEvent(doc: ReviewDocument, eventId: string, change: (ev: ReviewEvent) => ReviewEvent, serialUsed = 0): ReviewDocument {
+  const i = eventIndex(doc, eventId);
+  const events = doc.events.slice();
+  const changed = change(events[i]);
+  // Any edit of a fresh event starts its review.
+  events[i] = changed.state === 'todo' ? { ...changed, state: 'started' } : changed;
+  return { revision: doc.revision + 1, events, nextSerial: doc.nextSerial + serialUsed };
+}
+
+function checkUncertainty(name: string, v: number): void {
+  if (!(v >= 0 && v <= 60)) throw new RangeError(`${name} uncertainty must be 0 to 60 s, got ${v}`);
+}
+
+export interface NewPick {
+  phase: PhaseHint;
+  channel: string;
+  time: Micros;
+  lower?: number;
+  upper?: number;
+  onset?: PickOnset;
+  polarity?: PickPolarity | null;
+}
+
+/** Default uncertainty of a pick placed by hand, s (each side). */
+export const MANUAL_PICK_UNCERTAINTY = 0.05;
+
+/**
+ * Places a manual pick. An event holds at most one pick per phase and site: a P placed where the
+ * site already has a P replaces it (the analyst re-picked).
+ */
+export function placePick(doc: ReviewDocument, eventId: string, p: NewPick): { doc: ReviewDocument; pickId: string } {
+  if (p.phase !== 'P' && p.phase !== 'S') throw new RangeError(`phase must be P or S, got ${String(p.phase)}`);
+  if (!Number.isSafeInteger(p.time)) throw new RangeError(`pick time must be integer microseconds, got ${p.time}`);
+  const lower = p.lower ?? MANUAL_PICK_UNCERTAINTY;
+  const upper = p.upper ?? MANUAL_PICK_UNCERTAINTY;
+  checkUncertainty('lower', lower);
+  checkUncertainty('upper', upper);
+  const pickId = `pick-${doc.nextSerial}`;
+  const site = siteOf(p.channel);
+  const next = withEvent(doc, eventId, (ev) => ({
+    ...ev,
+    picks: [
+      ...ev.picks.filter((q) => !(q.phase === p.phase && siteOf(q.channel) === site)),
+      {
+        id: pickId, phase: p.phase, channel: p.channel, time: p.time, lower, upper,
+        onset: p.onset ?? 'questionable', polarity: p.polarity ?? (p.phase === 'P' ? 'undecidable' : null),
+        mode: 'manual', status: 'preliminary', snr: null, questionableTiming: false,
+      },
+    ],
+  }), 1);
+  return { doc: next, pickId };
+}
+
+/** Moves a pick to a new time; it becomes a manual pick (the analyst set its time). */
+export function movePick(doc: ReviewDocument, eventId: string, pickId: string, time: Micros): ReviewDocument {
+  if (!Number.isSafeInteger(time)) throw new RangeError(`pick time must be integer microseconds, got ${time}`);
+  return withEvent(doc, eventId, (ev) => {
+    const i = pickIndex(ev, pickId);
+    const picks = ev.picks.slice();
+    picks[i] = { ...picks[i], time, mode: 'manual', status: 'preliminary', snr: null };
+    return { ...ev, picks };
+  });
+}
+
+/** Sets a pick's uncertainty (seconds before and after its time). */
+export function setUncertainty(doc: ReviewDocument, eventId: string, pickId: string, lower: number, upper: number): ReviewDocument {
+  checkUncertainty('lower', lower);
+  checkUncertainty('upper', upper);
+  return withEvent(doc, eventId, (ev) => {
+    const i = pickIndex(ev, pickId);
+    const picks = ev.picks.slice();
+    picks[i] = { ...picks[i], lower, upper };
+    return { ...ev, picks };
+  });
+}
+
+/** Sets onset and/or polarity. */
+export function setPickAttributes(doc: ReviewDocument, eventId: string, pickId: string, attrs: { onset?: PickOnset; polarity?: PickPolarity | null }): ReviewDocument {
+  return withEvent(doc, eventId, (ev) => {
+    const i = pickIndex(ev, pickId);
+    const picks = ev.picks.slice();
+    picks[i] = { ...picks[i], ...attrs };
+    return { ...ev, picks };
+  });
+}
+
+export function deletePick(doc: ReviewDocument, eventId: string, pickId: string): ReviewDocument {
+  return withEvent(doc, eventId, (ev) => {
+    pickIndex(ev, pickId);
+    return { ...ev, picks: ev.picks.filter((p) => p.id !== pickId) };
+  });
+}
+
+/** Accepts every automatic pick of the event: they stay automatic, with status confirmed. */
+export function acceptAutomatic(doc: ReviewDocument, eventId: string): ReviewDocument {
+  return withEvent(doc, eventId, (ev) => ({
+    ...ev,
+    picks: ev.picks.map((p) => (p.mode === 'automatic' && p.status === 'preliminary' ? { ...p, status: 'confirmed' } : p)),
+  }));
+}
+
+export function setState(doc: ReviewDocument, eventId: string, state: ReviewState): ReviewDocument {
+  const i = eventIndex(doc, eventId);
+  const events = doc.events.slice();
+  events[i] = { ...events[i], state };
+  return { ...doc, revision: doc.revision + 1, events };
+}
+
+export function setEventType(doc: ReviewDocument, eventId: string, type: EventType | null, certainty: EventTypeCertainty | null): ReviewDocument {
+  return withEvent(doc, eventId, (ev) => ({ ...ev, type, typeCertainty: type ? certainty ?? 'known' : null }));
+}
+
+export function setNote(doc: ReviewDocument, eventId: string, note: string): ReviewDocument {
+  if (typeof note !== 'string' || note.length > 10_000) throw new RangeError('a note is text of at most 10,000 characters');
+  return withEvent(doc, eventId, (ev) => ({ ...ev, note }));
+}
+
+/** Adds an event the detector missed, over [start, end) µs. */
+export function addEvent(doc: ReviewDocument, start: Micros, end: Micros): { doc: ReviewDocument; eventId: string } {
+  if (!(Number.isSafeInteger(start) && Number.isSafeInteger(end) && end > start)) {
+    throw new RangeError(`an event needs integer start < end (µs), got ${start}..${end}`);
+  }
+  const eventId = `added-${doc.nextSerial}`;
+  const ev: ReviewEvent = { id: eventId, source: 'analyst', start, end, state: 'started', type: null, typeCertainty: null, note: '', picks: [] };
+  const events = [...doc.events, ev].sort((a, b) => a.start - b.start);
+  return { doc: { revision: doc.revision + 1, events, nextSerial: doc.nextSerial + 1 }, eventId };
+}
+
+/**
+ * Merges event `b` into event `a` (two candidates that are one event): the span covers both, picks
+ * are pooled (where both have the same phase at a site, `a`'s pick is kept), notes are joined.
+ */
+export function mergeEvents(doc: ReviewDocument, aId: string, bId: string): ReviewDocument {
+  if (aId === bId) throw new RangeError('cannot merge an event with itself');
+  const a = doc.events[eventIndex(doc, aId)];
+  const b = doc.events[eventIndex(doc, bId)];
+  const taken = new Set(a.picks.map((p) => `${p.phase}|${siteOf(p.channel)}`));
+  const merged: ReviewEvent = {
+    ...a,
+    start: Math.min(a.start, b.start),
+    end: Math.max(a.end, b.end),
+    state: a.state === 'todo' ? 'started' : a.state,
+    note: [a.note, b.note].filter(Boolean).join('\n'),
+    picks: [...a.picks, ...b.picks.filter((p) => !taken.has(`${p.phase}|${siteOf(p.channel)}`))],
+  };
+  const events = doc.events.filter((e) => e.id !== bId).map((e) => (e.id === aId ? merged : e));
+  return { ...doc, revision: doc.revision + 1, events };
+}
+
+/**
+ * Splits an event at time `at` (it held two): picks before `at` stay, picks from `at` on go to a new
+ * event spanning [at, end).
+ */
+export function splitEvent(doc: ReviewDocument, eventId: string, at: Micros): { doc: ReviewDocument; newEventId: string } {
+  const ev = doc.events[eventIndex(doc, eventId)];
+  if (!(at > ev.start && at < ev.end)) throw new RangeError(`split time must fall inside the event's span`);
+  const newEventId = `${ev.id}-split-${doc.nextSerial}`;
+  const first: ReviewEvent = { ...ev, end: at, state: ev.state === 'todo' ? 'started' : ev.state, picks: ev.picks.filter((p) => p.time < at) };
+  const second: ReviewEvent = { ...ev, id: newEventId, source: 'analyst', start: at, state: 'started', note: '', picks: ev.picks.filter((p) => p.time >= at) };
+  const events = doc.events.flatMap((e) => (e.id === eventId ? [first, second] : [e]));
+  return { doc: { revision: doc.revision + 1, events, nextSerial: doc.nextSerial + 1 }, newEventId };
+}
+
+/** "NET.STA" of a "NET.STA.LOC.CHA" key. */
+export function siteOf(channel: string): string {
+  const parts = channel.split('.');
+  return `${parts[0]}.${parts[1]}`;
+}
+
+/** Undo/redo over whole documents (cheap: documents share their unchanged parts). */
+export class History {
+  private past: ReviewDocument[] = [];
+  private future: ReviewDocument[] = [];
+  constructor(private current: ReviewDocument, private readonly limit = 500) {}
+
+  get doc(): ReviewDocument { return this.current; }
+  get canUndo(): boolean { return this.past.length > 0; }
+  get canRedo(): boolean { return this.future.length > 0; }
+
+  apply(next: ReviewDocument): ReviewDocument {
+    this.past.push(this.current);
+    if (this.past.length > this.limit) this.past.shift();
+    this.future = [];
+    this.current = next;
+    return next;
+  }
+
+  /** Undo gives back the older document with a new revision number (the file moves forward). */
+  undo(): ReviewDocument | null {
+    const prev = this.past.pop();
+    if (!prev) return null;
+    this.future.push(this.current);
+    this.current = { ...prev, revision: this.current.revision + 1 };
+    return this.current;
+  }
+
+  redo(): ReviewDocument | null {
+    const next = this.future.pop();
+    if (!next) return null;
+    this.past.push(this.current);
+    this.current = { ...next, revision: this.current.revision + 1 };
+    return this.current;
+  }
+}

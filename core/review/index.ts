@@ -1,0 +1,4 @@
+/** The analyst's review: its data, the edits, and the review file. */
+export * from './types';
+export * from './edits';
+export * from './format';
