@@ -1,0 +1,19 @@
+// Detection and automatic picking: STA/LTA triggers, network coincidence, AIC onsets for P and S.
+export type {
+  CandidateEvent, EvaluationMode, EvaluationStatus, PhaseHint, Pick, PickOnset, PickPolarity,
+  StationTrigger, Trace, TriggerEnd,
+} from './types';
+export { type CharacteristicFunction, CHARACTERISTIC_FUNCTIONS, envelopeWeight } from './characteristic';
+export {
+  LOCAL_EARTHQUAKE_STA_LTA, type StaLtaForm, type StaLtaOptions, StaLtaDetector, StaLtaRatio,
+  resolveStaLtaOptions, staLtaRatio, staLtaTriggers, windowSamples,
+} from './staLta';
+export { type AicResult, autocorrelationTime, jointAic, maedaAic } from './aic';
+export {
+  firstMotion, LOCAL_EARTHQUAKE_ONSET, LOCAL_EARTHQUAKE_S_WINDOW, type OnsetOptions, pickP, pickS,
+  resolveOnsetOptions, sWindow, type SWindowOptions,
+} from './onset';
+export {
+  coincidence, type CoincidenceOptions, DEFAULT_COINCIDENCE, idTime, siteDistanceKm, type SitePosition,
+} from './coincidence';
+export { chooseSiteStreams, type SiteStream } from './streams';
