@@ -5,7 +5,8 @@
  * integration constants X0 (the first sample) and Xn (the last sample). The first difference of a
  * record refers to the previous record and is not used: sample 0 is X0, sample i = sample i-1 + d_i.
  *
- * Speed: words are read with byte shifts (no DataView), differences are integrated as they are
+ * Speed: words are read big-endian with byte shifts (no DataView; little-endian data is first copied
+ * byte-swapped into a scratch buffer, so there is one inner loop per encoding), differences are integrated as they are
  * unpacked into one scratch buffer that is allocated once and grown only for larger records, and the
  * samples are then copied to the caller's array in one block. The Steim-1 and Steim-2 frame loops
  * look alike but are kept apart on purpose: one loop per encoding keeps each word's dispatch short.
@@ -32,28 +33,54 @@ function scratchFor(n: number): Int32Array {
   return scratch;
 }
 
+let swapScratch = new Uint8Array(4096);
+/**
+ * Big-endian copy of little-endian Steim frames (blockette 1000 word order 0, rare), byte-swapped as
+ * libmseed 2.19 reads them: word 0, X0, Xn and 32-bit-coded words as whole words; Steim-1 code-2
+ * words as two 16-bit halves, each swapped in place; code-1 words (four 8-bit differences) left in
+ * memory order. The decoders then run their one big-endian loop over the copy.
+ */
+function swapFrames(b: Uint8Array, p: number, frames: number, steim1: boolean): Uint8Array {
+  const n = frames << 6;
+  if (swapScratch.length < n) swapScratch = new Uint8Array(n);
+  const s = swapScratch;
+  for (let f = 0; f < n; f += 64) {
+    const q = p + f;
+    const w0 = b[q] | (b[q + 1] << 8) | (b[q + 2] << 16) | (b[q + 3] << 24);
+    for (let i = 0; i < 16; i++) {
+      const k = f + 4 * i;
+      const c = i === 0 || (f === 0 && i < 3) ? 0 : (w0 >>> (30 - 2 * i)) & 3;
+      if (c === 1) {
+        s[k] = b[q + 4 * i]; s[k + 1] = b[q + 4 * i + 1]; s[k + 2] = b[q + 4 * i + 2]; s[k + 3] = b[q + 4 * i + 3];
+      } else if (c === 2 && steim1) {
+        s[k] = b[q + 4 * i + 1]; s[k + 1] = b[q + 4 * i]; s[k + 2] = b[q + 4 * i + 3]; s[k + 3] = b[q + 4 * i + 2];
+      } else {
+        s[k] = b[q + 4 * i + 3]; s[k + 1] = b[q + 4 * i + 2]; s[k + 2] = b[q + 4 * i + 1]; s[k + 3] = b[q + 4 * i];
+      }
+    }
+  }
+  return s;
+}
+
 /** Last Xn read by a decoder (for reports and tests). */
 export const steimLast = { x0: 0, xn: 0, last: 0, decoded: 0 };
 
 function wordBE(b: Uint8Array, p: number): number {
   return (b[p] << 24) | (b[p + 1] << 16) | (b[p + 2] << 8) | b[p + 3];
 }
-function wordLE(b: Uint8Array, p: number): number {
-  return b[p] | (b[p + 1] << 8) | (b[p + 2] << 16) | (b[p + 3] << 24);
-}
 
 /**
  * The first difference stored in the frames (needed to start the integration from X0), or
  * undefined when there is none.
  */
-function firstDifference(b: Uint8Array, p: number, frames: number, le: boolean, steim2: boolean): number | undefined {
+function firstDifference(b: Uint8Array, p: number, frames: number, steim2: boolean): number | undefined {
   for (let f = 0; f < frames; f++) {
     const fp = p + (f << 6);
-    const w0 = le ? wordLE(b, fp) : wordBE(b, fp);
+    const w0 = wordBE(b, fp);
     for (let i = f === 0 ? 3 : 1; i < 16; i++) {
       const c = (w0 >>> (30 - 2 * i)) & 3;
       if (c === 0) continue;
-      const w = le ? wordLE(b, fp + 4 * i) : wordBE(b, fp + 4 * i);
+      const w = wordBE(b, fp + 4 * i);
       if (c === 1) return w >> 24;
       if (!steim2) return c === 2 ? w >> 16 : w;
       const dnib = w >>> 30;
@@ -66,7 +93,7 @@ function firstDifference(b: Uint8Array, p: number, frames: number, le: boolean, 
 
 /**
  * Decodes `count` Steim-2 samples from the `length` bytes at `p` (whole frames) into
- * `out[at .. at + count)`. `littleEndian` swaps each 32-bit word (blockette 1000 word order 0).
+ * `out[at .. at + count)`. `littleEndian`: blockette 1000 word order 0 (see swapFrames).
  * Returns STEIM_OK, STEIM_MISMATCH or a negative STEIM_* error code; `out` is untouched on error.
  */
 export function decodeSteim2(
@@ -75,24 +102,25 @@ export function decodeSteim2(
   const frames = length >>> 6;
   if (count === 0) return STEIM_OK;
   if (frames === 0) return STEIM_NO_FRAMES;
+  if (littleEndian) {
+    b = swapFrames(b, p, frames, false);
+    p = 0;
+  }
   const s = scratchFor(frames * STEIM2_MAX_PER_FRAME + 8);
-  const le = littleEndian;
-  const x0 = le ? wordLE(b, p + 4) : wordBE(b, p + 4);
-  const xn = le ? wordLE(b, p + 8) : wordBE(b, p + 8);
-  const d0 = firstDifference(b, p, frames, le, true);
+  const x0 = wordBE(b, p + 4);
+  const xn = wordBE(b, p + 8);
+  const d0 = firstDifference(b, p, frames, true);
   if (d0 === undefined) return STEIM_TOO_FEW;
   let last = (x0 - d0) | 0;
   let n = 0;
   for (let f = 0; f < frames && n < count; f++) {
     const fp = p + (f << 6);
-    const w0 = le ? wordLE(b, fp) : wordBE(b, fp);
+    const w0 = (b[fp] << 24) | (b[fp + 1] << 16) | (b[fp + 2] << 8) | b[fp + 3];
     for (let i = f === 0 ? 3 : 1; i < 16; i++) {
       const c = (w0 >>> (30 - 2 * i)) & 3;
       if (c === 0) continue;
       const wp = fp + (i << 2);
-      const w = le
-        ? b[wp] | (b[wp + 1] << 8) | (b[wp + 2] << 16) | (b[wp + 3] << 24)
-        : (b[wp] << 24) | (b[wp + 1] << 16) | (b[wp + 2] << 8) | b[wp + 3];
+      const w = (b[wp] << 24) | (b[wp + 1] << 16) | (b[wp + 2] << 8) | b[wp + 3];
       if (c === 1) {
         s[n] = last = (last + (w >> 24)) | 0;
         s[n + 1] = last = (last + ((w << 8) >> 24)) | 0;
@@ -160,24 +188,25 @@ export function decodeSteim1(
   const frames = length >>> 6;
   if (count === 0) return STEIM_OK;
   if (frames === 0) return STEIM_NO_FRAMES;
+  if (littleEndian) {
+    b = swapFrames(b, p, frames, true);
+    p = 0;
+  }
   const s = scratchFor(frames * STEIM1_MAX_PER_FRAME + 8);
-  const le = littleEndian;
-  const x0 = le ? wordLE(b, p + 4) : wordBE(b, p + 4);
-  const xn = le ? wordLE(b, p + 8) : wordBE(b, p + 8);
-  const d0 = firstDifference(b, p, frames, le, false);
+  const x0 = wordBE(b, p + 4);
+  const xn = wordBE(b, p + 8);
+  const d0 = firstDifference(b, p, frames, false);
   if (d0 === undefined) return STEIM_TOO_FEW;
   let last = (x0 - d0) | 0;
   let n = 0;
   for (let f = 0; f < frames && n < count; f++) {
     const fp = p + (f << 6);
-    const w0 = le ? wordLE(b, fp) : wordBE(b, fp);
+    const w0 = (b[fp] << 24) | (b[fp + 1] << 16) | (b[fp + 2] << 8) | b[fp + 3];
     for (let i = f === 0 ? 3 : 1; i < 16; i++) {
       const c = (w0 >>> (30 - 2 * i)) & 3;
       if (c === 0) continue;
       const wp = fp + (i << 2);
-      const w = le
-        ? b[wp] | (b[wp + 1] << 8) | (b[wp + 2] << 16) | (b[wp + 3] << 24)
-        : (b[wp] << 24) | (b[wp + 1] << 16) | (b[wp + 2] << 8) | b[wp + 3];
+      const w = (b[wp] << 24) | (b[wp + 1] << 16) | (b[wp + 2] << 8) | b[wp + 3];
       if (c === 1) {
         s[n] = last = (last + (w >> 24)) | 0;
         s[n + 1] = last = (last + ((w << 8) >> 24)) | 0;

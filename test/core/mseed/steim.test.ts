@@ -84,13 +84,24 @@ function steim2Word(dnib: number | null, bits: number, diffs: number[]): number 
   return w >>> 0;
 }
 
-function frameBytes(words: number[], codes: number[], littleEndian = false): Uint8Array {
+/**
+ * One frame. Little-endian frames are laid out as libmseed 2.19.8 reads them (its unpackdata.c with
+ * the swap flag): whole 32-bit words swapped, except code-1 words (four bytes, memory order) and
+ * Steim-1 code-2 words (two 16-bit halves, each swapped in place).
+ */
+function frameBytes(words: number[], codes: number[], littleEndian = false, steim1 = false): Uint8Array {
   const out = new Uint8Array(64);
   const v = new DataView(out.buffer);
   let w0 = 0;
   codes.forEach((c, i) => { w0 |= c << (30 - 2 * i); });
   v.setUint32(0, w0 >>> 0, littleEndian);
-  words.forEach((w, i) => v.setUint32(4 * (i + 1), w >>> 0, littleEndian));
+  words.forEach((w, i) => {
+    const c = codes[i + 1] ?? 0;
+    const at = 4 * (i + 1);
+    if (littleEndian && c === 1) v.setUint32(at, w >>> 0, false);
+    else if (littleEndian && c === 2 && steim1) { v.setUint16(at, w >>> 16, true); v.setUint16(at + 2, w & 0xffff, true); }
+    else v.setUint32(at, w >>> 0, littleEndian);
+  });
   return out;
 }
 
@@ -127,7 +138,7 @@ describe('Steim-2 frames written from the manual (appendix B)', () => {
     expect(Array.from(out)).toEqual(s2samples);
   });
 
-  it('decodes little-endian frames (each 32-bit word swapped, blockette 1000 word order 0) the same', () => {
+  it('decodes little-endian frames (blockette 1000 word order 0, laid out as libmseed 2.19.8 reads them) the same', () => {
     const out = new Int32Array(s2samples.length);
     expect(decodeSteim2(steim2Frame(true), 0, 64, s2samples.length, true, out, 0)).toBe(STEIM_OK);
     expect(Array.from(out)).toEqual(s2samples);
@@ -175,7 +186,7 @@ describe('Steim-1 frames written from the manual (appendix B)', () => {
     const samples = integrate(-77, diffs);
     const words = groups.map(([c, d]) => (c === 1 ? steim2Word(null, 8, d) : c === 2 ? steim2Word(null, 16, d) : d[0] >>> 0));
     for (const le of [false, true]) {
-      const f = frameBytes([-77 >>> 0, samples[samples.length - 1] >>> 0, ...words], [0, 0, 0, ...groups.map((g) => g[0])], le);
+      const f = frameBytes([-77 >>> 0, samples[samples.length - 1] >>> 0, ...words], [0, 0, 0, ...groups.map((g) => g[0])], le, true);
       const out = new Int32Array(samples.length);
       expect(decodeSteim1(f, 0, 64, samples.length, le, out, 0)).toBe(STEIM_OK);
       expect(Array.from(out)).toEqual(samples);
