@@ -49,6 +49,12 @@ export interface AppInfo {
   version: string;
 }
 
+export interface ReviewFileState {
+  path: string;
+  content: string | null;
+  lockedBy: { pid: number; host: string; since: string } | null;
+}
+
 /** Request name -> [request, response]. */
 export interface HostRequests {
   'app.info': [Record<string, never>, AppInfo];
@@ -58,6 +64,14 @@ export interface HostRequests {
   'dataset.open': [{ root: string }, Dataset];
   /** Whole file bytes; `path` relative to an opened dataset's root. */
   'file.read': [{ root: string; path: string }, Uint8Array];
+  /**
+   * Opens the dataset's review file (content null when there is none yet) and takes its lock. When
+   * another running copy holds the lock, `lockedBy` says who and nothing may be saved unless the
+   * request is repeated with `force` (the analyst chose to take over).
+   */
+  'review.open': [{ root: string; force?: boolean }, ReviewFileState];
+  /** Saves the whole review (atomically). Refused with 'locked' unless this copy holds the lock. */
+  'review.save': [{ root: string; content: string }, { path: string; bytes: number }];
   /** Bytes [offset, offset + length) of a file (fewer at its end). */
   'file.readRange': [{ root: string; path: string; offset: number; length: number }, Uint8Array];
 }
@@ -68,7 +82,7 @@ export type ResponseOf<N extends HostRequestName> = HostRequests[N][1];
 
 /** Names the host answers, for validation on both sides. */
 export const HOST_REQUEST_NAMES: readonly HostRequestName[] = [
-  'app.info', 'demo.status', 'demo.ensure', 'dataset.open', 'file.read', 'file.readRange',
+  'app.info', 'demo.status', 'demo.ensure', 'dataset.open', 'file.read', 'file.readRange', 'review.open', 'review.save',
 ];
 
 /** Requests whose response is raw bytes (sent as application/octet-stream over HTTP). */

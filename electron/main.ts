@@ -48,8 +48,10 @@ async function start(): Promise<void> {
     mode: 'desktop',
     version: app.getVersion(),
     demoRoot: process.env.DAYBREAK_DEMO_DIR ?? join(app.getAppPath(), 'samples', 'generated'),
+    userDir: app.getPath('userData'),
     generateDemo: generateDemoScenario,
   });
+  app.on('will-quit', () => void service.locks.releaseAll());
   for (const name of HOST_REQUEST_NAMES) {
     ipcMain.handle(`daybreak:${name}`, (event, request: unknown) => {
       if (!isTrustedSender(event)) return { ok: false, code: 'forbidden', message: 'untrusted sender' };

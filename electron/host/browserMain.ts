@@ -5,13 +5,14 @@
 import { join, dirname, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { existsSync, readFileSync } from 'node:fs';
+import { homedir } from 'node:os';
 import { HostService } from './service';
 import { startBrowserServer } from './server';
 import { generateDemoScenario } from './demo';
 
 const repoRoot = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
 
-export interface BrowserModeOptions { port?: number; demoDir?: string; staticDir?: string }
+export interface BrowserModeOptions { port?: number; demoDir?: string; staticDir?: string; userDir?: string }
 
 export async function runBrowserMode(opts: BrowserModeOptions = {}) {
   const staticDir = opts.staticDir ?? join(repoRoot, 'dist', 'renderer');
@@ -23,6 +24,7 @@ export async function runBrowserMode(opts: BrowserModeOptions = {}) {
     mode: 'browser',
     version,
     demoRoot: opts.demoDir ?? process.env.DAYBREAK_DEMO_DIR ?? join(repoRoot, 'samples', 'generated'),
+    userDir: opts.userDir ?? process.env.DAYBREAK_USER_DIR ?? join(homedir(), '.daybreak'),
     generateDemo: generateDemoScenario,
   });
   return startBrowserServer({ service, staticDir, port: opts.port });

@@ -10,7 +10,8 @@ import type {
   AppInfo, Dataset, DatasetFile, DemoStatus, FileKind, HostErrorCode, HostRequestName, HostRequests,
   HostResult, RequestOf, ResponseOf,
 } from '../contract';
-import { HOST_REQUEST_NAMES } from '../contract';
+import { HOST_REQUEST_NAMES, type ReviewFileState } from '../contract';
+import { ReviewLocks, reviewPathFor, writeAtomically } from './reviewStore';
 
 export class HostError extends Error {
   constructor(readonly code: HostErrorCode, message: string) {
@@ -24,6 +25,8 @@ export interface HostServiceOptions {
   version: string;
   /** Folder of the demo scenario. */
   demoRoot: string;
+  /** The user's own folder (review files of read-only datasets go here). */
+  userDir: string;
   /** Creates the demo scenario in `root`, reporting progress 0-1. */
   generateDemo?: (root: string, onProgress: (fraction: number, message: string) => void) => Promise<void>;
 }
@@ -56,6 +59,8 @@ export class HostService {
       'dataset.open': async (req) => this.openDataset(req.root),
       'file.read': async (req) => this.readDatasetFile(req.root, req.path),
       'file.readRange': async (req) => this.readDatasetRange(req.root, req.path, req.offset, req.length),
+      'review.open': async (req) => this.openReview(req.root, req.force === true),
+      'review.save': async (req) => this.saveReview(req.root, req.content),
     };
   }
 
@@ -89,6 +94,34 @@ export class HostService {
       (e: unknown) => { this.demo = { ...this.demo, state: 'failed', message: e instanceof Error ? e.message : String(e) }; },
     );
     return { ...this.demo };
+  }
+
+  readonly locks = new ReviewLocks();
+
+  private async openReview(rootArg: unknown, force: boolean): Promise<ReviewFileState> {
+    const root = this.checkOpened(rootArg);
+    const path = await reviewPathFor(root, this.opts.userDir);
+    const holder = await this.locks.acquire(path, force);
+    const content = await readFile(path, 'utf8').catch((e: NodeJS.ErrnoException) => {
+      if (e.code === 'ENOENT') return null;
+      throw e;
+    });
+    return { path, content, lockedBy: holder ? { pid: holder.pid, host: holder.host, since: holder.since } : null };
+  }
+
+  private async saveReview(rootArg: unknown, content: unknown): Promise<{ path: string; bytes: number }> {
+    const root = this.checkOpened(rootArg);
+    if (typeof content !== 'string' || content.length > 64 << 20) throw new HostError('bad-request', 'content must be text of at most 64 MiB');
+    const path = await reviewPathFor(root, this.opts.userDir);
+    if (!this.locks.holds(path)) throw new HostError('locked', `another copy of Daybreak holds ${path}; open it again to take over`);
+    await writeAtomically(path, content);
+    return { path, bytes: Buffer.byteLength(content) };
+  }
+
+  private checkOpened(rootArg: unknown): string {
+    const root = this.checkRootArg(rootArg);
+    if (!this.openRoots.has(root)) throw new HostError('forbidden', `folder was not opened: ${root}`);
+    return root;
   }
 
   private async openDataset(rootArg: unknown): Promise<Dataset> {

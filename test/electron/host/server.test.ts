@@ -45,7 +45,7 @@ describe('browser-mode server', () => {
     const demoRoot = join(base, 'demo');
     mkdirSync(demoRoot);
     writeFileSync(join(demoRoot, DEMO_COMPLETE_MARKER), '{}');
-    server = await startBrowserServer({ service: new HostService({ mode: 'browser', version: '9.9.9', demoRoot }), staticDir });
+    server = await startBrowserServer({ service: new HostService({ mode: 'browser', version: '9.9.9', demoRoot, userDir: join(base, 'user') }), staticDir });
   });
   afterAll(async () => { await server.close(); });
 
