@@ -169,6 +169,8 @@ export interface LibmseedPackParams {
   sequenceStart?: number;
   /** Add blockette 1001 so microsecond start times survive (default true). */
   blockette1001?: boolean;
+  /** Add blockette 100 holding the rate as a float32 (default false). */
+  blockette100?: boolean;
 }
 
 /** Packs `p` with libmseed 2.19 (msr_pack, flushed) into the bytes of a miniSEED file; `seconds`: msr_pack's wall-clock time. */
@@ -191,7 +193,7 @@ export function libmseedPack(p: LibmseedPackParams): { bytes: Uint8Array; record
       `net=${p.network ?? 'XX'}`, `sta=${p.station ?? 'TEST'}`, `loc=${p.location ?? ''}`, `cha=${p.channel ?? 'HHZ'}`,
       `quality=${p.quality ?? 'D'}`, `start=${p.start}`, `rate=${p.rate.toPrecision(17)}`,
       `encoding=${p.encoding}`, `byteorder=${p.byteorder}`, `reclen=${p.reclen}`,
-      `seq=${p.sequenceStart ?? 1}`, `b1001=${p.blockette1001 === false ? 0 : 1}`,
+      `seq=${p.sequenceStart ?? 1}`, `b1001=${p.blockette1001 === false ? 0 : 1}`, `b100=${p.blockette100 ? 1 : 0}`,
     ];
     const out = JSON.parse(execFileSync(tool, args, { stdio: ['ignore', 'pipe', 'pipe'] }).toString()) as { records: number; samples: number; seconds: number };
     return { bytes: new Uint8Array(readFileSync(outPath)), ...out };

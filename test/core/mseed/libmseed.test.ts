@@ -275,6 +275,61 @@ describe('reader agrees with libmseed 2.19 on files assembled from libmseed reco
   });
 });
 
+describe('reader agrees with libmseed 2.19 on header variants (SEED manual v2.4 ch. 8, fixed header and blockettes)', () => {
+  const start = 1_700_000_000_654_321;
+
+  it.each([[1, 100.0001234], [0, 99.99931], [1, 1 / 7]] as const)('blockette 100 (actual rate) ahead of blockette 1000 in the chain, byte order %i, %d Hz', (byteorder, rate) => {
+    const packed = libmseedPack({ samples: intSignal(5000, 21), encoding: 11, byteorder, reclen: 512, rate, start, blockette100: true });
+    const reading = libmseedDecodeBytes(packed.bytes);
+    expect(reading.records.every((r) => r.hasB100 && r.rate === Math.fround(rate))).toBe(true);
+    expectAgreement(packed.bytes, reading);
+  });
+
+  it.each([0, 1] as const)('time correction (field 16, 0.0001 s) applied only when activity flag bit 1 says it was not, byte order %i', (byteorder) => {
+    const packed = libmseedPack({ samples: intSignal(6000, 22), encoding: 11, byteorder, reclen: 512, rate: 100, start });
+    const bytes = packed.bytes.slice();
+    const view = new DataView(bytes.buffer);
+    const little = byteorder === 0;
+    // Record 0: -0.5 s not yet applied; records 1-5: 0.7777 s already applied (bit 1 set); from
+    // record 6 on: growing corrections not yet applied. Records move apart, never onto each other.
+    const records = bytes.length / 512;
+    expect(records).toBeGreaterThan(8);
+    const shift = (k: number) => (k === 0 ? -5000 : k <= 5 ? 0 : (k - 5) * 1234);
+    for (let k = 0; k < records; k++) {
+      view.setInt32(k * 512 + 40, k >= 1 && k <= 5 ? 7777 : shift(k), little);
+      if (k >= 1 && k <= 5) bytes[k * 512 + 36] |= 0x02;
+    }
+    const reading = libmseedDecodeBytes(bytes);
+    // The harness: libmseed moved the records whose correction was not yet applied, and only those.
+    const plain = libmseedDecodeBytes(packed.bytes);
+    expect(reading.records.map((r, k) => r.start - plain.records[k].start)).toEqual(Array.from({ length: records }, (_, k) => shift(k) * 100));
+    expectAgreement(bytes, reading);
+  });
+
+  it('records without blockette 1000: length found from the next record header, Steim-1 big-endian assumed (libmseed\'s fallback)', () => {
+    const packed = libmseedPack({ samples: intSignal(3000, 23), encoding: 10, byteorder: 1, reclen: 512, rate: 100, start: 1_700_000_000_000_000, blockette1001: false });
+    const bytes = packed.bytes.slice();
+    for (let o = 0; o < bytes.length; o += 512) {
+      bytes[o + 39] = 0; // no blockettes follow
+      bytes[o + 46] = 0;
+      bytes[o + 47] = 0;
+      bytes.fill(0, o + 48, o + 56); // and the blockette 1000 bytes are gone
+    }
+    const reading = libmseedDecodeBytes(bytes);
+    expect(reading.records.length).toBe(packed.records);
+    expect(firstDifference(reading.segments[0].samples, intSignal(3000, 23))).toBe(-1);
+    expectAgreement(bytes, reading);
+  });
+
+  it.each(['R', 'Q', 'M'] as const)('data-quality indicator %s', (quality) => {
+    const packed = libmseedPack({ samples: intSignal(3000, 24), encoding: 11, byteorder: 1, reclen: 512, rate: 100, start, quality });
+    const reading = libmseedDecodeBytes(packed.bytes);
+    expect(reading.records.every((r) => r.quality === quality)).toBe(true);
+    const { segments } = expectAgreement(packed.bytes, reading);
+    expect(segments[0].seg.quality).toBe(quality);
+  });
+});
+
 describe('reader agrees with libmseed 2.19 on the real FLOAT32 records (../shared/data/real-microseismic)', () => {
   it('the data folder is present (the tests below need it)', () => {
     expect(existsSync(REAL_WAVEFORMS), `${REAL_WAVEFORMS} is missing: clone the shared data beside the repository`).toBe(true);

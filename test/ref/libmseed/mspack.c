@@ -9,7 +9,8 @@
  * epoch), rate (Hz, any double strtod reads), encoding (0 1 3 4 5 10 11), byteorder (0 little,
  * 1 big), reclen (bytes), seq (first sequence number), append (1 to append to OUT),
  * b1001 (1, the default, adds a blockette 1001 to the template so that libmseed writes the start
- * time's microseconds beyond the 0.0001 s BTIME; without it msr_pack rounds them away).
+ * time's microseconds beyond the 0.0001 s BTIME; without it msr_pack rounds them away),
+ * b100 (1 adds a blockette 100 holding the rate as a float, default 0).
  *
  * Every record is written to OUT as libmseed hands it to the record handler. Prints
  * {"records": N, "samples": M, "seconds": S} on stdout: records written, samples packed and the
@@ -99,6 +100,18 @@ int main (int argc, char **argv)
     if (!msr_addblockette (msr, (char *)&b1001, sizeof b1001, 1001, 0))
     {
       fprintf (stderr, "mspack: cannot add blockette 1001\n");
+      return 3;
+    }
+  }
+
+  if (atoi (arg (argc, argv, "b100", "0")))
+  {
+    struct blkt_100_s b100;
+    memset (&b100, 0, sizeof b100);
+    b100.samprate = (float)msr->samprate;
+    if (!msr_addblockette (msr, (char *)&b100, sizeof b100, 100, 0))
+    {
+      fprintf (stderr, "mspack: cannot add blockette 100\n");
       return 3;
     }
   }
