@@ -192,8 +192,9 @@ export class MiniSeedCollector {
       }
       this.endMs3(fs);
       this.endBad(fs, base + p);
-      // A record length field that a bit flip made too long shows as a record header inside it.
-      const inner = this.innerHeader(bytes, p, h.recordLength);
+      // A record length field that a bit flip made too long shows as a record header inside it
+      // (looked for when the length differs from the previous record's).
+      const inner = h.recordLength === fs.lastRecordLength ? 0 : this.innerHeader(bytes, p, h.recordLength);
       if (inner > 0) {
         fs.errors.push({ offset: base + p, reason: `record length ${h.recordLength} stated, but the next record header starts ${inner} bytes on; record skipped` });
         p += inner;

@@ -181,6 +181,10 @@ export function nominalRate(factor: number, multiplier: number): number {
   return rate;
 }
 
+function failAt(path: string, offset: number, reason: string): never {
+  throw new MiniSeedError(path, offset, reason);
+}
+
 /**
  * Reads the record header at byte `offset` of `bytes`. Throws {@link MiniSeedError} (naming `path`
  * and `offset`) when the bytes are not a miniSEED 2 record, are a miniSEED 3 record, are truncated,
@@ -191,24 +195,23 @@ export function parseRecordHeader(bytes: Uint8Array, offset: number, path = '(bu
   if (!Number.isInteger(offset) || offset < 0 || offset > bytes.length) {
     throw new RangeError(`parseRecordHeader: offset must be an integer in 0..${bytes.length}, got ${offset}`);
   }
-  const fail = (reason: string): never => { throw new MiniSeedError(path, offset, reason); };
   const b = bytes;
   const o = offset;
   const avail = b.length - o;
-  if (isMiniSeed3(b, o)) fail(MSEED3_REASON);
-  if (avail < FIXED_HEADER_LENGTH) fail(`truncated: ${avail} bytes left, a record header needs ${FIXED_HEADER_LENGTH}`);
+  if (isMiniSeed3(b, o)) failAt(path, offset, MSEED3_REASON);
+  if (avail < FIXED_HEADER_LENGTH) failAt(path, offset, `truncated: ${avail} bytes left, a record header needs ${FIXED_HEADER_LENGTH}`);
 
   for (let k = 0; k < 6; k++) {
-    if (!isSequenceChar(b[o + k])) fail('not a miniSEED record: the sequence number field (bytes 0-5) is not digits');
+    if (!isSequenceChar(b[o + k])) failAt(path, offset, 'not a miniSEED record: the sequence number field (bytes 0-5) is not digits');
   }
   const q = b[o + 6];
-  if (!isQualityChar(q)) fail(`not a miniSEED record: quality indicator is byte 0x${q.toString(16).padStart(2, '0')}, allowed D, R, Q, M`);
+  if (!isQualityChar(q)) failAt(path, offset, `not a miniSEED record: quality indicator is byte 0x${q.toString(16).padStart(2, '0')}, allowed D, R, Q, M`);
   const reserved = b[o + 7];
-  if (reserved !== 0x20 && reserved !== 0) fail('not a miniSEED record: reserved byte 7 is not blank');
+  if (reserved !== 0x20 && reserved !== 0) failAt(path, offset, 'not a miniSEED record: reserved byte 7 is not blank');
 
   const le = headerByteOrder(b, o);
   if (le === null) {
-    fail(`start time year ${u16(b, o + 20, false)} / day ${u16(b, o + 22, false)} out of range (year 1900-2100, day 1-366) in either byte order`);
+    failAt(path, offset, `start time year ${u16(b, o + 20, false)} / day ${u16(b, o + 22, false)} out of range (year 1900-2100, day 1-366) in either byte order`);
   }
   const hle = le as boolean;
   const year = u16(b, o + 20, hle);
@@ -217,10 +220,10 @@ export function parseRecordHeader(bytes: Uint8Array, offset: number, path = '(bu
   const minute = b[o + 25];
   const second = b[o + 26];
   const fract = u16(b, o + 28, hle);
-  if (hour > 23) fail(`start time hour ${hour} out of range 0-23`);
-  if (minute > 59) fail(`start time minute ${minute} out of range 0-59`);
-  if (second > 60) fail(`start time second ${second} out of range 0-60`);
-  if (fract > 9999) fail(`start time fraction ${fract} out of range 0-9999 (units of 0.0001 s)`);
+  if (hour > 23) failAt(path, offset, `start time hour ${hour} out of range 0-23`);
+  if (minute > 59) failAt(path, offset, `start time minute ${minute} out of range 0-59`);
+  if (second > 60) failAt(path, offset, `start time second ${second} out of range 0-60`);
+  if (fract > 9999) failAt(path, offset, `start time fraction ${fract} out of range 0-9999 (units of 0.0001 s)`);
 
   const sampleCount = u16(b, o + 30, hle);
   const factor = i16(b, o + 32, hle);
@@ -247,33 +250,33 @@ export function parseRecordHeader(bytes: Uint8Array, offset: number, path = '(bu
   const limit = Math.min(avail, MAX_RECORD_LENGTH);
   while (blk !== 0) {
     if (blk <= prev) {
-      fail(blk < FIXED_HEADER_LENGTH
+      failAt(path, offset, blk < FIXED_HEADER_LENGTH
         ? `blockette offset ${blk} lies inside the fixed header (must be >= 48)`
         : `blockette chain loops back: next blockette offset ${blk} is not past ${prev}`);
     }
-    if (blk + 4 > limit) fail(`blockette at offset ${blk} lies beyond the ${limit} bytes of the record`);
+    if (blk + 4 > limit) failAt(path, offset, `blockette at offset ${blk} lies beyond the ${limit} bytes of the record`);
     const type = u16(b, o + blk, hle);
     const next = u16(b, o + blk + 2, hle);
     blockettes.push(type);
     let size = 4;
     if (type === 1000) {
       size = 8;
-      if (blk + 8 > limit) fail(`blockette 1000 at offset ${blk} is truncated`);
+      if (blk + 8 > limit) failAt(path, offset, `blockette 1000 at offset ${blk} is truncated`);
       encoding = b[o + blk + 4];
       dataLittleEndian = b[o + blk + 5] === 0; // 1 = big-endian; other values: big-endian, as libmseed does
       const exp = b[o + blk + 6];
-      if (exp < 7 || exp > 16) fail(`blockette 1000 record length exponent ${exp} out of range 7-16 (128-65536 bytes)`);
+      if (exp < 7 || exp > 16) failAt(path, offset, `blockette 1000 record length exponent ${exp} out of range 7-16 (128-65536 bytes)`);
       recordLength = 2 ** exp;
       hasB1000 = true;
     } else if (type === 100) {
       size = 12;
-      if (blk + 12 > limit) fail(`blockette 100 at offset ${blk} is truncated`);
+      if (blk + 12 > limit) failAt(path, offset, `blockette 100 at offset ${blk} is truncated`);
       const r = f32(b, o + blk + 4, hle);
-      if (!(r > 0) || !Number.isFinite(r)) fail(`blockette 100 actual sample rate ${r} is not a positive number`);
+      if (!(r > 0) || !Number.isFinite(r)) failAt(path, offset, `blockette 100 actual sample rate ${r} is not a positive number`);
       b100Rate = r;
     } else if (type === 1001) {
       size = 8;
-      if (blk + 8 > limit) fail(`blockette 1001 at offset ${blk} is truncated`);
+      if (blk + 8 > limit) failAt(path, offset, `blockette 1001 at offset ${blk} is truncated`);
       timingQuality = b[o + blk + 4];
       microsecondOffset = (b[o + blk + 5] << 24) >> 24;
     }
@@ -281,20 +284,20 @@ export function parseRecordHeader(bytes: Uint8Array, offset: number, path = '(bu
     prev = blk;
     blk = next;
     if (blk !== 0 && blk < prev + size) {
-      fail(next <= prev ? `blockette chain loops back: next blockette offset ${next} is not past ${prev}`
+      failAt(path, offset, next <= prev ? `blockette chain loops back: next blockette offset ${next} is not past ${prev}`
         : `next blockette offset ${next} lies inside blockette ${type} at ${prev}`);
     }
   }
 
   if (!hasB1000) {
     recordLength = impliedRecordLength(b, o);
-    if (recordLength === 0) fail('no blockette 1000, and no following record header or end of file gives the record length');
+    if (recordLength === 0) failAt(path, offset, 'no blockette 1000, and no following record header or end of file gives the record length');
     dataLittleEndian = hle; // libmseed: without blockette 1000 the data has the header's byte order
   }
-  if (recordLength > avail) fail(`truncated: record length is ${recordLength} bytes but only ${avail} remain`);
-  if (chainEnd > recordLength) fail(`blockettes run to byte ${chainEnd}, past the record length ${recordLength}`);
+  if (recordLength > avail) failAt(path, offset, `truncated: record length is ${recordLength} bytes but only ${avail} remain`);
+  if (chainEnd > recordLength) failAt(path, offset, `blockettes run to byte ${chainEnd}, past the record length ${recordLength}`);
   if (sampleCount > 0 && (dataOffset < FIXED_HEADER_LENGTH || dataOffset >= recordLength)) {
-    fail(`data offset ${dataOffset} out of range ${FIXED_HEADER_LENGTH}-${recordLength - 1}`);
+    failAt(path, offset, `data offset ${dataOffset} out of range ${FIXED_HEADER_LENGTH}-${recordLength - 1}`);
   }
 
   const timeCorrection = timeCorrectionField * 100;
