@@ -2,21 +2,10 @@ import { describe, expect, it } from 'vitest';
 import { execFileSync } from 'node:child_process';
 import { firstArrival, firstArrivalInto, type TravelTime, type Wave } from '../../../core/location/travelTime';
 import { DEFAULT_MODEL, checkVelocityModel, type VelocityModel } from '../../../core/location/velocityModel';
+import { rng } from './reference';
 
 const model = (layers: [number, number, number][]): VelocityModel =>
   checkVelocityModel(layers.map(([topKm, vp, vs]) => ({ topKm, vp, vs })), 'test model');
-
-/** Small seeded generator (mulberry32) so the random cases are the same on every run. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 // ---------------------------------------------------------------------------------------------
 // An independent brute-force ray shooter, written for this test from Snell's law alone: it cuts the

@@ -1,0 +1,251 @@
+import { describe, expect, it } from 'vitest';
+import { execFileSync } from 'node:child_process';
+import {
+  ELLIPSE_68_SCALE, azimuthDeg, azimuthalGapDeg, locate, type LocationPick, type LocationStation,
+} from '../../../core/location/geiger';
+import { firstArrival, type Wave } from '../../../core/location/travelTime';
+import { DEFAULT_MODEL, checkVelocityModel } from '../../../core/location/velocityModel';
+import { gaussian, rng, vincentyKm } from './reference';
+
+// An invented network of 14 stations, about 70 x 70 km, around 46.0 N 8.0 E (two rings and a centre).
+const STATIONS: LocationStation[] = [];
+for (let i = 0; i < 14; i++) {
+  const ring = i === 0 ? 0 : i <= 5 ? 0.12 : 0.3;
+  const ang = i * 2.4;
+  STATIONS.push({ key: `XX.S${String(i).padStart(2, '0')}`, latDeg: 46 + ring * Math.cos(ang), lonDeg: 8 + 1.4 * ring * Math.sin(ang), elevKm: 0.2 + 0.11 * (i % 7) });
+}
+const T0 = 1_764_633_600_000_000; // 2025-12-02T00:00:00Z, in microseconds
+
+interface Truth { lat: number; lon: number; depth: number }
+
+/**
+ * Picks computed from the true hypocentre: distances on the WGS84 ellipsoid (Vincenty, independent
+ * of the locator's projection), times from the layered model, rounded to the microsecond, plus
+ * optional Gaussian errors of the stated sigma.
+ */
+function synthetic(truth: Truth, stations: LocationStation[], sigmaP: number, sigmaS: number, noise?: () => number, waves: Wave[] = ['P', 'S']): LocationPick[] {
+  const picks: LocationPick[] = [];
+  for (const s of stations) {
+    const d = vincentyKm(truth.lat, truth.lon, s.latDeg, s.lonDeg);
+    for (const w of waves) {
+      const sigma = w === 'P' ? sigmaP : sigmaS;
+      const t = firstArrival(DEFAULT_MODEL, w, d, truth.depth, s.elevKm).time + (noise ? sigma * noise() : 0);
+      picks.push({ stationKey: s.key, wave: w, time: T0 + Math.round(t * 1e6), uncertaintyS: sigma });
+    }
+  }
+  return picks;
+}
+
+/** Horizontal miss, km (Vincenty). */
+const miss = (lat: number, lon: number, t: Truth): number => vincentyKm(lat, lon, t.lat, t.lon);
+
+describe('geiger', () => {
+  it('ELLIPSE_68_SCALE is sqrt of the chi-square 2-dof quantile at 68.27 %, as scipy computes it', () => {
+    // scipy.stats.chi2.ppf (scipy 1.17), computed in this run.
+    const py = execFileSync('python3', ['-c', 'from scipy.stats import chi2; print(repr(float(chi2.ppf(0.6827, 2) ** 0.5)))']).toString();
+    expect(ELLIPSE_68_SCALE).toBeCloseTo(Number(py), 12);
+    expect(ELLIPSE_68_SCALE).toBeCloseTo(1.515, 3);
+  });
+
+  it('exact synthetic times give the true hypocentre within 10 m and the origin time within 1 ms', () => {
+    const r = rng(11);
+    let worstH = 0;
+    let worstZ = 0;
+    let worstT = 0;
+    for (let k = 0; k < 12; k++) {
+      const truth = { lat: 46 + 0.3 * (r() - 0.5), lon: 8 + 0.4 * (r() - 0.5), depth: 1 + 19 * r() };
+      const res = locate(STATIONS, synthetic(truth, STATIONS, 0.05, 0.1));
+      expect(res.ok).toBe(true);
+      if (!res.ok) return;
+      const v = res.value;
+      worstH = Math.max(worstH, miss(v.latDeg, v.lonDeg, truth) * 1000);
+      worstZ = Math.max(worstZ, Math.abs(v.depthKm - truth.depth) * 1000);
+      worstT = Math.max(worstT, Math.abs(v.originTime - T0));
+      expect(miss(v.latDeg, v.lonDeg, truth) * 1000, `event ${k}`).toBeLessThan(10);
+      expect(Math.abs(v.depthKm - truth.depth) * 1000, `event ${k}`).toBeLessThan(10);
+      expect(Math.abs(v.originTime - T0), `event ${k}`).toBeLessThan(1000);
+      expect(v.rmsS).toBeLessThan(0.002);
+      expect(v.phaseCount).toBe(28);
+      expect(v.stationCount).toBe(14);
+      expect(v.depthFixed).toBe(false);
+      expect(v.arrivals.length).toBe(28);
+    }
+    console.log(`exact times: worst miss ${worstH.toFixed(2)} m horizontal, ${worstZ.toFixed(2)} m depth, ${worstT} us origin time`);
+  });
+
+  it('an event outside the network is found too, with a large azimuthal gap', () => {
+    const truth = { lat: 46.75, lon: 8.1, depth: 12 };
+    const res = locate(STATIONS, synthetic(truth, STATIONS, 0.05, 0.1));
+    if (!res.ok) throw new Error(res.message);
+    expect(miss(res.value.latDeg, res.value.lonDeg, truth) * 1000).toBeLessThan(10);
+    expect(res.value.gapDeg).toBeGreaterThan(180);
+  });
+
+  it('the 68 % ellipse covers the true epicentre in 68 % of trials with Gaussian pick errors (200 trials, within +-10 %)', () => {
+    // With errors drawn at the stated sigmas the a-priori covariance is the right one, so the true
+    // epicentre falls inside the ellipse with probability 0.6827 (to linearisation). 200 trials give
+    // a binomial standard deviation of 3.3 %; +-10 % is three of them.
+    const r = rng(2024);
+    const g = gaussian(r);
+    let inside = 0;
+    let depthInside = 0;
+    const trials = 200;
+    for (let k = 0; k < trials; k++) {
+      const truth = { lat: 46 + 0.2 * (r() - 0.5), lon: 8 + 0.28 * (r() - 0.5), depth: 6 + 8 * r() };
+      const res = locate(STATIONS, synthetic(truth, STATIONS, 0.05, 0.1, g));
+      if (!res.ok) throw new Error(res.message);
+      const v = res.value;
+      // truth in the ellipse frame: offset east/north of the solution, km
+      const d = miss(v.latDeg, v.lonDeg, truth);
+      const az = azimuthDeg(v.latDeg, v.lonDeg, truth.lat, truth.lon) * Math.PI / 180;
+      const e = d * Math.sin(az);
+      const n = d * Math.cos(az);
+      const a = v.ellipse.majorAzimuthDeg * Math.PI / 180;
+      const along = e * Math.sin(a) + n * Math.cos(a);
+      const across = e * Math.cos(a) - n * Math.sin(a);
+      if ((along / v.ellipse.semiMajorKm) ** 2 + (across / v.ellipse.semiMinorKm) ** 2 <= 1) inside++;
+      if (Math.abs(v.depthKm - truth.depth) <= v.depthErrorKm) depthInside++;
+    }
+    console.log(`68 % ellipse coverage ${(100 * inside / trials).toFixed(1)} %, 1-sigma depth coverage ${(100 * depthInside / trials).toFixed(1)} % (${trials} trials)`);
+    expect(inside / trials).toBeGreaterThan(0.6827 - 0.1);
+    expect(inside / trials).toBeLessThan(0.6827 + 0.1);
+    // the 1-sigma depth error covers the true depth 68.3 % of the time too
+    expect(depthInside / trials).toBeGreaterThan(0.6827 - 0.1);
+    expect(depthInside / trials).toBeLessThan(0.6827 + 0.1);
+  }, 60_000);
+
+  it('the ellipse is elongated along the direction the network does not constrain', () => {
+    // Stations in a narrow north-south strip east of the event: the distance from the strip (east-west)
+    // trades off against depth and origin time, the position along it (north-south) does not.
+    const strip: LocationStation[] = Array.from({ length: 10 }, (_, i) => ({ key: `L${i}`, latDeg: 45.7 + 0.07 * i, lonDeg: 8.3 + 0.06 * (i % 2), elevKm: 0 }));
+    const truth = { lat: 46.0, lon: 8.0, depth: 8 };
+    const res = locate(strip, synthetic(truth, strip, 0.05, 0.1, gaussian(rng(3))));
+    if (!res.ok) throw new Error(res.message);
+    const v = res.value;
+    expect(v.ellipse.semiMajorKm).toBeGreaterThan(1.5 * v.ellipse.semiMinorKm);
+    expect(Math.min(v.ellipse.majorAzimuthDeg, 180 - v.ellipse.majorAzimuthDeg)).toBeGreaterThan(60); // roughly east-west
+    expect(v.eastErrorKm).toBeGreaterThan(v.northErrorKm);
+    expect(v.gapDeg).toBeGreaterThan(180);
+  });
+
+  it('stations on one straight line cannot separate depth from the distance off the line: ill-conditioned', () => {
+    // In a flat model only sqrt(offset^2 + depth^2) matters to a line of stations.
+    const line: LocationStation[] = Array.from({ length: 8 }, (_, i) => ({ key: `L${i}`, latDeg: 45.7 + 0.09 * i, lonDeg: 8.3, elevKm: 0 }));
+    const res = locate(line, synthetic({ lat: 46.0, lon: 8.0, depth: 8 }, line, 0.05, 0.1));
+    expect(res.ok).toBe(false);
+    if (!res.ok) {
+      expect(res.code).toBe('ill-conditioned');
+      expect(res.message).toMatch(/^the stations and phases do not constrain all 4 unknowns \(singular values /);
+    }
+  });
+
+  it('a fixed depth is held, reported as fixed, with no depth error', () => {
+    const truth = { lat: 46.05, lon: 8.02, depth: 7.5 };
+    const res = locate(STATIONS, synthetic(truth, STATIONS, 0.05, 0.1), { fixedDepthKm: 7.5 });
+    if (!res.ok) throw new Error(res.message);
+    expect(res.value.depthKm).toBe(7.5);
+    expect(res.value.depthFixed).toBe(true);
+    expect(res.value.depthErrorKm).toBeNaN();
+    expect(res.value.covariance.length).toBe(3);
+    expect(miss(res.value.latDeg, res.value.lonDeg, truth) * 1000).toBeLessThan(10);
+    // held at a wrong depth the epicentre moves and the residuals grow
+    const wrong = locate(STATIONS, synthetic(truth, STATIONS, 0.05, 0.1), { fixedDepthKm: 15 });
+    if (!wrong.ok) throw new Error(wrong.message);
+    expect(wrong.value.rmsS).toBeGreaterThan(0.02);
+  });
+
+  it('one wild pick does not spoil the start; its residual shows it', () => {
+    const truth = { lat: 45.95, lon: 7.95, depth: 10 };
+    const picks = synthetic(truth, STATIONS, 0.05, 0.1);
+    picks[6] = { ...picks[6], time: picks[6].time + 4_000_000 }; // 4 s late
+    const res = locate(STATIONS, picks);
+    if (!res.ok) throw new Error(res.message);
+    const worst = res.value.arrivals.reduce((a, b) => (Math.abs(b.residualS) > Math.abs(a.residualS) ? b : a));
+    expect(worst.pickIndex).toBe(6);
+    expect(miss(res.value.latDeg, res.value.lonDeg, truth)).toBeLessThan(3);
+    // left out, the pick still gets its residual (4 s) and weight 0, and the location is exact again
+    picks[6] = { ...picks[6], use: false };
+    const again = locate(STATIONS, picks);
+    if (!again.ok) throw new Error(again.message);
+    expect(again.value.arrivals[6]).toMatchObject({ used: false, weight: 0 });
+    expect(again.value.arrivals[6].residualS).toBeCloseTo(4, 2);
+    expect(again.value.phaseCount).toBe(27);
+    expect(miss(again.value.latDeg, again.value.lonDeg, truth) * 1000).toBeLessThan(10);
+  });
+
+  it('picks with questionable timing are down-weighted (sigma x 3, weight 1/9) or left out', () => {
+    const truth = { lat: 46.0, lon: 8.05, depth: 9 };
+    const picks = synthetic(truth, STATIONS, 0.05, 0.05).map((p, i) => (i === 4 ? { ...p, timingQuestionable: true } : p));
+    const down = locate(STATIONS, picks);
+    if (!down.ok) throw new Error(down.message);
+    expect(down.value.arrivals[4].weight).toBeCloseTo(1 / 9, 12);
+    expect(down.value.arrivals[4].used).toBe(true);
+    expect(down.value.arrivals[5].weight).toBe(1);
+    const out = locate(STATIONS, picks, { questionableTiming: 'exclude' });
+    if (!out.ok) throw new Error(out.message);
+    expect(out.value.arrivals[4].used).toBe(false);
+    expect(out.value.phaseCount).toBe(27);
+  });
+
+  it('residuals, distances and azimuths are reported per pick', () => {
+    const truth = { lat: 46.0, lon: 8.0, depth: 5 };
+    const res = locate(STATIONS, synthetic(truth, STATIONS, 0.05, 0.1));
+    if (!res.ok) throw new Error(res.message);
+    for (const a of res.value.arrivals) {
+      const s = STATIONS.find((x) => x.key === a.stationKey) as LocationStation;
+      expect(Math.abs(a.distanceKm - vincentyKm(truth.lat, truth.lon, s.latDeg, s.lonDeg))).toBeLessThan(0.02);
+      expect(a.distanceDeg).toBeCloseTo(a.distanceKm / 111.19508, 6);
+      expect(Math.abs(a.residualS)).toBeLessThan(0.002);
+      expect(a.phase).toBe(a.wave + 'g');
+    }
+    // the station due north-east of the origin: azimuth about 45 degrees
+    expect(azimuthDeg(46, 8, 46.1, 8 + 0.1 / Math.cos(46 * Math.PI / 180))).toBeCloseTo(45, 0);
+  });
+
+  it('azimuthalGapDeg is the largest angle between neighbouring azimuths around the circle', () => {
+    expect(azimuthalGapDeg([10, 100, 200])).toBe(170);
+    expect(azimuthalGapDeg([350, 10, 90, 180, 270])).toBe(90);
+    expect(azimuthalGapDeg([45])).toBe(360);
+    expect(azimuthalGapDeg([0, 120, 240])).toBe(120);
+  });
+
+  it('under 4 phases gives a clear message instead of a number', () => {
+    const picks = synthetic({ lat: 46, lon: 8, depth: 5 }, STATIONS.slice(0, 3), 0.05, 0.1, undefined, ['P']);
+    expect(locate(STATIONS, picks)).toEqual({ ok: false, code: 'too-few-phases', message: '3 usable phases; at least 4 are needed to locate (origin time, latitude, longitude, depth)' });
+  });
+
+  it('picks from a single station cannot fix an epicentre: ill-conditioned, said so', () => {
+    const one = synthetic({ lat: 46, lon: 8, depth: 5 }, STATIONS.slice(3, 4), 0.05, 0.1);
+    const res = locate(STATIONS, [...one, ...one]);
+    expect(res.ok).toBe(false);
+    if (!res.ok) expect(res.code).toBe('ill-conditioned');
+  });
+
+  it('an iteration limit that is too small reports no convergence', () => {
+    const res = locate(STATIONS, synthetic({ lat: 46.1, lon: 8.1, depth: 12 }, STATIONS, 0.05, 0.1), { maxIterations: 1 });
+    expect(res).toEqual({ ok: false, code: 'did-not-converge', message: 'no convergence in 1 iterations' });
+  });
+
+  it('rejects bad arguments naming the value', () => {
+    const p: LocationPick = { stationKey: 'XX.S01', wave: 'P', time: T0, uncertaintyS: 0.05 };
+    expect(() => locate(STATIONS, [{ ...p, stationKey: 'NOPE' }])).toThrow('pick 0: station "NOPE" is not among the stations given');
+    expect(() => locate(STATIONS, [{ ...p, uncertaintyS: 0 }])).toThrow('pick 0: uncertaintyS must be in (0, 100] s, got 0');
+    expect(() => locate(STATIONS, [{ ...p, time: 1.5 }])).toThrow('pick 0: time must be integer microseconds, got 1.5');
+    expect(() => locate(STATIONS, [p], { maxIterations: 0 })).toThrow('maxIterations must be an integer in [1, 1000], got 0');
+  });
+
+  it('locates 30 phases in well under 20 ms of CPU time once the start tables exist', () => {
+    const stations = STATIONS.concat([{ key: 'XX.S14', latDeg: 46.2, lonDeg: 7.7, elevKm: 1 }]);
+    const picks = synthetic({ lat: 46.03, lon: 8.04, depth: 8 }, stations, 0.05, 0.1, gaussian(rng(1)));
+    expect(picks.length).toBe(30);
+    const model = checkVelocityModel(DEFAULT_MODEL.layers, 'copy');
+    locate(stations, picks, { model }); // builds the start tables of this model
+    const runs = 20;
+    const c0 = process.cpuUsage();
+    for (let i = 0; i < runs; i++) locate(stations, picks, { model });
+    const c = process.cpuUsage(c0);
+    const ms = (c.user + c.system) / 1000 / runs;
+    console.log(`locate, 30 phases: ${ms.toFixed(2)} ms CPU per event`);
+    expect(ms).toBeLessThan(20);
+  });
+});
