@@ -54,6 +54,10 @@ class RecordRef {
   heldAt = 0;
   /** 0 ok, 1 decoded with Steim mismatch, 2 could not be decoded. */
   status = 0;
+  /** Pass 2 has been through this record. */
+  decoded = false;
+  /** Overlapping records: 0 not compared yet, 1 same samples as held, 2 different. */
+  verdict = 0;
   /** The first `skip` samples, decoded in pass 2 (rare: overlapping records only). */
   head: SampleArray | null = null;
   /** The channel's segment plans (set when the record is added). */
@@ -396,11 +400,18 @@ export class MiniSeedCollector {
         r.status = decodeSamples(bytes, dataStart, dataLength, r.encoding, r.count, r.littleEndian, all, 0);
         r.head = all.subarray(0, r.skip);
         if (r.skip < r.count) seg.samples.set(all.subarray(r.skip) as never, r.at);
+        // Compare now when the held samples are already decoded, so a duplicate's samples are not kept.
+        if (heldState(seg, r) === 1) {
+          r.verdict = seg.kind === r.kind && sameSamples(seg.samples, r.heldAt, r.head) ? 1 : 2;
+          if (r.verdict === 1) r.head = null;
+        }
       }
     } catch (e) {
       r.status = 2;
+      fs.records--;
       fs.errors.push({ offset: r.offset, reason: e instanceof Error ? e.message : String(e) });
     }
+    r.decoded = true;
   }
 
   /** Sorts out overlaps and duplicates and returns the channels, logs and per-file reports. */
@@ -410,6 +421,8 @@ export class MiniSeedCollector {
       for (; fs.cursor < fs.queue.length; fs.cursor++) {
         const r = fs.queue[fs.cursor];
         r.status = 2;
+        r.decoded = true;
+        fs.records--;
         fs.errors.push({ offset: r.offset, reason: 'record was not given again for decoding (file changed or shortened between passes?)' });
       }
     }
@@ -436,13 +449,16 @@ export class MiniSeedCollector {
     let duplicatesDropped = 0;
     const conflicting: RecordRef[] = [];
     for (const r of ch.overlapping) {
-      if (r.status === 2 || !r.head) continue;
+      if (r.status === 2) continue;
       const seg = ch.plans[r.seg];
-      if (seg.kind === r.kind && r.heldAt >= 0 && heldUsable(seg, r) && sameSamples(seg.samples as SampleArray, r.heldAt, r.head)) {
+      if (r.verdict === 0 && r.head) {
+        r.verdict = seg.kind === r.kind && heldState(seg, r) === 1 && sameSamples(seg.samples as SampleArray, r.heldAt, r.head) ? 1 : 2;
+      }
+      if (r.verdict === 1) {
         if (r.skip === r.count) duplicatesDropped++;
         continue;
       }
-      conflicting.push(r);
+      if (r.head) conflicting.push(r);
     }
     const segments: Segment[] = [];
     for (const plan of ch.plans) pushPieces(ch.id, plan, segments);
@@ -458,10 +474,14 @@ export class MiniSeedCollector {
   }
 }
 
-/** The held samples a record is compared with were all decoded (no failed record among them). */
-function heldUsable(seg: SegmentPlan, r: RecordRef): boolean {
+/**
+ * State of the held samples a record's first `skip` samples are compared with: 0 not all decoded
+ * yet, 1 all decoded, 2 some of them failed to decode.
+ */
+function heldState(seg: SegmentPlan, r: RecordRef): 0 | 1 | 2 {
   const from = r.heldAt;
   const to = r.heldAt + r.skip;
+  if (from < 0) return 2;
   const recs = seg.records;
   // Records are in sample order: binary-search the first whose placed samples end after `from`.
   let lo = 0;
@@ -472,13 +492,18 @@ function heldUsable(seg: SegmentPlan, r: RecordRef): boolean {
     if (m.at + m.count - m.skip <= from) lo = mid + 1;
     else hi = mid;
   }
+  let state: 0 | 1 | 2 = 1;
   for (let k = lo; k < recs.length && recs[k].at < to; k++) {
-    if (recs[k] !== r && recs[k].status === 2) return false;
+    const h = recs[k];
+    if (h === r) continue;
+    if (h.decoded && h.status === 2) return 2;
+    if (!h.decoded) state = 0;
   }
-  return true;
+  return state;
 }
 
-function sameSamples(held: SampleArray, at: number, head: SampleArray): boolean {
+function sameSamples(held: SampleArray | null, at: number, head: SampleArray): boolean {
+  if (!held) return false;
   if (at + head.length > held.length) return false;
   for (let i = 0; i < head.length; i++) {
     const a = held[at + i];

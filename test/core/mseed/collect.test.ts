@@ -124,6 +124,22 @@ describe('assembling records into segments (100 Hz, 10 samples = 100 ms per reco
     expect(ch.overlaps).toEqual([]);
   });
 
+  it('compares overlapping records the same whichever comes first in the file', () => {
+    const a = rec({ values: ramp(0), at: 0 });
+    const same = rec({ values: ramp(5), at: 50_000 });
+    const differs = rec({ values: ramp(900), at: 50_000 });
+    for (const order of [[a, same], [same, a]]) {
+      const ch = read(...order).channels[0];
+      expect(Array.from(ch.segments[0].samples)).toEqual(ramp(0, 15));
+      expect(ch.overlaps).toEqual([]);
+    }
+    for (const order of [[a, differs], [differs, a]]) {
+      const ch = read(...order).channels[0];
+      expect(ch.overlaps.map((o) => Array.from(o.segment.samples))).toEqual([ramp(900, 5)]);
+      expect(Array.from(ch.segments[0].samples)).toEqual([...ramp(0), ...ramp(905, 5)]);
+    }
+  });
+
   it('keeps integer and float records of one channel in separate segments', () => {
     const ch = read(rec({ values: ramp(0), at: 0 }), rec({ values: [0.5, 1.5], at: 100_000, encoding: 4 })).channels[0];
     expect(ch.segments.map((s) => s.samples.constructor.name)).toEqual(['Int32Array', 'Float32Array']);
@@ -157,6 +173,7 @@ describe('bad input never loses the good records around it', () => {
       blockettes: [{ type: 1000, encoding: 11, exponent: 9 }] });
     const r = read(rec({ values: ramp(0), at: 0 }), broken, rec({ values: ramp(15), at: 150_000 }), rec({ values: ramp(25), at: 250_000 }));
     expect(r.files[0].errors).toEqual([{ offset: 512, reason: 'STEIM2 frame has an undefined difference code' }]);
+    expect(r.files[0].records).toBe(3);
     const ch = r.channels[0];
     expect(ch.segments.map((s) => Array.from(s.samples))).toEqual([ramp(0), ramp(15, 20)]);
     expect(ch.gaps).toEqual([{ start: T0 + 100_000, end: T0 + 150_000 }]);
