@@ -8,7 +8,7 @@ import { writeMiniSeed, type MiniSeedWriteOptions } from '../../../core/mseed/wr
 import { readMiniSeedBuffer } from '../../../core/mseed';
 import type { ChannelId } from '../../../core/model';
 import { microsFromIso } from '../../../core/time';
-import { intSignal, libmseedDecodeBytes, libmseedPack, type LibmseedReading } from '../../ref/libmseed';
+import { intSignal, lcg, libmseedDecodeBytes, libmseedPack, type LibmseedReading } from '../../ref/libmseed';
 
 const ID: ChannelId = { network: 'XX', station: 'DAYB', location: '00', channel: 'HHZ' };
 const START = microsFromIso('2026-03-14T01:59:26.535897Z');
@@ -124,6 +124,60 @@ describe('differences too wide for Steim-2 fall back to Steim-1 or INT32 records
     const wide = Int32Array.from({ length: 200 }, (_, i) => (i < 100 ? 0 : 2 ** 29));
     const reading = expectLibmseedReadsBack(write(wide, 100, { recordLength: 512 }), wide, START, 100);
     expect(reading.records.map((r) => r.encoding)).toContain(10);
+  });
+});
+
+describe('seeded random signals, many channels in one file, all read back by libmseed 2.19', () => {
+  it('150 channels of random length, rate, start, record length and wide jumps: every sample and record time', () => {
+    const rnd = lcg(2026);
+    const written: { station: string; samples: Int32Array; start: number; rate: number }[] = [];
+    const parts: Uint8Array[] = [];
+    for (let k = 0; k < 150; k++) {
+      const n = 1 + Math.floor(rnd() * 4000);
+      const samples = noise(n, k);
+      // Wide jumps of every size class (30, 31, 32 bits and full scale) at random places.
+      for (let j = 0; j < Math.floor(rnd() * 4); j++) {
+        const at = Math.floor(rnd() * n);
+        samples[at] = [2 ** 29 + 1, -(2 ** 30), 2 ** 31 - 1, -(2 ** 31)][Math.floor(rnd() * 4)];
+      }
+      const rate = [40, 100, 200, 500, 1, 0.1][Math.floor(rnd() * 6)];
+      const start = START + Math.floor(rnd() * 1e9);
+      const station = `R${k}`;
+      const recordLength = [256, 512, 4096][Math.floor(rnd() * 3)];
+      parts.push(writeMiniSeed({ ...ID, station }, start, rate, samples, { recordLength, encoding: rnd() < 0.2 ? 10 : 11 }));
+      written.push({ station, samples, start, rate });
+    }
+    const all = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
+    let o = 0;
+    for (const p of parts) { all.set(p, o); o += p.length; }
+    const reading = libmseedDecodeBytes(all);
+    expect(reading.error).toBeNull();
+    // Disagreements, collected and asserted once (one expect per record would be slow).
+    const problems: string[] = [];
+    for (const w of written) {
+      const id = `XX.${w.station}.00.HHZ`;
+      const segs = reading.segments.filter((s) => s.id === id);
+      if (segs.length !== 1) { problems.push(`${id}: ${segs.length} segments`); continue; }
+      const at = firstDifference(segs[0].samples, w.samples);
+      if (segs[0].start !== w.start || segs[0].rate !== w.rate || at !== -1) {
+        problems.push(`${id}: start ${segs[0].start}/${w.start}, rate ${segs[0].rate}/${w.rate}, first differing sample ${at}`);
+      }
+      let first = 0;
+      for (const r of reading.records) {
+        if (r.id !== id) continue;
+        const expected = w.start + Math.round((first * 1e6) / w.rate);
+        if (r.start !== expected) problems.push(`${id} record at byte ${r.offset}: start ${r.start}, expected ${expected}`);
+        first += r.count;
+      }
+    }
+    expect(problems).toEqual([]);
+    expect(reading.records.length).toBeGreaterThan(150);
+  });
+
+  it('a record never holds more than 65535 samples (16-bit count): constant signal in 65536-byte records', () => {
+    const samples = new Int32Array(200_000).fill(-17);
+    const reading = expectLibmseedReadsBack(write(samples, 100, { recordLength: 65536 }), samples, START, 100);
+    expect(reading.records.map((r) => r.count)).toEqual([65535, 65535, 65535, 3395]);
   });
 });
 
