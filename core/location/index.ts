@@ -1,0 +1,16 @@
+// Public API of the location area: velocity model, travel times, projection, Geiger location, Wadati.
+export {
+  DEFAULT_MODEL, VelocityModelError, checkVelocityModel, parseVelocityModel, velocityModelJson,
+  type VelocityLayer, type VelocityModel,
+} from './velocityModel';
+export { firstArrival, firstArrivalInto, type TravelTime, type Wave } from './travelTime';
+export { START_TABLE_GRID, TravelTimeTable, startTable, type TravelTimeTableGrid } from './travelTimeTable';
+export {
+  MEAN_EARTH_RADIUS_KM, fromLocalKm, kmToDegrees, localProjection, toLocalKm, type LocalProjection,
+} from './projection';
+export {
+  ELLIPSE_68_CONFIDENCE, ELLIPSE_68_SCALE, MIN_PHASES, QUESTIONABLE_FACTOR, azimuthDeg, azimuthalGapDeg, locate,
+  type ArrivalResidual, type ErrorEllipse, type GeigerOptions, type Hypocentre, type LocateFailure, type LocateResult,
+  type LocationPick, type LocationStation,
+} from './geiger';
+export { WADATI_MIN_STATIONS, spEpicentralKm, spHypocentralKm, wadati, type WadatiFit, type WadatiPoint, type WadatiResult } from './wadati';
