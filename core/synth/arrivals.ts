@@ -13,6 +13,12 @@
  * crust scatters energy into S nodes) the S radiation's length sqrt(F_SV² + F_SH²) is raised to at
  * least 0.35, keeping its direction.
  *
+ * Each direct wave arrives as a short packet: the pulse plus five later, weaker copies (multipathing
+ * and near-receiver reverberation; delays 0.08-1.8 s, amplitudes 0.25-0.55 times exp(-delay / 1.2 s),
+ * random signs, all drawn from the seed), so a wave looks like a wave train and not a single spike.
+ * The copies come after the onset, so the first motion is the direct wave's; the Wood-Anderson
+ * calibration is made on the whole packet.
+ *
  * Explosions: isotropic P (F_P = 1, compressional first motion everywhere), weak S (F_SV, F_SH of
  * ±0.12 with signs drawn from the seed), and a strong low-frequency Rg wave (render.ts); the law is
  * then met by the Rg wave's Wood-Anderson peak on the horizontals, and the P wave's Wood-Anderson
@@ -68,6 +74,34 @@ export interface WaveArrival {
   readonly tStar: number;
   /** Ground displacement of the wave's unit-area pulse (m·s): multiply by the pulse shape to get metres. */
   readonly motion: Motion;
+  /** The later copies of the pulse in the wave's packet: delay after the onset (s) and relative amplitude. */
+  readonly echoes: readonly Echo[];
+}
+
+export interface Echo {
+  readonly delay: number;
+  readonly amplitude: number;
+}
+
+/** The packet's copies for one wave, drawn from `rng`. */
+export function drawEchoes(rng: Rng): Echo[] {
+  const out: Echo[] = [];
+  for (let i = 0; i < 5; i++) {
+    const delay = rng.uniform(0.08, 1.8);
+    const amplitude = rng.uniform(0.25, 0.55) * Math.exp(-delay / 1.2) * (rng.next() < 0.5 ? -1 : 1);
+    out.push({ delay, amplitude });
+  }
+  return out.sort((a, b) => a.delay - b.delay);
+}
+
+/** Adds the packet of `pulse` (sampled at `fs`) into `out`: the pulse plus its echoes, each shifted by whole samples. */
+export function packet(pulse: Float64Array, echoes: readonly Echo[], fs: number, out: Float64Array): void {
+  const n = Math.min(pulse.length, out.length);
+  for (let i = 0; i < n; i++) out[i] = pulse[i];
+  for (const e of echoes) {
+    const shift = Math.round(e.delay * fs);
+    for (let i = shift; i < n; i++) out[i] += e.amplitude * pulse[i - shift];
+  }
 }
 
 export interface EventAtStation {
@@ -117,9 +151,12 @@ function peakAbs(x: Float64Array): number {
   return m;
 }
 
-/** Peak of the Wood-Anderson record of a unit-area S pulse with this corner and t*, m per m·s. */
-function woodAndersonPeak(cornerHz: number, tStar: number): number {
-  return peakAbs(synthesizePulse({ sampleRate: CAL_RATE, n: CAL_N, cornerHz, tStar, delaySamples: 0, output: { kind: 'woodAnderson' } }));
+/** Peak of the Wood-Anderson record of a unit-area pulse's packet with this corner and t*, m per m·s. */
+function woodAndersonPeak(cornerHz: number, tStar: number, echoes: readonly Echo[]): number {
+  const wa = synthesizePulse({ sampleRate: CAL_RATE, n: CAL_N, cornerHz, tStar, delaySamples: 0, output: { kind: 'woodAnderson' } });
+  const p = new Float64Array(wa.length);
+  packet(wa, echoes, CAL_RATE, p);
+  return peakAbs(p);
 }
 
 function maxHorizontal(m: Motion, station: StationSpec): number {
@@ -165,6 +202,9 @@ export function eventAtStation(sc: Scenario, ev: EventSpec, st: StationSpec, rgP
   const fcP = P_TO_S_CORNER_RATIO * fcS;
   const tStarP = ttP.time / sc.attenuation.qP + st.kappaS;
   const tStarS = ttS.time / sc.attenuation.qS + st.kappaS;
+  const echoRng = new Rng(sc.seed, hashString(`${ev.id}/${st.code}/echoes`));
+  const echoesP = drawEchoes(echoRng);
+  const echoesS = drawEchoes(echoRng);
   const lawAmplitudeNm = woodAndersonAmplitudeNm(ev.magnitude, Math.min(1000, hypocentralKm)) * 10 ** st.amplitudeTermLog10;
   const lawM = lawAmplitudeNm * 1e-9;
 
@@ -176,13 +216,13 @@ export function eventAtStation(sc: Scenario, ev: EventSpec, st: StationSpec, rgP
   let kP: number;
   let rgScale = 0;
   if (ev.mechanism) {
-    k = lawM / (maxHorizontal(unitS, st) * woodAndersonPeak(fcS, tStarS));
+    k = lawM / (maxHorizontal(unitS, st) * woodAndersonPeak(fcS, tStarS, echoesS));
     kP = k;
   } else {
     const az = ((da.backAzimuthDeg + 180) * Math.PI) / 180;
     const radial = { up: 0, north: Math.cos(az), east: Math.sin(az) };
     rgScale = lawM / (maxHorizontal(radial, st) * rgPeak(da.distanceKm));
-    kP = (EXPLOSION_P_TO_LAW * lawM) / (Math.abs(unitP.up) * woodAndersonPeak(fcP, tStarP));
+    kP = (EXPLOSION_P_TO_LAW * lawM) / (Math.abs(unitP.up) * woodAndersonPeak(fcP, tStarP, echoesP));
     // Weak S: the same displacement scale as P, so S/P follows the radiation ratio (0.12 / 1) × (α/β)³.
     k = kP;
   }
@@ -192,11 +232,11 @@ export function eventAtStation(sc: Scenario, ev: EventSpec, st: StationSpec, rgP
     azimuthDeg: da.azimuthDeg, backAzimuthDeg: da.backAzimuthDeg, radiation, lawAmplitudeNm, rgScale,
     p: {
       wave: 'P', phase: ttP.phase, time: addSeconds(ev.origin, ttP.time), travelTime: ttP.time,
-      takeoffDeg: ttP.takeoffDeg, incidenceDeg: incP, cornerHz: fcP, tStar: tStarP, motion: scale(unitP, kP),
+      takeoffDeg: ttP.takeoffDeg, incidenceDeg: incP, cornerHz: fcP, tStar: tStarP, motion: scale(unitP, kP), echoes: echoesP,
     },
     s: {
       wave: 'S', phase: ttS.phase, time: addSeconds(ev.origin, ttS.time), travelTime: ttS.time,
-      takeoffDeg: ttS.takeoffDeg, incidenceDeg: incS, cornerHz: fcS, tStar: tStarS, motion: scale(unitS, k),
+      takeoffDeg: ttS.takeoffDeg, incidenceDeg: incS, cornerHz: fcS, tStar: tStarS, motion: scale(unitS, k), echoes: echoesS,
     },
   };
 }

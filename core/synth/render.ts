@@ -9,15 +9,15 @@
  * wave, noise with the wave's own spectrum under the envelope
  *   E(τ) = rise(τ) · (T / (T + τ)) · exp(-π f τ / Qc(f)),   Qc(f) = q0 f^η,
  * τ the time after the arrival, T the travel time, f the wave's dominant frequency
- * 1 / (π t*) clamped to 1-8 Hz; it is cut where it falls below a quarter of the night's noise
- * (at most 150 s), rise(τ) = min(1, τ / 1 s)². Its RMS starts at 0.15 of the P peak
- * (vertical; 0.6 of that on the horizontals) and 0.12 of the S peak (horizontals; 0.6 on the
- * vertical), so the direct waves stay the largest.
+ * 1 / (π t*) clamped to 1-8 Hz, rise(τ) = min(1, τ / 1 s)²; it is cut where it falls below a
+ * quarter of the night's noise (at most 150 s). Its RMS starts at 0.1 of the P peak on the
+ * vertical (0.4 of that on the horizontals) and 0.12 of the S peak on the horizontals (0.5 of that
+ * on the vertical), so the direct waves stay the largest.
  */
 import type { ChannelId } from '../model';
 import type { Micros } from '../time';
 import { componentOf, type Motion } from './geometry';
-import { eventAtStation, hashString, type EventAtStation, type WaveArrival } from './arrivals';
+import { eventAtStation, hashString, packet, type EventAtStation, type WaveArrival } from './arrivals';
 import { woodAndersonResponse } from './mlLaw';
 import { channelNoise, whiteNoise } from './noise';
 import { filteredNoise, nextPow2, pulseSpectrum, timeSeries } from './pulse';
@@ -200,14 +200,16 @@ function addWave(
   if (delay > 0) pulse[0] = 0;
   const coef = coefficients(w.motion, chans);
   const use = Math.floor(pulseN * 0.75);
-  for (let c = 0; c < chans.length; c++) addWindow(data[c], k0, pulse, coef[c], use);
+  const train = new Float64Array(pulseN);
+  packet(pulse, w.echoes, fs, train);
+  for (let c = 0; c < chans.length; c++) addWindow(data[c], k0, train, coef[c], use);
   // The coda.
   const peak = maxAbs(pulse, use);
   const isP = w.wave === 'P';
   const ref = isP
     ? Math.max(...chans.map((c, i) => (isVertical(c) ? Math.abs(coef[i]) : 0)), 0) || Math.max(...coef.map(Math.abs))
     : Math.max(...chans.map((c, i) => (isVertical(c) ? 0 : Math.abs(coef[i]))), 0) || Math.max(...coef.map(Math.abs));
-  const level = (isP ? 0.15 : 0.12) * peak * ref;
+  const level = (isP ? 0.1 : 0.12) * peak * ref;
   const floor = 0.25 * Math.min(...chans.map((c) => nightNoiseCounts(st, c)));
   const fDom = Math.min(8, Math.max(1, 1 / (Math.PI * w.tStar)));
   const qc = sc.attenuation.codaQ0 * fDom ** sc.attenuation.codaEta;
@@ -231,7 +233,7 @@ function addWave(
   const codas = filteredNoise(pulse, use, whites);
   for (let c = 0; c < chans.length; c++) {
     const coda = codas[c];
-    const lc = level * (isVertical(chans[c]) === isP ? 1 : 0.6);
+    const lc = level * (isVertical(chans[c]) === isP ? 1 : isP ? 0.4 : 0.5);
     for (let j = 0; j < codaLen; j++) coda[j] *= env[j];
     addWindow(data[c], k0, coda, lc, codaLen);
   }
