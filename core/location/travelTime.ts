@@ -57,6 +57,9 @@ interface Compiled {
   readonly tops: Float64Array;
   readonly vp: Float64Array;
   readonly vs: Float64Array;
+  /** Head-wave names by layer index: 'P0', 'P1', ..., 'Pn' for the half-space (no string building per call). */
+  readonly headP: readonly string[];
+  readonly headS: readonly string[];
 }
 
 const compiledModels = new WeakMap<VelocityModel, Compiled>();
@@ -69,7 +72,8 @@ function compile(model: VelocityModel): Compiled {
   }
   checkVelocityModel(model.layers, 'velocity model');
   const n = model.layers.length;
-  c = { n, tops: new Float64Array(n), vp: new Float64Array(n), vs: new Float64Array(n) };
+  const names = (w: Wave): string[] => Array.from({ length: n }, (_, m) => (m === n - 1 ? w + 'n' : w + m));
+  c = { n, tops: new Float64Array(n), vp: new Float64Array(n), vs: new Float64Array(n), headP: names('P'), headS: names('S') };
   for (let i = 0; i < n; i++) {
     c.tops[i] = model.layers[i].topKm;
     c.vp[i] = model.layers[i].vp;
@@ -98,10 +102,6 @@ function layerOf(tops: Float64Array, n: number, z: number): number {
 }
 
 const RAD = 180 / Math.PI;
-const PHASES = {
-  P: { direct: 'Pg', half: 'Pn', prefix: 'P' },
-  S: { direct: 'Sg', half: 'Sn', prefix: 'S' },
-} as const;
 
 /**
  * The fastest arrival of the given wave.
@@ -135,7 +135,7 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
     throw new RangeError(`receiverElevKm must be in [-${MAX_DEPTH_KM}, ${MAX_DEPTH_KM}] km, got ${receiverElevKm}`);
   }
   const v = wave === 'P' ? c.vp : c.vs;
-  const names = PHASES[wave];
+  const heads = wave === 'P' ? c.headP : c.headS;
   const { n, tops } = c;
   const x = epicentralKm;
   const zs = sourceDepthKm;
@@ -151,7 +151,7 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
   let p = dP;
   let cosS = dCosSrc; // cos of the ray's angle to the vertical at the source
   let cosR = dCosRcv;
-  let phase: string = names.direct;
+  let phase: string = wave === 'P' ? 'Pg' : 'Sg';
 
   // ---- head waves along the tops of layers below both ends, and along the bases of layers above
   // both ends (only possible for a receiver below the datum under a faster layer)
@@ -168,7 +168,7 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
       if (t < time) {
         time = t;
         p = 1 / vm;
-        phase = m === n - 1 ? names.half : names.prefix + m;
+        phase = heads[m];
         headDir = 1;
       }
       vFaster = vm;
@@ -182,7 +182,7 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
       if (t < time) {
         time = t;
         p = 1 / vm;
-        phase = names.prefix + m;
+        phase = heads[m];
         headDir = -1;
       }
       vFaster = vm;
