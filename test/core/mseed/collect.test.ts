@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { MiniSeedCollector, readMiniSeedBuffer, SCAN_LOOKAHEAD, type MiniSeedReadResult } from '../../../core/mseed/index';
 import { sampleTime } from '../../../core/model';
-import { buildRecord, concat, encodeFixed, type Blockette } from '../../support/mseedRecord';
+import { buildRecord, concat, encodeFixed, encodeSteim1Plain, type Blockette } from '../../support/mseedRecord';
 
 // References: record times from the SEED Reference Manual v2.4 (chapter 8 BTIME, blockette 100);
 // merge tolerances as libmseed 2.19.8 applies them by default when it assembles traces (time tear up
@@ -225,6 +225,10 @@ describe('MiniSeedCollector in chunks', () => {
     const parts: Uint8Array[] = [];
     for (let k = 0; k < 12; k++) parts.push(real);
     parts.splice(5, 0, new Uint8Array(3000).fill(7));
+    // Records without blockette 1000 (length from the next header), one at a chunk border or two.
+    for (let k = 0; k < 40; k++) {
+      parts.push(buildRecord({ channel: 'SHZ', second: k, sampleCount: 3, data: encodeSteim1Plain([k, k + 1, k + 2], 3), recordLength: 1024 }));
+    }
     const bytes = concat(...parts);
     const whole = readMiniSeedBuffer(bytes, 'f');
     const c = new MiniSeedCollector();
@@ -246,5 +250,10 @@ describe('MiniSeedCollector in chunks', () => {
     expect(whole.channels[0].duplicatesDropped).toBe(11 * 36);
     expect(chunked.channels[0].duplicatesDropped).toBe(11 * 36);
     expect(Array.from(chunked.channels[0].segments[0].samples)).toEqual(Array.from(whole.channels[0].segments[0].samples));
+    const noB1000 = chunked.channels[1];
+    expect(noB1000.id.channel).toBe('SHZ');
+    expect(noB1000.segments.map((s) => Array.from(s.samples))).toEqual(whole.channels[1].segments.map((s) => Array.from(s.samples)));
+    expect(noB1000.segments).toHaveLength(40);
+    expect(Array.from(noB1000.segments[39].samples)).toEqual([39, 40, 41]);
   });
 });
