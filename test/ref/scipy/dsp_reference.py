@@ -9,6 +9,10 @@ Cases ("op" selects):
   butter      order, corners, kind, fs      -> sos as a flat list (scipy.signal.butter(..., output='sos'))
   butter_zpk  order, corners, kind, fs      -> {"z": [[re, im]...], "p": [[re, im]...], "k": k}
   sosfilt     sos, x, zi (optional)         -> {"y": [...], "zf": [...]}
+  sosfilt_extended sos, x                   -> y of the same recurrence as sosfilt (zero initial state)
+                                               run in numpy.longdouble (x87 80-bit extended on x86-64),
+                                               rounded to float64: a more precise reference for
+                                               ill-conditioned designs
   sosfiltfilt sos, x, padlen (optional)     -> y
   sosfilt_zi  sos                           -> zi flat
   freqz       sos, freqs, fs                -> magnitudes |H| at freqs (Hz) (scipy.signal.freqz_sos)
@@ -51,6 +55,20 @@ def run(case):
             zi = np.zeros((sos.shape[0], 2))
         y, zf = signal.sosfilt(sos, x, zi=np.asarray(zi, dtype=np.float64).reshape(-1, 2))
         return {"y": y.tolist(), "zf": zf.ravel().tolist()}
+    if op == "sosfilt_extended":
+        ext = np.longdouble
+        sos = as_sos(case["sos"]).astype(ext)
+        y = np.asarray(case["x"], dtype=np.float64).astype(ext)
+        z = np.zeros((sos.shape[0], 2), dtype=ext)
+        for i in range(y.shape[0]):
+            v = y[i]
+            for s in range(sos.shape[0]):
+                o = sos[s, 0] * v + z[s, 0]
+                z[s, 0] = sos[s, 1] * v - sos[s, 4] * o + z[s, 1]
+                z[s, 1] = sos[s, 2] * v - sos[s, 5] * o
+                v = o
+            y[i] = v
+        return y.astype(np.float64).tolist()
     if op == "sosfiltfilt":
         sos = as_sos(case["sos"])
         x = np.asarray(case["x"], dtype=np.float64)

@@ -1,0 +1,133 @@
+/**
+ * Filter benchmark: a 4-section Butterworth band-pass (order 4, 1-20 Hz at 100 Hz) over one
+ * channel-day (8,640,000 float64 samples), causal (sosfilt) and zero-phase (sosfiltfilt), in
+ * Daybreak's core/dsp and in scipy.signal (test/ref/scipy/bench_filter.py, python3) on the same
+ * samples and the same sections, in the same run. The sides alternate call by call, so a busy
+ * machine slows both alike, and the best of the rounds is reported; the outputs are compared.
+ *
+ * Two clocks: CPU time of the process (Node's process.cpuUsage, python's time.process_time), which a
+ * machine shared with other jobs disturbs least, and wall time. Daybreak runs twice per round: with
+ * a new output array per call (as scipy returns a new array) and with a reused output array (as a
+ * scan that filters chunk after chunk can). A new 69 MB array costs page faults in V8 that numpy
+ * mostly avoids (it asks the kernel for huge pages), so the two figures bracket the cost.
+ *
+ * Printed: samples/s of each, and the ratios Daybreak/scipy (target: >= 1.0 for causal and
+ * zero-phase).
+ *
+ *   npm run bench -- filter
+ */
+import { spawn } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { createInterface } from 'node:readline';
+import { fileURLToPath } from 'node:url';
+import { butterworth, sosfilt, sosfiltfilt } from '../../core/dsp';
+
+const here = dirname(fileURLToPath(import.meta.url));
+const SAMPLES = 8_640_000;
+const RATE = 100;
+const ROUNDS = 7;
+
+declare const gc: (() => void) | undefined;
+
+/** A seeded channel-day: offset, AR(1) background noise, a 0.2 Hz microseism and decaying bursts. */
+function channelDay(): Float64Array {
+  let s = 12345;
+  const rnd = () => {
+    s ^= s << 13; s >>>= 0; s ^= s >>> 17; s ^= s << 5; s >>>= 0;
+    return s / 4294967296 - 0.5;
+  };
+  const x = new Float64Array(SAMPLES);
+  let ar = 0;
+  let burst = 0;
+  for (let i = 0; i < SAMPLES; i++) {
+    ar = 0.9 * ar + 200 * rnd();
+    if (i % 360_000 === 180_000) burst = 50_000;
+    burst = burst > 1 ? burst * 0.9995 : 0;
+    x[i] = 1500 + ar + 300 * Math.sin((2 * Math.PI * 0.2 * i) / RATE) + burst * rnd();
+  }
+  return x;
+}
+
+function bytes(a: Float64Array): Uint8Array {
+  return new Uint8Array(a.buffer, a.byteOffset, a.byteLength);
+}
+
+interface Timing { wall: number; cpu: number }
+const bestOf = (a: Timing, b: Timing): Timing => ({ wall: Math.min(a.wall, b.wall), cpu: Math.min(a.cpu, b.cpu) });
+const NONE: Timing = { wall: Infinity, cpu: Infinity };
+
+/** Seconds of one call of f, by the wall clock and by this process's CPU time. */
+function time(f: () => void): Timing {
+  gc?.();
+  const c = process.cpuUsage();
+  const t = performance.now();
+  f();
+  const wall = (performance.now() - t) / 1000;
+  const cpu = process.cpuUsage(c);
+  return { wall, cpu: (cpu.user + cpu.system) / 1e6 };
+}
+
+async function main(): Promise<void> {
+  const x = channelDay();
+  const sos = butterworth(4, [1, 20], 'bandpass', RATE);
+  const dir = mkdtempSync(join(tmpdir(), 'daybreak-filter-bench-'));
+  try {
+    writeFileSync(join(dir, 'x.f64'), bytes(x));
+    writeFileSync(join(dir, 'sos.f64'), bytes(sos));
+    const py = spawn('python3', [join(here, '..', 'ref', 'scipy', 'bench_filter.py'), join(dir, 'x.f64'), join(dir, 'sos.f64')], { stdio: ['pipe', 'pipe', 'inherit'] });
+    const lines = createInterface({ input: py.stdout })[Symbol.asyncIterator]();
+    const ask = async (cmd: string): Promise<string> => {
+      if (cmd) py.stdin.write(`${cmd}\n`);
+      const r = await lines.next();
+      if (r.done) throw new Error(`python3 bench_filter.py ended before answering "${cmd}"`);
+      return r.value;
+    };
+    const askTime = async (cmd: string): Promise<Timing> => {
+      const [wall, cpu] = (await ask(cmd)).split(' ').map(Number);
+      return { wall, cpu };
+    };
+    await ask('');
+    const versions = JSON.parse(await ask('versions')) as { scipy: string; numpy: string };
+
+    let causal = new Float64Array(0);
+    let zero = new Float64Array(0);
+    const reused = new Float64Array(SAMPLES);
+    const t = { jsCausal: NONE, jsCausalReused: NONE, pyCausal: NONE, jsZero: NONE, jsZeroReused: NONE, pyZero: NONE };
+    for (let r = 0; r < ROUNDS; r++) {
+      t.jsCausal = bestOf(t.jsCausal, time(() => { causal = sosfilt(sos, x); }));
+      t.pyCausal = bestOf(t.pyCausal, await askTime('causal'));
+      t.jsCausalReused = bestOf(t.jsCausalReused, time(() => { sosfilt(sos, x, { out: reused }); }));
+      t.jsZero = bestOf(t.jsZero, time(() => { zero = sosfiltfilt(sos, x); }));
+      t.pyZero = bestOf(t.pyZero, await askTime('zerophase'));
+      t.jsZeroReused = bestOf(t.jsZeroReused, time(() => { sosfiltfilt(sos, x, { out: reused }); }));
+    }
+    writeFileSync(join(dir, 'causal.f64'), bytes(causal));
+    writeFileSync(join(dir, 'zero.f64'), bytes(zero));
+    const agreement = JSON.parse(await ask(`compare ${join(dir, 'causal.f64')} ${join(dir, 'zero.f64')}`)) as { causal: number; zerophase: number };
+    py.stdin.write('quit\n');
+
+    const ms = (s: number) => `${(SAMPLES / s / 1e6).toFixed(1).padStart(6)} M samples/s`;
+    const row = (name: string, v: Timing) => console.log(`  ${name.padEnd(34)} cpu ${ms(v.cpu)}   wall ${ms(v.wall)}`);
+    const ratio = (js: Timing, py: Timing) => `cpu ${(py.cpu / js.cpu).toFixed(2)}x, wall ${(py.wall / js.wall).toFixed(2)}x`;
+    console.log(`data: ${SAMPLES.toLocaleString('en')} float64 samples (one channel-day at ${RATE} Hz); Butterworth band-pass order 4, 1-20 Hz, ${sos.length / 6} sections; best of ${ROUNDS} alternating rounds`);
+    console.log(`reference: scipy ${versions.scipy}, numpy ${versions.numpy} (python3), same samples and sections`);
+    console.log('causal');
+    row('Daybreak sosfilt, new output', t.jsCausal);
+    row('Daybreak sosfilt, reused output', t.jsCausalReused);
+    row('scipy sosfilt', t.pyCausal);
+    console.log(`  ratio Daybreak/scipy: new output ${ratio(t.jsCausal, t.pyCausal)}; reused output ${ratio(t.jsCausalReused, t.pyCausal)} (target >= 1.0x)`);
+    console.log(`  outputs agree to ${agreement.causal.toExponential(1)} of the peak`);
+    console.log('zero-phase');
+    row('Daybreak sosfiltfilt, new output', t.jsZero);
+    row('Daybreak sosfiltfilt, reused output', t.jsZeroReused);
+    row('scipy sosfiltfilt', t.pyZero);
+    console.log(`  ratio Daybreak/scipy: new output ${ratio(t.jsZero, t.pyZero)}; reused output ${ratio(t.jsZeroReused, t.pyZero)} (target >= 1.0x)`);
+    console.log(`  outputs agree to ${agreement.zerophase.toExponential(1)} of the peak`);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+await main();

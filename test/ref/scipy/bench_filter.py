@@ -1,0 +1,56 @@
+"""scipy side of test/bench/filter.bench.ts: times scipy.signal.sosfilt and sosfiltfilt on the same
+samples and sections as the JavaScript side, one run per command so the two sides can alternate.
+
+  python3 bench_filter.py DATA.f64 SOS.f64
+Reads float64 little-endian samples and sections (6 per section), prints "ready", then answers one
+line per command on stdin:
+  causal | zerophase      -> "WALL CPU": seconds of one call by time.perf_counter and by
+                             time.process_time (this process's CPU time), result kept
+  compare CAUSAL ZERO     -> JSON {"causal": d1, "zerophase": d2}: max |js - scipy| / max |scipy|
+                             against the JavaScript outputs in those float64 files
+  versions                -> JSON {"scipy": ..., "numpy": ...}
+  quit
+"""
+import json
+import sys
+import time
+
+import numpy as np
+import scipy
+from scipy import signal
+
+
+def main():
+    x = np.fromfile(sys.argv[1], dtype="<f8")
+    sos = np.fromfile(sys.argv[2], dtype="<f8").reshape(-1, 6)
+    last = {}
+    print("ready", flush=True)
+    for line in sys.stdin:
+        cmd = line.split()
+        if not cmd:
+            continue
+        if cmd[0] in ("causal", "zerophase"):
+            f = signal.sosfilt if cmd[0] == "causal" else signal.sosfiltfilt
+            last[cmd[0]] = None
+            c = time.process_time()
+            t = time.perf_counter()
+            y = f(sos, x)
+            dt = time.perf_counter() - t
+            dc = time.process_time() - c
+            last[cmd[0]] = y
+            print(f"{dt!r} {dc!r}", flush=True)
+        elif cmd[0] == "compare":
+            out = {}
+            for name, path in (("causal", cmd[1]), ("zerophase", cmd[2])):
+                js = np.fromfile(path, dtype="<f8")
+                ref = last[name]
+                out[name] = float(np.max(np.abs(js - ref)) / np.max(np.abs(ref)))
+            print(json.dumps(out), flush=True)
+        elif cmd[0] == "versions":
+            print(json.dumps({"scipy": scipy.__version__, "numpy": np.__version__}), flush=True)
+        elif cmd[0] == "quit":
+            break
+
+
+if __name__ == "__main__":
+    main()
