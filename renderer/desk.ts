@@ -10,6 +10,14 @@ import { siteStreams, type SiteStreams } from './data/sites';
 import { Overview } from './overview';
 import { TraceView, type SiteRow } from './traces/traceView';
 import { makePiece, type ComponentTrace } from './traces/rowData';
+import { EventList } from './eventList';
+import { drawPicks, hitPick, type PickMarks } from './picks/pickLayer';
+import { openReview, ReviewSaver } from './data/reviewSync';
+import {
+  History, acceptAutomatic, addEvent, deletePick, movePick, placePick, setPickAttributes, setState, setUncertainty,
+  setEventType, EVENT_TYPES, REVIEW_STATES, type ReviewDocument, type ReviewEvent, type EventType, type ReviewState,
+} from '../core/review';
+import { KEY_MAP, actionForKey, type KeyAction } from './keys';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
 
@@ -47,15 +55,53 @@ export class Desk {
   private windowSpan: [Micros, Micros] | null = null;
   private ref: Micros = 0;
   private loadSeq = 0;
+  private history: History | null = null;
+  private saver: ReviewSaver | null = null;
+  private readOnly = false;
+  private currentEvent: string | null = null;
+  private selected: string | null = null;
+  private drag: { pickId: string; part: 'line' | 'lower' | 'upper'; startT: number; preview: number } | null = null;
+  private readonly eventList = new EventList((id) => void this.openEvent(id));
+  private readonly eventBar = el('div', { className: 'event-bar' });
+  private readonly banner = el('div', { className: 'banner', hidden: true });
 
-  constructor(host: HostApi, dataset: Dataset, private readonly setStatus: (text: string) => void) {
+  constructor(private readonly host: HostApi, dataset: Dataset, private readonly setStatus: (text: string) => void) {
     this.session = new DataSession(host, dataset);
   }
 
   async open(onProgress: (fraction: number, note: string) => void): Promise<void> {
     await this.session.open(onProgress);
     this.sites = siteStreams(this.session.channels.keys());
+    await this.openReviewFile(false);
     this.build();
+  }
+
+  private async openReviewFile(force: boolean): Promise<void> {
+    const r = await openReview(this.host, this.session.dataset.root, force);
+    this.history = new History(r.doc);
+    this.readOnly = r.lockedBy !== null;
+    this.saver = new ReviewSaver(this.host, this.session.dataset.root, (st) => {
+      this.saveState.textContent = st.state === 'saved' ? `saved (revision ${st.revision})` : st.state === 'saving' ? 'saving\u2026' : `NOT SAVED: ${st.message}`;
+      this.saveState.className = `save-state ${st.state}`;
+    });
+    this.reviewPath = r.path;
+    if (r.lockedBy) {
+      const take = el('button', {}, 'Take over');
+      take.addEventListener('click', () => void this.openReviewFile(true).then(() => this.afterDocChange(false)));
+      this.banner.replaceChildren(
+        `Another copy of Daybreak (process ${r.lockedBy.pid} on ${r.lockedBy.host}, since ${r.lockedBy.since}) has this review open. Edits are off here so neither copy overwrites the other. `,
+        take);
+      this.banner.hidden = false;
+    } else {
+      this.banner.hidden = true;
+    }
+  }
+
+  private reviewPath = '';
+  private readonly saveState = el('span', { className: 'save-state' });
+
+  get doc(): ReviewDocument | null {
+    return this.history?.doc ?? null;
   }
 
   private build(): void {
@@ -99,19 +145,40 @@ export class Desk {
       reset);
     const traceHost = el('div', { className: 'trace-host' });
     this.sheetHost.replaceChildren(toolbar, traceHost);
+    this.sheetHost.dataset.filter = String(this.filterIndex);
+    this.filterSelect = filterSelect;
     this.traces = new TraceView(traceHost, {
       formatTime: (t, step) => {
         const iso = isoFromMicros(this.ref + Math.round(t * 1e6));
         return step >= 1 ? iso.slice(11, 19) : step >= 0.1 ? iso.slice(11, 21) : iso.slice(11, 23);
       },
       onWindow: (x0, x1) => this.overview?.setCursorSpan([this.ref + x0 * 1e6, this.ref + x1 * 1e6]),
+      drawMarks: (m) => drawPicks(m, this.marks()),
+      onPointerDown: (row, t, band) => this.pointerDown(row.key, t, band),
+      onPointerDrag: (t) => this.pointerDrag(t),
+      onPointerUp: (t) => this.pointerUp(t),
     });
-    this.root.replaceChildren(overviewHost, this.sheetHost, this.status);
+    const work = el('div', { className: 'desk-work' }, this.eventList.root, this.sheetHost);
+    this.root.replaceChildren(overviewHost, this.banner, work, this.status);
+    this.sheetHost.insertBefore(this.eventBar, this.sheetHost.children[1]);
+    this.afterDocChange(false);
+    document.addEventListener('keydown', this.onKey);
+    // Read-only view state for end-to-end tests (seconds from the sheet's reference time).
+    (window as unknown as { daybreakView: () => { x0: number; x1: number } }).daybreakView = () => {
+      const [x0, x1] = this.traces?.window ?? [0, 0];
+      return { x0, x1 };
+    };
     const problems = this.session.problems.length;
     this.status.textContent = `${this.session.files.length} files read${problems ? ` \u00b7 ${problems} problems (see the log)` : ''}`;
-    // Start on the loudest moment of the night so the first view shows something to review.
-    void this.openWindow(this.loudestMoment() - OPEN_BEFORE_S * 1e6, this.loudestMoment() + OPEN_AFTER_S * 1e6);
+    this.status.append(' \u00b7 ', this.saveState, ` \u00b7 review file ${this.reviewPath}`);
+    // Start where the analyst stopped, else on the first event, else on the loudest moment of the night.
+    const events = this.doc?.events ?? [];
+    const resume = events.find((e) => e.state === 'started') ?? events.find((e) => e.state === 'todo');
+    if (resume) void this.openEvent(resume.id);
+    else void this.openWindow(this.loudestMoment() - OPEN_BEFORE_S * 1e6, this.loudestMoment() + OPEN_AFTER_S * 1e6);
   }
+
+  private filterSelect: HTMLSelectElement | null = null;
 
   private loudestMoment(): Micros {
     const votes = new Map<number, number>();
@@ -170,12 +237,281 @@ export class Desk {
       const flags = this.siteFlags(s);
       rows.push({ key: s.site, label: s.site.split('.')[1], detail: s.stream.split('.').slice(2).join('.') || undefined, components: comps, flags });
     }
+    this.rowsBySite = new Map(rows.map((r) => [r.key, r]));
     this.traces.setRows(rows, [0, (end - start) / 1e6]);
     this.setStatus(`window read and drawn in ${Math.round(performance.now() - t0)} ms${reply.notes.length ? ` \u00b7 ${reply.notes[0]}` : ''}`);
   }
 
+  // ----- review document -----------------------------------------------------------------------
+
+  private currentEv(): ReviewEvent | null {
+    return this.doc?.events.find((e) => e.id === this.currentEvent) ?? null;
+  }
+
+  private marks(): PickMarks {
+    const ev = this.currentEv();
+    let picks = ev?.picks ?? [];
+    if (this.drag) {
+      const d = this.drag;
+      picks = picks.map((p) => {
+        if (p.id !== d.pickId) return p;
+        const tp = (p.time - this.ref) / 1e6;
+        if (d.part === 'line') return { ...p, time: this.ref + Math.round(d.preview * 1e6) };
+        if (d.part === 'lower') return { ...p, lower: Math.max(0, tp - d.preview) };
+        return { ...p, upper: Math.max(0, d.preview - tp) };
+      });
+    }
+    return { picks, selected: this.selected, toView: (t) => (t - this.ref) / 1e6 };
+  }
+
+  /** Applies an edit (unless the review is read-only here), saves, redraws. */
+  private apply(edit: (doc: ReviewDocument) => ReviewDocument): boolean {
+    if (!this.history) return false;
+    if (this.readOnly) {
+      this.setStatus('edits are off: another copy holds this review (see the banner)');
+      return false;
+    }
+    try {
+      this.history.apply(edit(this.history.doc));
+    } catch (e) {
+      this.setStatus(e instanceof Error ? e.message : String(e));
+      return false;
+    }
+    this.afterDocChange(true);
+    return true;
+  }
+
+  private afterDocChange(save: boolean): void {
+    const doc = this.doc;
+    if (!doc) return;
+    if (save) this.saver?.save(doc);
+    if (this.currentEvent && !doc.events.some((e) => e.id === this.currentEvent)) this.currentEvent = null;
+    const ev = this.currentEv();
+    if (this.selected && !ev?.picks.some((p) => p.id === this.selected)) this.selected = null;
+    this.eventList.set(doc.events, this.currentEvent);
+    this.overview?.setMarks(doc.events.map((e) => ({ t: e.start, label: e.id })));
+    this.renderEventBar();
+    this.traces?.redrawMarks();
+  }
+
+  /** The event being worked on, made from the current window when there is none. */
+  private ensureEvent(): string | null {
+    if (this.currentEvent) return this.currentEvent;
+    if (!this.windowSpan || !this.history) return null;
+    const [start, end] = this.windowSpan;
+    let id: string | null = null;
+    if (this.apply((d) => { const r = addEvent(d, start, end); id = r.eventId; return r.doc; })) this.currentEvent = id;
+    this.afterDocChange(false);
+    return this.currentEvent;
+  }
+
+  async openEvent(id: string): Promise<void> {
+    const ev = this.doc?.events.find((e) => e.id === id);
+    if (!ev) return;
+    this.currentEvent = id;
+    this.selected = null;
+    this.afterDocChange(false);
+    await this.openWindow(ev.start, ev.end);
+  }
+
+  private renderEventBar(): void {
+    const ev = this.currentEv();
+    if (!ev) {
+      const make = el('button', { title: 'Add an event the detector missed, over this window' }, 'Make this window an event');
+      make.addEventListener('click', () => { this.ensureEvent(); });
+      this.eventBar.replaceChildren(el('span', { className: 'muted' }, 'Browsing: no event open. '), make);
+      return;
+    }
+    const state = el('select', { title: 'Review state' }, ...REVIEW_STATES.map((s) => el('option', { value: s, selected: s === ev.state }, s === 'todo' ? 'to do' : s)));
+    state.addEventListener('change', () => this.apply((d) => setState(d, ev.id, state.value as ReviewState)));
+    const type = el('select', { title: 'Event type (QuakeML)' }, el('option', { value: '' }, '(type not set)'),
+      ...EVENT_TYPES.map((t) => el('option', { value: t, selected: t === ev.type }, t)));
+    const certainty = el('select', { title: 'Type certainty' }, el('option', { value: 'known', selected: ev.typeCertainty !== 'suspected' }, 'known'), el('option', { value: 'suspected', selected: ev.typeCertainty === 'suspected' }, 'suspected'));
+    const setType = () => this.apply((d) => setEventType(d, ev.id, (type.value || null) as EventType | null, type.value ? (certainty.value as 'known' | 'suspected') : null));
+    type.addEventListener('change', setType);
+    certainty.addEventListener('change', setType);
+    const auto = ev.picks.filter((p) => p.mode === 'automatic' && p.status === 'preliminary').length;
+    const accept = el('button', { title: 'Accept every automatic pick of this event (B)', disabled: auto === 0 }, `Accept ${auto} automatic`);
+    accept.addEventListener('click', () => this.apply((d) => acceptAutomatic(d, ev.id)));
+    const p = ev.picks.filter((x) => x.phase === 'P').length;
+    const sCount = ev.picks.length - p;
+    this.eventBar.replaceChildren(
+      el('span', { className: 'ev-id' }, ev.id),
+      el('span', { className: 'muted' }, ` ${p} P \u00b7 ${sCount} S `),
+      el('label', {}, 'State ', state), el('label', {}, 'Type ', type, ' ', certainty), accept,
+      el('span', { className: 'selected-pick' }, this.selectedText(ev)));
+  }
+
+  private selectedText(ev: ReviewEvent): string {
+    const p = ev.picks.find((x) => x.id === this.selected);
+    if (!p) return '';
+    return `${p.phase} ${p.channel} ${isoFromMicros(p.time).slice(11, 23)} \u2212${p.lower.toFixed(3)}/+${p.upper.toFixed(3)} s \u00b7 ${p.onset} \u00b7 ${p.polarity ?? 'no polarity'} \u00b7 ${p.mode}${p.mode === 'automatic' ? ` (${p.status})` : ''}`;
+  }
+
+  // ----- pointer -------------------------------------------------------------------------------
+
+  private pointerDown(site: string, t: number, band: number): boolean {
+    const row = this.traces && this.currentEv() ? this.rowsBySite.get(site) : undefined;
+    if (!row || !this.traces) return false;
+    const hit = hitPick(row, band, t, this.traces.secondsPerPixel() * 6, this.marks());
+    if (!hit) {
+      if (this.selected) { this.selected = null; this.afterDocChange(false); }
+      return false;
+    }
+    this.selected = hit.pick.id;
+    this.drag = { pickId: hit.pick.id, part: hit.part, startT: t, preview: hit.part === 'line' ? (hit.pick.time - this.ref) / 1e6 : t };
+    this.afterDocChange(false);
+    return true;
+  }
+
+  private pointerDrag(t: number): void {
+    if (!this.drag) return;
+    if (this.drag.part === 'line') {
+      const p = this.currentEv()?.picks.find((x) => x.id === this.drag!.pickId);
+      if (p) this.drag.preview = (p.time - this.ref) / 1e6 + (t - this.drag.startT);
+    } else this.drag.preview = t;
+    this.traces?.redrawMarks();
+  }
+
+  private pointerUp(t: number): void {
+    const d = this.drag;
+    this.drag = null;
+    const ev = this.currentEv();
+    if (!d || !ev) return;
+    const p = ev.picks.find((x) => x.id === d.pickId);
+    if (!p) return;
+    this.pointerDrag(t);
+    if (Math.abs(t - d.startT) < 1e-9) { this.traces?.redrawMarks(); return; }
+    const tp = (p.time - this.ref) / 1e6;
+    if (d.part === 'line') this.apply((doc) => movePick(doc, ev.id, p.id, p.time + Math.round((t - d.startT) * 1e6)));
+    else if (d.part === 'lower') this.apply((doc) => setUncertainty(doc, ev.id, p.id, round6(Math.max(0, tp - t)), p.upper));
+    else this.apply((doc) => setUncertainty(doc, ev.id, p.id, p.lower, round6(Math.max(0, t - tp))));
+  }
+
+  private rowsBySite = new Map<string, SiteRow>();
+
+  // ----- keys ----------------------------------------------------------------------------------
+
+  private readonly onKey = (e: KeyboardEvent): void => {
+    const target = e.target as HTMLElement | null;
+    if (target && (target.tagName === 'INPUT' || target.tagName === 'SELECT' || target.tagName === 'TEXTAREA')) return;
+    const action = actionForKey(e);
+    if (!action) return;
+    e.preventDefault();
+    this.run(action);
+  };
+
+  /** Carries out a key action (also used by tests through the keyboard). */
+  run(action: KeyAction): void {
+    const ev = this.currentEv();
+    const pick = ev?.picks.find((p) => p.id === this.selected) ?? null;
+    const onPick = (f: (d: ReviewDocument, evId: string, pickId: string) => ReviewDocument) => {
+      if (ev && pick) this.apply((d) => f(d, ev.id, pick.id));
+      else this.setStatus('select a pick first (click it)');
+    };
+    switch (action) {
+      case 'placeP':
+      case 'placeS': {
+        const spot = this.traces?.pointer();
+        if (!spot) { this.setStatus('point at a trace to place a pick'); return; }
+        const phase = action === 'placeP' ? 'P' : 'S';
+        const comps = spot.row.components;
+        // P on the vertical; S on the horizontal under the pointer (or the first horizontal).
+        const channel = phase === 'P' ? comps[0].key : comps[spot.band > 0 ? spot.band : Math.min(1, comps.length - 1)].key;
+        if (phase === 'S' && comps.length === 1) this.setStatus('S placed on a vertical-only site');
+        const evId = this.ensureEvent();
+        if (!evId) return;
+        let newId = '';
+        if (this.apply((d) => { const r = placePick(d, evId, { phase, channel, time: this.ref + Math.round(spot.t * 1e6) }); newId = r.pickId; return r.doc; })) {
+          this.selected = newId;
+          this.afterDocChange(false);
+        }
+        return;
+      }
+      case 'deletePick': onPick((d, a, b) => deletePick(d, a, b)); return;
+      case 'onsetImpulsive': onPick((d, a, b) => setPickAttributes(d, a, b, { onset: 'impulsive' })); return;
+      case 'onsetEmergent': onPick((d, a, b) => setPickAttributes(d, a, b, { onset: 'emergent' })); return;
+      case 'onsetQuestionable': onPick((d, a, b) => setPickAttributes(d, a, b, { onset: 'questionable' })); return;
+      case 'polarityPositive': onPick((d, a, b) => setPickAttributes(d, a, b, { polarity: 'positive' })); return;
+      case 'polarityUndecidable': onPick((d, a, b) => setPickAttributes(d, a, b, { polarity: 'undecidable' })); return;
+      case 'polarityNegative': onPick((d, a, b) => setPickAttributes(d, a, b, { polarity: 'negative' })); return;
+      case 'widen': if (pick) onPick((d, a, b) => setUncertainty(d, a, b, round6(Math.min(60, pick.lower * 1.5)), round6(Math.min(60, pick.upper * 1.5)))); return;
+      case 'narrow': if (pick) onPick((d, a, b) => setUncertainty(d, a, b, round6(pick.lower / 1.5), round6(pick.upper / 1.5))); return;
+      case 'uncertaintyFromZoom': {
+        const u = round6(8 * (this.traces?.secondsPerPixel() ?? 0.01));
+        onPick((d, a, b) => setUncertainty(d, a, b, u, u));
+        return;
+      }
+      case 'zoomToPick': if (pick && this.traces) { const t = (pick.time - this.ref) / 1e6; this.traces.setWindow(t - 2, t + 3); } return;
+      case 'wholeWindow': this.traces?.resetWindow(); return;
+      case 'acceptAutomatic': if (ev) this.apply((d) => acceptAutomatic(d, ev.id)); return;
+      case 'nextEvent':
+      case 'previousEvent': {
+        const id = this.eventList.neighbour(this.currentEvent, action === 'nextEvent' ? 1 : -1);
+        if (id) void this.openEvent(id);
+        return;
+      }
+      case 'markDone': if (ev) this.apply((d) => setState(d, ev.id, 'done')); return;
+      case 'discardEvent': if (ev) this.apply((d) => setState(d, ev.id, 'discarded')); return;
+      case 'filter1': case 'filter2': case 'filter3': case 'filter4': case 'filter5': case 'filter6': {
+        const i = Number(action.slice(-1)) - 1;
+        if (i < FILTER_PRESETS.length && this.filterSelect) {
+          this.filterIndex = i;
+          this.filterSelect.value = String(i);
+          void this.reload();
+        }
+        return;
+      }
+      case 'panLeft':
+      case 'panRight': {
+        if (!this.traces) return;
+        const [x0, x1] = this.traces.window;
+        const step = ((x1 - x0) / 4) * (action === 'panLeft' ? -1 : 1);
+        this.traces.setWindow(x0 + step, x1 + step);
+        return;
+      }
+      case 'undo': if (this.history?.undo()) this.afterDocChange(true); return;
+      case 'redo': if (this.history?.redo()) this.afterDocChange(true); return;
+      case 'help': this.toggleHelp(); return;
+    }
+  }
+
+  private helpDialog: HTMLDialogElement | null = null;
+
+  private toggleHelp(): void {
+    if (!this.helpDialog) {
+      const groups = new Map<string, HTMLElement[]>();
+      for (const k of KEY_MAP) {
+        const rows = groups.get(k.group) ?? [];
+        rows.push(el('tr', {}, el('td', { className: 'key' }, k.keys), el('td', {}, k.what)));
+        groups.set(k.group, rows);
+      }
+      this.helpDialog = el('dialog', { className: 'help', id: 'help' },
+        el('h2', {}, 'Keys'),
+        el('p', { className: 'muted' }, 'Left hand on the keys, right hand on the mouse. Columns of keys do one kind of thing, top row to bottom row.'),
+        el('div', { className: 'help-groups' }, ...[...groups].map(([g, rows]) => el('section', {}, el('h3', {}, g), el('table', {}, ...rows)))),
+        el('form', { method: 'dialog' }, el('button', {}, 'Close')));
+      document.body.append(this.helpDialog);
+    }
+    if (this.helpDialog.open) this.helpDialog.close();
+    else this.helpDialog.showModal();
+  }
+
+  /** Waits until every edit so far is saved. */
+  flush(): Promise<void> {
+    return this.saver?.flush() ?? Promise.resolve();
+  }
+
   close(): void {
+    document.removeEventListener('keydown', this.onKey);
     this.traces?.destroy();
     this.session.close();
   }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Picking: the review document, its edits, the keys and the pointer.
+
+function round6(x: number): number {
+  return Math.round(x * 1e6) / 1e6;
 }

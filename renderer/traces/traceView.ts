@@ -45,7 +45,14 @@ export interface TraceViewOptions {
   onWindow?: (x0: number, x1: number) => void;
   /** Pointer down on a row's plot area: return true to take over the drag (e.g. moving a pick). */
   onPointerDown?: (row: SiteRow, t: number, band: number, ev: PointerEvent) => boolean;
+  /** While a drag taken over by onPointerDown goes on: the time under the pointer. */
+  onPointerDrag?: (t: number, ev: PointerEvent) => void;
+  /** End of a drag taken over by onPointerDown. */
+  onPointerUp?: (t: number, ev: PointerEvent) => void;
 }
+
+/** Where the pointer is over the traces. */
+export interface PointerSpot { row: SiteRow; rowIndex: number; band: number; t: number }
 
 interface PlotSlot {
   el: HTMLDivElement;
@@ -70,10 +77,11 @@ export class TraceView {
   private win: [number, number] = [0, 1];
   private amplitude: 'trace' | 'common' = 'trace';
   private rafPending = false;
-  private readonly opts: Required<Omit<TraceViewOptions, 'drawMarks' | 'onWindow' | 'onPointerDown'>> & TraceViewOptions;
+  private readonly opts: Required<Pick<TraceViewOptions, 'bandHeight' | 'labelWidth' | 'formatTime'>> & TraceViewOptions;
   private readonly selectBox: HTMLDivElement;
   private traceColour = '#ccc';
   private resizeObserver: ResizeObserver;
+  private lastPointer: { x: number; y: number } | null = null;
 
   constructor(container: HTMLElement, opts: TraceViewOptions = {}) {
     this.opts = { bandHeight: 34, labelWidth: 116, formatTime: (t) => t.toFixed(2), ...opts };
@@ -106,8 +114,9 @@ export class TraceView {
   /** Replaces the rows; `span` is the full time span [x0, x1] in seconds. */
   setRows(rows: SiteRow[], span: [number, number]): void {
     this.rows = rows;
+    // Same span as before (e.g. a new filter on the same window): keep the zoom.
+    if (span[0] !== this.full[0] || span[1] !== this.full[1]) this.win = [span[0], span[1]];
     this.full = span;
-    this.win = [span[0], span[1]];
     this.traceColour = getComputedStyle(this.root).getPropertyValue('--trace').trim() || '#ccc';
     this.layout();
     this.rebuildAxis();
@@ -153,6 +162,21 @@ export class TraceView {
   clientXOfTime(t: number): number {
     const r = this.plotRect();
     return r.left + ((t - this.win[0]) / (this.win[1] - this.win[0])) * r.width;
+  }
+
+  /** The row, band and time under the pointer, or null when it is not over the traces. */
+  pointer(): PointerSpot | null {
+    if (!this.lastPointer) return null;
+    const rect = this.plotRect();
+    if (this.lastPointer.x < rect.left) return null;
+    const rowIndex = this.rowIndexAtClientY(this.lastPointer.y);
+    if (rowIndex < 0) return null;
+    return { row: this.rows[rowIndex], rowIndex, band: this.bandAtClientY(rowIndex, this.lastPointer.y), t: this.timeAtClientX(this.lastPointer.x) };
+  }
+
+  /** Seconds per CSS pixel at the current zoom. */
+  secondsPerPixel(): number {
+    return (this.win[1] - this.win[0]) / this.plotRect().width;
   }
 
   /** Asks for a redraw of marks only (picks changed). */
@@ -359,7 +383,12 @@ export class TraceView {
       if (e.button === 0 && !e.shiftKey && rowIndex >= 0 && this.opts.onPointerDown) {
         const row = this.rows[rowIndex];
         const band = this.bandAtClientY(rowIndex, e.clientY);
-        if (this.opts.onPointerDown(row, this.timeAtClientX(e.clientX), band, e)) { mode = 'external'; return; }
+        if (this.opts.onPointerDown(row, this.timeAtClientX(e.clientX), band, e)) {
+          mode = 'external';
+          this.scroller.setPointerCapture(e.pointerId);
+          e.preventDefault();
+          return;
+        }
       }
       startX = e.clientX;
       startWin = [this.win[0], this.win[1]];
@@ -367,8 +396,12 @@ export class TraceView {
       this.scroller.setPointerCapture(e.pointerId);
       e.preventDefault();
     });
+    this.scroller.addEventListener('pointerleave', () => { this.lastPointer = null; });
     this.scroller.addEventListener('pointermove', (e) => {
-      if (mode === 'pan') {
+      this.lastPointer = { x: e.clientX, y: e.clientY };
+      if (mode === 'external') {
+        this.opts.onPointerDrag?.(this.timeAtClientX(e.clientX), e);
+      } else if (mode === 'pan') {
         const r = this.plotRect();
         const dt = ((e.clientX - startX) / r.width) * (startWin[1] - startWin[0]);
         this.setWindow(startWin[0] - dt, startWin[1] - dt);
@@ -383,6 +416,7 @@ export class TraceView {
       }
     });
     const finish = (e: PointerEvent) => {
+      if (mode === 'external') this.opts.onPointerUp?.(this.timeAtClientX(e.clientX), e);
       if (mode === 'box') {
         this.selectBox.style.display = 'none';
         if (Math.abs(e.clientX - startX) > 4) {

@@ -5,12 +5,13 @@
 import { build } from 'vite';
 import { mkdtempSync, mkdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { runBrowserMode } from '../../electron/host/browserMain';
 import type { BrowserServer } from '../../electron/host/server';
 
-const repoRoot = resolve(__dirname, '..', '..');
+const repoRoot = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
 export const CHROMIUM = process.env.DAYBREAK_CHROMIUM ?? '/usr/bin/chromium';
 export const outputDir = join(repoRoot, 'test', 'output');
 

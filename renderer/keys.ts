@@ -1,0 +1,76 @@
+/**
+ * Daybreak's key map, designed for a left hand on the keyboard while the right hand holds the mouse.
+ * Keys are grouped by finger column, top row to bottom row:
+ *   index  R / F / V   place P at the pointer / place S at the pointer / delete the selected pick
+ *   middle E / D / C   onset impulsive / emergent / questionable  (sharp at the top, vague at the bottom)
+ *   ring   W / S / X   polarity positive (up) / undecidable / negative (down)
+ *   pinky  Q / A / Z   widen the uncertainty / set it from the zoom / narrow it
+ *   index stretch T / G / B   zoom to the selected pick / whole window / accept every automatic pick
+ * Thumb and reach keys: Tab / Shift+Tab next / previous event, Enter marks the event done,
+ * Backspace discards it, 1-6 filter presets, arrows pan, Ctrl+Z / Ctrl+Shift+Z undo / redo,
+ * ? shows this map.
+ */
+export type KeyAction =
+  | 'placeP' | 'placeS' | 'deletePick'
+  | 'onsetImpulsive' | 'onsetEmergent' | 'onsetQuestionable'
+  | 'polarityPositive' | 'polarityUndecidable' | 'polarityNegative'
+  | 'widen' | 'uncertaintyFromZoom' | 'narrow'
+  | 'zoomToPick' | 'wholeWindow' | 'acceptAutomatic'
+  | 'nextEvent' | 'previousEvent' | 'markDone' | 'discardEvent'
+  | 'filter1' | 'filter2' | 'filter3' | 'filter4' | 'filter5' | 'filter6'
+  | 'panLeft' | 'panRight' | 'undo' | 'redo' | 'help';
+
+export interface KeyBinding { keys: string; action: KeyAction; what: string; group: string }
+
+export const KEY_MAP: readonly KeyBinding[] = [
+  { group: 'Picks (index finger)', keys: 'R', action: 'placeP', what: 'place a P pick at the pointer' },
+  { group: 'Picks (index finger)', keys: 'F', action: 'placeS', what: 'place an S pick at the pointer' },
+  { group: 'Picks (index finger)', keys: 'V', action: 'deletePick', what: 'delete the selected pick' },
+  { group: 'Onset (middle finger)', keys: 'E', action: 'onsetImpulsive', what: 'onset impulsive' },
+  { group: 'Onset (middle finger)', keys: 'D', action: 'onsetEmergent', what: 'onset emergent' },
+  { group: 'Onset (middle finger)', keys: 'C', action: 'onsetQuestionable', what: 'onset questionable' },
+  { group: 'Polarity (ring finger)', keys: 'W', action: 'polarityPositive', what: 'first motion positive (up)' },
+  { group: 'Polarity (ring finger)', keys: 'S', action: 'polarityUndecidable', what: 'first motion undecidable' },
+  { group: 'Polarity (ring finger)', keys: 'X', action: 'polarityNegative', what: 'first motion negative (down)' },
+  { group: 'Uncertainty (little finger)', keys: 'Q', action: 'widen', what: 'widen the uncertainty by half' },
+  { group: 'Uncertainty (little finger)', keys: 'A', action: 'uncertaintyFromZoom', what: 'uncertainty = 8 pixels at this zoom' },
+  { group: 'Uncertainty (little finger)', keys: 'Z', action: 'narrow', what: 'narrow the uncertainty by a third' },
+  { group: 'View and event (index stretch)', keys: 'T', action: 'zoomToPick', what: 'zoom to the selected pick' },
+  { group: 'View and event (index stretch)', keys: 'G', action: 'wholeWindow', what: 'show the whole window' },
+  { group: 'View and event (index stretch)', keys: 'B', action: 'acceptAutomatic', what: 'accept every automatic pick of the event' },
+  { group: 'Events', keys: 'Tab', action: 'nextEvent', what: 'next event' },
+  { group: 'Events', keys: 'Shift+Tab', action: 'previousEvent', what: 'previous event' },
+  { group: 'Events', keys: 'Enter', action: 'markDone', what: 'mark the event done' },
+  { group: 'Events', keys: 'Backspace', action: 'discardEvent', what: 'discard the event (not an event)' },
+  { group: 'View', keys: '1 \u2026 6', action: 'filter1', what: 'filter presets' },
+  { group: 'View', keys: '\u2190 \u2192', action: 'panLeft', what: 'pan by a quarter window' },
+  { group: 'View', keys: 'wheel / drag / right-drag', action: 'wholeWindow', what: 'zoom at the pointer / zoom to a box / pan' },
+  { group: 'Edit', keys: 'Ctrl+Z', action: 'undo', what: 'undo' },
+  { group: 'Edit', keys: 'Ctrl+Shift+Z, Ctrl+Y', action: 'redo', what: 'redo' },
+  { group: 'Help', keys: '?', action: 'help', what: 'show or hide this list' },
+];
+
+const PLAIN: Record<string, KeyAction> = {
+  r: 'placeP', f: 'placeS', v: 'deletePick',
+  e: 'onsetImpulsive', d: 'onsetEmergent', c: 'onsetQuestionable',
+  w: 'polarityPositive', s: 'polarityUndecidable', x: 'polarityNegative',
+  q: 'widen', a: 'uncertaintyFromZoom', z: 'narrow',
+  t: 'zoomToPick', g: 'wholeWindow', b: 'acceptAutomatic',
+  Enter: 'markDone', Backspace: 'discardEvent', Delete: 'deletePick',
+  '1': 'filter1', '2': 'filter2', '3': 'filter3', '4': 'filter4', '5': 'filter5', '6': 'filter6',
+  ArrowLeft: 'panLeft', ArrowRight: 'panRight', '?': 'help',
+};
+
+/** The action of a key press, or null when the key means nothing here. */
+export function actionForKey(e: Pick<KeyboardEvent, 'key' | 'ctrlKey' | 'metaKey' | 'shiftKey' | 'altKey'>): KeyAction | null {
+  const mod = e.ctrlKey || e.metaKey;
+  if (mod) {
+    const k = e.key.toLowerCase();
+    if (k === 'z') return e.shiftKey ? 'redo' : 'undo';
+    if (k === 'y') return 'redo';
+    return null;
+  }
+  if (e.altKey) return null;
+  if (e.key === 'Tab') return e.shiftKey ? 'previousEvent' : 'nextEvent';
+  return PLAIN[e.key.length === 1 ? e.key.toLowerCase() : e.key] ?? (e.key === '?' ? 'help' : null);
+}
