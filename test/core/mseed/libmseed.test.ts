@@ -321,6 +321,22 @@ describe('reader agrees with libmseed 2.19 on header variants (SEED manual v2.4 
     expectAgreement(bytes, reading);
   });
 
+  it.each([0, 1] as const)('a BTIME with second 60 (the leap second 2016-12-31T23:59:60) reads as libmseed reads it, byte order %i', (byteorder) => {
+    // 2017-01-01T00:00:00 Z, written as 2016 day 366 23:59:60.0000 (SEED manual v2.4: second 0-60).
+    const packed = libmseedPack({ samples: intSignal(400, 25), encoding: 11, byteorder, reclen: 512, rate: 1, start: 1_483_228_800_000_000 });
+    const bytes = packed.bytes.slice();
+    const view = new DataView(bytes.buffer);
+    const little = byteorder === 0;
+    expect([view.getUint16(20, little), view.getUint16(22, little), bytes[24], bytes[25], bytes[26]]).toEqual([2017, 1, 0, 0, 0]);
+    view.setUint16(20, 2016, little);
+    view.setUint16(22, 366, little);
+    bytes.set([23, 59, 60], 24);
+    const reading = libmseedDecodeBytes(bytes);
+    expect(reading.records[0].start).toBe(1_483_228_800_000_000);
+    const { segments } = expectAgreement(bytes, reading);
+    expect(segments[0].seg.timing.leapSecondRecords).toBeGreaterThanOrEqual(1);
+  });
+
   it.each(['R', 'Q', 'M'] as const)('data-quality indicator %s', (quality) => {
     const packed = libmseedPack({ samples: intSignal(3000, 24), encoding: 11, byteorder: 1, reclen: 512, rate: 100, start, quality });
     const reading = libmseedDecodeBytes(packed.bytes);
