@@ -4,11 +4,14 @@
  * Header", blockettes 100, 1000 and 1001 in chapter 8, Steim compression in Appendix B).
  *
  * Records are packed greedily: each word of a Steim frame takes as many of the next differences as
- * fit its widest layout. Where a difference is too wide for the preferred encoding (beyond 30 bits
- * for Steim-2, beyond 32 bits for Steim-1, e.g. spikes or clipping at full scale), the record is
- * closed before it and that stretch goes into a Steim-1 (or INT32) record, so no sample is ever
- * written wrongly. Each record's first difference is the difference to the previous record's last
- * sample (zero for the first record), as Appendix B defines it.
+ * fit its densest layout (the frames come out byte-identical to libmseed 2.19's msr_pack). Where a
+ * difference is too wide for the preferred encoding (beyond 30 bits for Steim-2, beyond 32 bits for
+ * Steim-1, e.g. spikes or clipping at full scale), the record is closed before it if it already
+ * holds at least as many samples as it has data words; otherwise (and for the record that starts at
+ * the wide difference) the record is packed as Steim-1 instead, or as INT32 when even Steim-1
+ * cannot hold a difference. So the fallback covers about one record around each wide stretch and
+ * no sample is ever written wrongly. Each record's first difference is the difference to the
+ * previous record's last sample (zero for the first record), as Appendix B defines it.
  */
 import type { ChannelId } from '../model';
 import { yearDayFromMicros, type Micros } from '../time';
