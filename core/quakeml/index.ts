@@ -1,0 +1,4 @@
+/** QuakeML 1.2: the events, picks and origins Daybreak writes and reads. */
+export * from './types';
+export { writeQuakeMl, xmlEscape, QUAKEML_BED_NS, QUAKEML_NS, type QuakeMlWriteOptions } from './write';
+export { readQuakeMl, QuakeMlError } from './read';
