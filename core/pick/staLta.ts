@@ -130,6 +130,70 @@ export function windowSamples(seconds: number, sampleRate: number): number {
 const BLOCK = 65536;
 
 /**
+ * As {@link steadyMedian}, computing CF = x^2 on the fly from a Float64Array (the common case: filtered
+ * data), which saves the separate CF pass. Only ever called with Float64Array, so V8 keeps it monomorphic.
+ */
+function steadyMedianEnergy(
+  x: Float64Array, from: number, to: number, out: Float64Array, o: number,
+  sta: number, lta: number, a: number, b: number, cs: number, cl: number, st: Float64Array,
+): void {
+  for (let i = from; i < to; i++) {
+    const v = x[i];
+    const c = v * v;
+    const m = Math.max(Math.min(a, b), Math.min(Math.max(a, b), c));
+    a = b;
+    b = c;
+    sta += (m - sta) * cs;
+    lta += (m - lta) * cl;
+    out[o + i] = sta / lta;
+  }
+  st[0] = sta;
+  st[1] = lta;
+  st[2] = a;
+  st[3] = b;
+}
+
+/** As {@link steadyMedianEnergy} without the median of three. */
+function steadyEnergy(
+  x: Float64Array, from: number, to: number, out: Float64Array, o: number,
+  sta: number, lta: number, cs: number, cl: number, st: Float64Array,
+): void {
+  for (let i = from; i < to; i++) {
+    const v = x[i];
+    const c = v * v;
+    sta += (c - sta) * cs;
+    lta += (c - lta) * cl;
+    out[o + i] = sta / lta;
+  }
+  st[0] = sta;
+  st[1] = lta;
+}
+
+/**
+ * The recursion's steady state with the median of three, over cf[from..to) into out[o + i]; the
+ * state comes in as arguments and goes out through `st` (sta, lta, cf two back, cf one back). A small
+ * free function: V8 optimises it best that way (measured by test/bench/stalta.bench.ts).
+ */
+function steadyMedian(
+  cf: Float64Array, from: number, to: number, out: Float64Array, o: number,
+  sta: number, lta: number, a: number, b: number, cs: number, cl: number, st: Float64Array,
+): void {
+  for (let i = from; i < to; i++) {
+    const c = cf[i];
+    const m = Math.max(Math.min(a, b), Math.min(Math.max(a, b), c));
+    a = b;
+    b = c;
+    sta += (m - sta) * cs;
+    lta += (m - lta) * cl;
+    out[o + i] = sta / lta;
+  }
+  st[0] = sta;
+  st[1] = lta;
+  st[2] = a;
+  st[3] = b;
+}
+
+/**
  * The STA/LTA ratio of one channel, computed chunk by chunk with its state carried over. Knows
  * nothing of time: {@link StaLtaDetector} adds times, gaps and triggers.
  */
@@ -142,6 +206,9 @@ export class StaLtaRatio {
   readonly seed: number;
   private readonly weight: number;
   private readonly cf = new Float64Array(BLOCK);
+  private readonly state = new Float64Array(4);
+  /** Recursive form with CF x^2: the settings with a fused loop. */
+  private readonly fastPath: boolean;
   // State carried across chunks.
   /** Samples seen since the start or the last restart. */
   count = 0;
@@ -166,6 +233,7 @@ export class StaLtaRatio {
     this.seed = Math.min(this.nl, Math.max(this.ns, Math.round(this.options.warmUp * sampleRate)));
     this.weight = envelopeWeight(sampleRate, this.options.envelopeFrequency);
     this.ring = new Float64Array(this.options.form === 'classic' ? this.nl : 0);
+    this.fastPath = this.options.form === 'recursive' && this.options.characteristic === 'energy';
   }
 
   /** Forgets all history (the next sample is treated as the start of data). */
@@ -189,12 +257,32 @@ export class StaLtaRatio {
       const e = Math.min(to, b + BLOCK);
       const n = e - b;
       const cf = this.cf;
+      if (this.fastPath && x instanceof Float64Array && this.count >= this.seed
+        && this.lta * Math.pow(1 - 1 / this.nl, n) > 1e-290) {
+        // Steady state of the default setting on float64 data: one fused pass (same arithmetic).
+        const st = this.state;
+        if (this.options.despike) {
+          steadyMedianEnergy(x, b, e, out, outFrom - from, this.sta, this.lta, this.cf2, this.cf1, 1 / this.ns, 1 / this.nl, st);
+          this.cf2 = st[2];
+          this.cf1 = st[3];
+        } else {
+          steadyEnergy(x, b, e, out, outFrom - from, this.sta, this.lta, 1 / this.ns, 1 / this.nl, st);
+        }
+        this.sta = st[0];
+        this.lta = st[1];
+        this.count += n;
+        this.prevSample = x[e - 1];
+        continue;
+      }
       const previous = this.count === 0 ? x[b] : this.prevSample;
       characteristicInto(this.options.characteristic, x, b, e, cf, previous, this.weight);
       this.prevSample = x[e - 1];
-      if (this.options.despike) this.median3(cf, n);
-      if (this.options.form === 'recursive') this.recursive(cf, n, out, outFrom + (b - from));
-      else this.classic(cf, n, out, outFrom + (b - from));
+      if (this.options.form === 'recursive') {
+        this.recursive(cf, n, out, outFrom + (b - from));
+      } else {
+        if (this.options.despike) this.median3(cf, n);
+        this.classic(cf, n, out, outFrom + (b - from));
+      }
     }
   }
 
@@ -208,28 +296,39 @@ export class StaLtaRatio {
     let b = this.cf1;
     for (let i = 0; i < n; i++) {
       const c = cf[i];
-      let m: number;
-      if (a < b) m = b < c ? b : (a < c ? c : a);
-      else m = a < c ? a : (b < c ? c : b);
+      cf[i] = Math.max(Math.min(a, b), Math.min(Math.max(a, b), c));
       a = b;
       b = c;
-      cf[i] = m;
     }
     this.cf2 = a;
     this.cf1 = b;
   }
 
+  /**
+   * The recursion over a block of CF values, the median of three folded in. The steady-state loops
+   * skip the per-sample "LTA > 0" test when the LTA provably stays positive through the block: each
+   * step keeps at least (1 - 1/Nl) of it, so LTA * (1 - 1/Nl)^n above 1e-290 rules out reaching 0.
+   */
   private recursive(cf: Float64Array, n: number, out: Float64Array, o: number): void {
     let sta = this.sta;
     let lta = this.lta;
-    let count = this.count;
+    let a = this.cf2;
+    let b = this.cf1;
+    const despike = this.options.despike;
     const ns = this.ns;
     const nl = this.nl;
     const seed = this.seed;
+    let count = this.count;
     let i = 0;
     // Seeding: plain means of everything so far (the STA's window stops growing at ns).
     for (; i < n && count < seed; i++, count++) {
-      const c = cf[i];
+      let c = cf[i];
+      if (despike) {
+        const m = Math.max(Math.min(a, b), Math.min(Math.max(a, b), c));
+        a = b;
+        b = c;
+        c = m;
+      }
       const k = count + 1;
       sta += (c - sta) / (k < ns ? k : ns);
       lta += (c - lta) / k;
@@ -237,14 +336,40 @@ export class StaLtaRatio {
     }
     const cs = 1 / ns;
     const cl = 1 / nl;
-    for (; i < n; i++) {
-      const c = cf[i];
-      sta += (c - sta) * cs;
-      lta += (c - lta) * cl;
-      out[o + i] = lta > 0 ? sta / lta : 0;
+    const safe = lta * Math.pow(1 - cl, n - i) > 1e-290;
+    if (safe && despike) {
+      const st = this.state;
+      steadyMedian(cf, i, n, out, o, sta, lta, a, b, cs, cl, st);
+      sta = st[0];
+      lta = st[1];
+      a = st[2];
+      b = st[3];
+      i = n;
+    } else if (safe) {
+      for (; i < n; i++) {
+        const c = cf[i];
+        sta += (c - sta) * cs;
+        lta += (c - lta) * cl;
+        out[o + i] = sta / lta;
+      }
+    } else {
+      for (; i < n; i++) {
+        let c = cf[i];
+        if (despike) {
+          const m = Math.max(Math.min(a, b), Math.min(Math.max(a, b), c));
+          a = b;
+          b = c;
+          c = m;
+        }
+        sta += (c - sta) * cs;
+        lta += (c - lta) * cl;
+        out[o + i] = lta > 0 ? sta / lta : 0;
+      }
     }
     this.sta = sta;
     this.lta = lta;
+    this.cf2 = a;
+    this.cf1 = b;
     this.count += n;
   }
 
@@ -372,7 +497,7 @@ export class StaLtaDetector {
     let i = Math.max(0, this.ratio.seed - countBefore);
     while (i < n) {
       if (!this.open) {
-        while (i < n && r[i] < on) i++;
+        while (i < n && !(r[i] >= on)) i++;
         if (i === n) break;
         this.open = true;
         this.onTime = start + Math.round(i * per);
