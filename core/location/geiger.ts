@@ -311,7 +311,15 @@ export function locate(stations: readonly LocationStation[], picks: readonly Loc
     chi2 = evaluate(par, true);
   }
   if (!converged) {
-    return { ok: false, code: 'did-not-converge', message: `no convergence in ${maxIterations} iterations` };
+    const rms = Math.sqrt(idx.reduce((a, i) => {
+      const d = Math.hypot(par[1] - se[i], par[2] - sn[i]);
+      const r = obs[i] - par[0] - firstArrivalInto(tt, model, picks[i].wave, d, par[3], sz[i]).time;
+      return a + r * r;
+    }, 0) / m);
+    return {
+      ok: false, code: 'did-not-converge',
+      message: `no convergence in ${maxIterations} iterations (still moving ${Math.hypot(par[1], par[2]).toFixed(2)} km from the network's centre, depth ${par[3].toFixed(2)} km, RMS ${rms.toFixed(3)} s)`,
+    };
   }
 
   // ---- errors from the undamped SVD at the solution
@@ -427,47 +435,62 @@ interface GridContext {
 }
 
 /**
- * Coarse grid search over the stations' box with a margin of half its size (at least 30 km) and the
- * start table's depths within [minDepth, maxDepth] (or the fixed depth), in two stages: 13 x 13
- * epicentres at every third depth, then 7 x 7 at a third of that spacing around the best, at the
- * depths near the best. Station elevations are allowed for as a vertical path through the top layer.
+ * Coarse grid search. The box is the stations' box with a margin of half its size (at least 2 km);
+ * the depths are the start table's within [minDepth, maxDepth] (or the fixed depth). Stage 1: 13 x 13
+ * epicentres at every third depth; when the best lies on the box's edge the box is tripled and
+ * searched again (at most three times: events outside the network). Stage 2: 7 x 7 at a third of that
+ * spacing around the best, at the depths near it. The table's distance scale follows the box (so a
+ * mine's network gets metre steps). Station elevations are allowed for as a vertical path through
+ * the top layer.
  */
 function gridStart(model: VelocityModel, idx: number[], picks: readonly LocationPick[], se: Float64Array, sn: Float64Array, sz: Float64Array,
   obs: Float64Array, sigma: Float64Array, depths: number[] | null, minDepth: number, maxDepth: number): Start {
-  const tabP = startTable(model, 'P');
-  const tabS = startTable(model, 'S');
   const m = idx.length;
-  const c: GridContext = {
-    m, e: new Float64Array(m), n: new Float64Array(m), obs: new Float64Array(m), w: new Float64Array(m), delay: new Float64Array(m),
-    isP: new Uint8Array(m), tabP, tabS, d: new Float64Array(m), order: new Int32Array(m),
-  };
   let e0 = Infinity;
   let e1 = -Infinity;
   let n0 = Infinity;
   let n1 = -Infinity;
-  for (let k = 0; k < m; k++) {
-    const i = idx[k];
-    const isP = picks[i].wave === 'P';
-    c.e[k] = se[i];
-    c.n[k] = sn[i];
-    c.obs[k] = obs[i];
-    c.w[k] = 1 / sigma[i];
-    c.isP[k] = isP ? 1 : 0;
-    c.delay[k] = sz[i] / (isP ? model.layers[0].vp : model.layers[0].vs);
+  for (const i of idx) {
     e0 = Math.min(e0, se[i]); e1 = Math.max(e1, se[i]);
     n0 = Math.min(n0, sn[i]); n1 = Math.max(n1, sn[i]);
   }
-  const pad = Math.max(30, 0.5 * Math.max(e1 - e0, n1 - n0));
-  e0 -= pad; e1 += pad; n0 -= pad; n1 += pad;
-  const all = depths ?? [...tabP.depthsKm].filter((z) => z >= minDepth && z <= maxDepth);
-  if (all.length === 0) all.push(Math.max(minDepth, Math.min(maxDepth, 5)));
-  const coarse = all.length <= 3 ? all : all.filter((_, i) => i % 3 === 1);
-  const first = searchGrid(c, e0, e1, n0, n1, 13, coarse);
-  const he = (e1 - e0) / 12;
-  const hn = (n1 - n0) / 12;
-  const k = all.indexOf(first.z);
+  const ce = 0.5 * (e0 + e1);
+  const cn = 0.5 * (n0 + n1);
+  let half = 0.5 * Math.max(e1 - e0, n1 - n0) + Math.max(2, 0.5 * Math.max(e1 - e0, n1 - n0));
+  let best: Start = { t0: 0, e: ce, n: cn, z: 0 };
+  let c: GridContext | null = null;
+  let all: number[] = [];
+  for (let round = 0; round < 4; round++) {
+    // the farthest a station can be from a node: the box's diagonal
+    const reach = 2 * Math.SQRT2 * half;
+    const tabP = startTable(model, 'P', reach);
+    const tabS = startTable(model, 'S', reach);
+    c = {
+      m, e: new Float64Array(m), n: new Float64Array(m), obs: new Float64Array(m), w: new Float64Array(m), delay: new Float64Array(m),
+      isP: new Uint8Array(m), tabP, tabS, d: new Float64Array(m), order: new Int32Array(m),
+    };
+    for (let k = 0; k < m; k++) {
+      const i = idx[k];
+      const isP = picks[i].wave === 'P';
+      c.e[k] = se[i];
+      c.n[k] = sn[i];
+      c.obs[k] = obs[i];
+      c.w[k] = 1 / sigma[i];
+      c.isP[k] = isP ? 1 : 0;
+      c.delay[k] = sz[i] / (isP ? model.layers[0].vp : model.layers[0].vs);
+    }
+    all = depths ?? [...tabP.depthsKm].filter((z) => z >= minDepth && z <= maxDepth);
+    if (all.length === 0) all.push(Math.max(minDepth, Math.min(maxDepth, 0)));
+    const coarse = all.length <= 3 ? all : all.filter((_, i) => i % 3 === 1);
+    best = searchGrid(c, ce - half, ce + half, cn - half, cn + half, 13, coarse);
+    const onEdge = Math.abs(Math.abs(best.e - ce) - half) < 1e-9 * half || Math.abs(Math.abs(best.n - cn) - half) < 1e-9 * half;
+    if (!onEdge) break;
+    half *= 3;
+  }
+  const h = (2 * half) / 12;
+  const k = all.indexOf(best.z);
   const near = all.filter((_, i) => Math.abs(i - k) <= 2);
-  return searchGrid(c, first.e - he, first.e + he, first.n - hn, first.n + hn, 7, near);
+  return searchGrid(c as GridContext, best.e - h, best.e + h, best.n - h, best.n + h, 7, near);
 }
 
 /** Best node of an N x N x depths grid by weighted L1 misfit, its origin time the weighted median. */

@@ -17,16 +17,32 @@ export interface TravelTimeTableGrid {
   receiverElevKm?: number;
 }
 
-/** The grid the location code's start uses: 1 km to 400 km, depths from 2 km above the datum to 60 km. */
+/**
+ * The grid the location code's start uses at a distance scale of 400 km: 1 km steps to 400 km,
+ * depths from 4 km above the datum to 60 km. startTable scales it to smaller networks.
+ */
 export const START_TABLE_GRID: TravelTimeTableGrid = Object.freeze({
   maxDistanceKm: 400,
   distanceStepKm: 1,
-  depthsKm: Object.freeze([-2, 0, 2, 4, 6, 8, 10, 13, 16, 20, 25, 30, 35, 40, 50, 60]),
+  depthsKm: Object.freeze([-4, -3, -2, -1.5, -1, -0.75, -0.5, -0.25, 0, 2, 4, 6, 8, 10, 13, 16, 20, 25, 30, 35, 40, 50, 60]),
 });
+
+/**
+ * START_TABLE_GRID scaled to distances up to scaleKm: the distance step and the depths below the
+ * datum shrink in proportion (a mine's network of a few hundred metres needs metres, not km); the
+ * depths above the datum stay as they are (they follow the topography, not the network's size).
+ */
+export function startTableGrid(scaleKm: number): TravelTimeTableGrid {
+  const f = scaleKm / START_TABLE_GRID.maxDistanceKm;
+  const above = START_TABLE_GRID.depthsKm.filter((z) => z < 0);
+  const below = START_TABLE_GRID.depthsKm.filter((z) => z >= 0).map((z) => z * f);
+  return { maxDistanceKm: scaleKm, distanceStepKm: START_TABLE_GRID.distanceStepKm * f, depthsKm: [...above, ...below] };
+}
 
 export class TravelTimeTable {
   readonly wave: Wave;
   readonly distanceStepKm: number;
+  readonly maxDistanceKm: number;
   readonly nDistances: number;
   readonly depthsKm: Float64Array;
   /** Times, s, row per depth: times[iz * nDistances + ix]. */
@@ -44,6 +60,7 @@ export class TravelTimeTable {
     if (nx > 1e6 || nx * depthsKm.length > 1e7) throw new RangeError(`table of ${nx} x ${depthsKm.length} nodes is too large (at most 1e7)`);
     this.wave = wave;
     this.distanceStepKm = distanceStepKm;
+    this.maxDistanceKm = (nx - 1) * distanceStepKm;
     this.nDistances = nx;
     this.depthsKm = Float64Array.from(depthsKm);
     this.times = new Float64Array(nx * depthsKm.length);
@@ -83,19 +100,33 @@ export class TravelTimeTable {
   }
 }
 
-const cache = new WeakMap<VelocityModel, Map<Wave, TravelTimeTable>>();
+const cache = new WeakMap<VelocityModel, Map<string, TravelTimeTable>>();
 
-/** The START_TABLE_GRID table of a model and wave (receiver at the datum), built once per model and kept. */
-export function startTable(model: VelocityModel, wave: Wave): TravelTimeTable {
+/** Distance scales startTable builds tables for, km (each table is built once per model and kept). */
+export const START_TABLE_SCALES_KM: readonly number[] = Object.freeze([1, 4, 16, 64, 200, 400, 1600]);
+
+/**
+ * The start table of a model and wave (receiver at the datum) for the smallest scale in
+ * START_TABLE_SCALES_KM that reaches `distanceKm` (default 400 km), built once per model and kept.
+ */
+export function startTable(model: VelocityModel, wave: Wave, distanceKm = 400): TravelTimeTable {
+  let scale = START_TABLE_SCALES_KM[START_TABLE_SCALES_KM.length - 1];
+  for (const s of START_TABLE_SCALES_KM) {
+    if (s >= distanceKm) {
+      scale = s;
+      break;
+    }
+  }
   let m = cache.get(model);
   if (!m) {
     m = new Map();
     cache.set(model, m);
   }
-  let t = m.get(wave);
+  const key = `${wave} ${scale}`;
+  let t = m.get(key);
   if (!t) {
-    t = new TravelTimeTable(model, wave, START_TABLE_GRID);
-    m.set(wave, t);
+    t = new TravelTimeTable(model, wave, startTableGrid(scale));
+    m.set(key, t);
   }
   return t;
 }

@@ -223,7 +223,8 @@ describe('geiger', () => {
 
   it('an iteration limit that is too small reports no convergence', () => {
     const res = locate(STATIONS, synthetic({ lat: 46.1, lon: 8.1, depth: 12 }, STATIONS, 0.05, 0.1), { maxIterations: 1 });
-    expect(res).toEqual({ ok: false, code: 'did-not-converge', message: 'no convergence in 1 iterations' });
+    expect(res).toMatchObject({ ok: false, code: 'did-not-converge' });
+    if (!res.ok) expect(res.message).toMatch(/^no convergence in 1 iterations \(still moving \d+\.\d\d km from the network's centre, depth -?\d+\.\d\d km, RMS \d+\.\d{3} s\)$/);
   });
 
   it('rejects bad arguments naming the value', () => {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { firstArrival } from '../../../core/location/travelTime';
-import { START_TABLE_GRID, TravelTimeTable, startTable } from '../../../core/location/travelTimeTable';
+import { START_TABLE_GRID, TravelTimeTable, startTable, startTableGrid } from '../../../core/location/travelTimeTable';
 import { DEFAULT_MODEL } from '../../../core/location/velocityModel';
 
 describe('travelTimeTable', () => {
@@ -30,13 +30,25 @@ describe('travelTimeTable', () => {
     // beyond 400 km the first arrival is Pn with slope 1 / 8.04 s/km
     expect(t.time(500, 10) - t.time(400, 10)).toBeCloseTo(100 / 8.04, 9);
     expect(t.time(30, 100)).toBe(t.time(30, 60));
-    expect(t.time(30, -5)).toBe(t.time(30, -2));
+    expect(t.time(30, -5)).toBe(t.time(30, -4));
   });
 
-  it('startTable builds each table once per model and wave', () => {
+  it('startTable builds each table once per model, wave and distance scale', () => {
     expect(startTable(DEFAULT_MODEL, 'S')).toBe(startTable(DEFAULT_MODEL, 'S'));
     expect(startTable(DEFAULT_MODEL, 'S')).not.toBe(startTable(DEFAULT_MODEL, 'P'));
     expect(startTable(DEFAULT_MODEL, 'P').depthsKm.length).toBe(START_TABLE_GRID.depthsKm.length);
+    expect(startTable(DEFAULT_MODEL, 'P', 300)).toBe(startTable(DEFAULT_MODEL, 'P', 400));
+    expect(startTable(DEFAULT_MODEL, 'P', 3).maxDistanceKm).toBe(4);
+  });
+
+  it('startTableGrid shrinks distance steps and depths below the datum with the scale, not those above it', () => {
+    const g = startTableGrid(4);
+    expect(g.distanceStepKm).toBeCloseTo(0.01, 15);
+    expect(g.depthsKm.filter((z) => z < 0)).toEqual([-4, -3, -2, -1.5, -1, -0.75, -0.5, -0.25]);
+    expect(g.depthsKm[g.depthsKm.length - 1]).toBeCloseTo(0.6, 12);
+    // a start table for a mine-sized network agrees with firstArrival at metre scale
+    const t = startTable(DEFAULT_MODEL, 'P', 1);
+    expect(Math.abs(t.time(0.1234, 0.0777) - firstArrival(DEFAULT_MODEL, 'P', 0.1234, 0.0777).time)).toBeLessThan(2e-4);
   });
 
   it('rejects a bad grid', () => {
