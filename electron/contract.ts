@@ -49,6 +49,18 @@ export interface AppInfo {
   version: string;
 }
 
+/** The analyst's settings, kept in the user folder. */
+export interface Settings {
+  /** Written as creationInfo/author. */
+  analyst: string;
+  /** Written as creationInfo/agencyID. */
+  agency: string;
+  /** Authority part of QuakeML resource identifiers (smi:AUTHORITY/...). */
+  authority: string;
+}
+
+export const DEFAULT_SETTINGS: Settings = { analyst: '', agency: '', authority: 'daybreak.local' };
+
 export interface ReviewFileState {
   path: string;
   content: string | null;
@@ -72,6 +84,10 @@ export interface HostRequests {
   'review.open': [{ root: string; force?: boolean }, ReviewFileState];
   /** Saves the whole review (atomically). Refused with 'locked' unless this copy holds the lock. */
   'review.save': [{ root: string; content: string }, { path: string; bytes: number }];
+  /** Writes an export (QuakeML, CSV) atomically into the exports folder beside the review file. */
+  'export.write': [{ root: string; name: string; content: string }, { path: string }];
+  'settings.get': [Record<string, never>, Settings];
+  'settings.set': [Partial<Settings>, Settings];
   /** Bytes [offset, offset + length) of a file (fewer at its end). */
   'file.readRange': [{ root: string; path: string; offset: number; length: number }, Uint8Array];
 }
@@ -83,6 +99,7 @@ export type ResponseOf<N extends HostRequestName> = HostRequests[N][1];
 /** Names the host answers, for validation on both sides. */
 export const HOST_REQUEST_NAMES: readonly HostRequestName[] = [
   'app.info', 'demo.status', 'demo.ensure', 'dataset.open', 'file.read', 'file.readRange', 'review.open', 'review.save',
+  'export.write', 'settings.get', 'settings.set',
 ];
 
 /** Requests whose response is raw bytes (sent as application/octet-stream over HTTP). */

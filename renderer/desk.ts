@@ -15,8 +15,10 @@ import { drawPicks, hitPick, type PickMarks } from './picks/pickLayer';
 import { openReview, ReviewSaver } from './data/reviewSync';
 import {
   History, acceptAutomatic, addEvent, deletePick, movePick, placePick, setPickAttributes, setState, setUncertainty,
-  setEventType, EVENT_TYPES, REVIEW_STATES, type ReviewDocument, type ReviewEvent, type EventType, type ReviewState,
+  setEventType, EVENT_TYPES, REVIEW_STATES, reviewToCsv, reviewToQuakeMl, type ReviewDocument, type ReviewEvent, type EventType,
+  type ReviewState,
 } from '../core/review';
+import { microsFromIso } from '../core/time';
 import { KEY_MAP, actionForKey, type KeyAction } from './keys';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
@@ -158,15 +160,18 @@ export class Desk {
       onPointerDrag: (t) => this.pointerDrag(t),
       onPointerUp: (t) => this.pointerUp(t),
     });
+    const exportButton = el('button', { title: 'Write the review as QuakeML 1.2 and a CSV of picks beside the review file' }, 'Export QuakeML + CSV');
+    exportButton.addEventListener('click', () => void this.exportAll());
+    this.eventList.root.append(el('div', { className: 'event-list-foot' }, exportButton));
     const work = el('div', { className: 'desk-work' }, this.eventList.root, this.sheetHost);
     this.root.replaceChildren(overviewHost, this.banner, work, this.status);
     this.sheetHost.insertBefore(this.eventBar, this.sheetHost.children[1]);
     this.afterDocChange(false);
     document.addEventListener('keydown', this.onKey);
     // Read-only view state for end-to-end tests (seconds from the sheet's reference time).
-    (window as unknown as { daybreakView: () => { x0: number; x1: number } }).daybreakView = () => {
+    (window as unknown as { daybreakView: () => { x0: number; x1: number; secondsPerPixel: number } }).daybreakView = () => {
       const [x0, x1] = this.traces?.window ?? [0, 0];
-      return { x0, x1 };
+      return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0 };
     };
     const problems = this.session.problems.length;
     this.status.textContent = `${this.session.files.length} files read${problems ? ` \u00b7 ${problems} problems (see the log)` : ''}`;
@@ -495,6 +500,29 @@ export class Desk {
     }
     if (this.helpDialog.open) this.helpDialog.close();
     else this.helpDialog.showModal();
+  }
+
+  /** Writes the review as QuakeML and CSV through the host; returns the paths written. */
+  async exportAll(): Promise<string[]> {
+    const doc = this.doc;
+    if (!doc) return [];
+    await this.flush();
+    const settings = await this.host.call('settings.get', {});
+    const s = settings.ok ? settings.value : { analyst: '', agency: '', authority: 'daybreak.local' };
+    const now = new Date().toISOString();
+    const stamp = now.slice(0, 19).replace(/[-:]/g, '');
+    const xml = reviewToQuakeMl(doc, {
+      authority: s.authority, agencyId: s.agency || 'unknown', author: s.analyst || 'unknown',
+      creationTime: microsFromIso(now), version: 'Daybreak',
+    });
+    const written: string[] = [];
+    for (const [name, content] of [[`review-${stamp}.quakeml.xml`, xml], [`picks-${stamp}.csv`, reviewToCsv(doc)]] as const) {
+      const r = await this.host.call('export.write', { root: this.session.dataset.root, name, content });
+      if (!r.ok) { this.setStatus(`export failed: ${r.message}`); return written; }
+      written.push(r.value.path);
+    }
+    this.setStatus(`exported ${written.join(' and ')}${s.analyst ? '' : ' (set your name and agency in Settings)'}`);
+    return written;
   }
 
   /** Waits until every edit so far is saved. */

@@ -21,6 +21,8 @@ const mainArea = el('main');
 const statusText = el('span', { className: 'status' });
 const themeButton = el('button', { title: 'Switch between light and dark' }, 'Theme');
 const aboutButton = el('button', {}, 'About');
+const settingsButton = el('button', { title: 'Analyst name and agency written into exports' }, 'Settings');
+settingsButton.addEventListener('click', () => void openSettings());
 document.documentElement.dataset.theme = localStorage.getItem('daybreak.theme') ?? 'dark';
 themeButton.addEventListener('click', () => {
   const next = document.documentElement.dataset.theme === 'dark' ? 'light' : 'dark';
@@ -48,7 +50,7 @@ app.append(
   el('header', { className: 'bar' },
     el('h1', {}, el('span', { className: 'sun' }, '\u25d2 '), 'Daybreak'),
     folderForm(), statusText,
-    el('span', { className: 'spacer' }), themeButton, aboutButton),
+    el('span', { className: 'spacer' }), settingsButton, themeButton, aboutButton),
   mainArea,
   el('footer', { className: 'caution' }, CAUTION),
   about,
@@ -81,6 +83,30 @@ async function openDemo(): Promise<void> {
 }
 
 let desk: Desk | null = null;
+
+async function openSettings(): Promise<void> {
+  const current = await host.call('settings.get', {});
+  if (!current.ok) { statusText.textContent = current.message; return; }
+  const field = (label: string, name: string, value: string, hint: string) =>
+    el('label', { className: 'setting' }, el('span', {}, label), el('input', { type: 'text', name, value, size: 32 }), el('small', { className: 'muted' }, hint));
+  const form = el('form', { method: 'dialog' },
+    el('h2', {}, 'Settings'),
+    field('Analyst', 'analyst', current.value.analyst, 'written as creationInfo/author'),
+    field('Agency', 'agency', current.value.agency, 'written as creationInfo/agencyID'),
+    field('Identifier authority', 'authority', current.value.authority, 'QuakeML identifiers read smi:AUTHORITY/\u2026'),
+    el('div', { className: 'buttons' }, el('button', { value: 'save' }, 'Save'), el('button', { value: 'cancel' }, 'Cancel')));
+  const dialog = el('dialog', { id: 'settings' }, form);
+  document.body.append(dialog);
+  dialog.addEventListener('close', async () => {
+    if (dialog.returnValue === 'save') {
+      const data = new FormData(form);
+      const r = await host.call('settings.set', { analyst: String(data.get('analyst')), agency: String(data.get('agency')), authority: String(data.get('authority')) });
+      statusText.textContent = r.ok ? 'settings saved' : `settings not saved: ${r.message}`;
+    }
+    dialog.remove();
+  });
+  dialog.showModal();
+}
 
 async function openFolder(root: string): Promise<void> {
   const ds = await host.call('dataset.open', { root });

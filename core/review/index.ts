@@ -2,3 +2,4 @@
 export * from './types';
 export * from './edits';
 export * from './format';
+export * from './export';

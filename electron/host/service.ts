@@ -5,12 +5,12 @@
  */
 import { readdir, readFile, stat, access, constants, open } from 'node:fs/promises';
 import { existsSync } from 'node:fs';
-import { join, relative, resolve, sep } from 'node:path';
+import { dirname, join, relative, resolve, sep } from 'node:path';
 import type {
   AppInfo, Dataset, DatasetFile, DemoStatus, FileKind, HostErrorCode, HostRequestName, HostRequests,
   HostResult, RequestOf, ResponseOf,
 } from '../contract';
-import { HOST_REQUEST_NAMES, type ReviewFileState } from '../contract';
+import { DEFAULT_SETTINGS, HOST_REQUEST_NAMES, type ReviewFileState, type Settings } from '../contract';
 import { ReviewLocks, reviewPathFor, writeAtomically } from './reviewStore';
 
 export class HostError extends Error {
@@ -61,6 +61,9 @@ export class HostService {
       'file.readRange': async (req) => this.readDatasetRange(req.root, req.path, req.offset, req.length),
       'review.open': async (req) => this.openReview(req.root, req.force === true),
       'review.save': async (req) => this.saveReview(req.root, req.content),
+      'export.write': async (req) => this.writeExport(req.root, req.name, req.content),
+      'settings.get': async () => this.readSettings(),
+      'settings.set': async (req) => this.writeSettings(req),
     };
   }
 
@@ -116,6 +119,37 @@ export class HostService {
     if (!this.locks.holds(path)) throw new HostError('locked', `another copy of Daybreak holds ${path}; open it again to take over`);
     await writeAtomically(path, content);
     return { path, bytes: Buffer.byteLength(content) };
+  }
+
+  private async writeExport(rootArg: unknown, name: unknown, content: unknown): Promise<{ path: string }> {
+    const root = this.checkOpened(rootArg);
+    if (typeof name !== 'string' || !/^[\w][\w.-]{0,120}$/.test(name)) throw new HostError('bad-request', 'export name must be letters, digits, . _ - (up to 121)');
+    if (typeof content !== 'string' || content.length > 256 << 20) throw new HostError('bad-request', 'content must be text of at most 256 MiB');
+    const path = join(dirname(await reviewPathFor(root, this.opts.userDir)), 'daybreak-exports', name);
+    await writeAtomically(path, content);
+    return { path };
+  }
+
+  private settingsPath(): string {
+    return join(this.opts.userDir, 'settings.json');
+  }
+
+  private async readSettings(): Promise<Settings> {
+    const text = await readFile(this.settingsPath(), 'utf8').catch(() => null);
+    if (!text) return { ...DEFAULT_SETTINGS };
+    try {
+      const raw = JSON.parse(text) as Partial<Settings>;
+      return { ...DEFAULT_SETTINGS, ...pickSettings(raw) };
+    } catch {
+      return { ...DEFAULT_SETTINGS };
+    }
+  }
+
+  private async writeSettings(req: unknown): Promise<Settings> {
+    const next = { ...(await this.readSettings()), ...pickSettings(req as Partial<Settings>) };
+    if (!/^[\w.\-~]{1,200}$/.test(next.authority)) throw new HostError('bad-request', `authority must be 1-200 of letters, digits and .-_~, got "${next.authority}"`);
+    await writeAtomically(this.settingsPath(), JSON.stringify(next, null, 1));
+    return next;
   }
 
   private checkOpened(rootArg: unknown): string {
@@ -205,6 +239,17 @@ export function fileKindOf(name: string, head = ''): FileKind {
   if (lower.endsWith('.review.json')) return 'review';
   if (lower.endsWith('model.json')) return 'model';
   return 'other';
+}
+
+function pickSettings(raw: Partial<Settings>): Partial<Settings> {
+  const out: Partial<Settings> = {};
+  for (const k of ['analyst', 'agency', 'authority'] as const) {
+    const v = raw[k];
+    if (v === undefined) continue;
+    if (typeof v !== 'string' || v.length > 200) throw new HostError('bad-request', `${k} must be text of at most 200 characters`);
+    out[k] = v;
+  }
+  return out;
 }
 
 async function readHead(path: string, bytes: number): Promise<string> {

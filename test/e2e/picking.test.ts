@@ -1,11 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { cpSync, existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { openApp, screenshotPath, type RunningApp } from '../support/browserApp';
 import { DEMO_COMPLETE_MARKER } from '../../electron/host/service';
 import { REVIEW_FILE_NAME } from '../../electron/host/reviewStore';
-import { microsFromIso } from '../../core/time';
+import { isoFromMicros, microsFromIso } from '../../core/time';
+import { readQuakeMl } from '../../core/quakeml';
 
 // A copy of the real records (../shared/data/real-microseismic) so the review file can be written beside it.
 const REAL = resolve(__dirname, '..', '..', '..', 'shared', 'data', 'real-microseismic');
@@ -35,8 +36,12 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     return box;
   }
   /** Seconds from the reference at the left edge of the plots, and seconds per pixel, from the axis state. */
-  async function viewWindow(): Promise<{ x0: number; x1: number }> {
-    return app.page.evaluate(() => (window as unknown as { daybreakView: () => { x0: number; x1: number } }).daybreakView());
+  async function viewWindow(): Promise<{ x0: number; x1: number; secondsPerPixel: number }> {
+    const v = await app.page.evaluate(() => (window as unknown as { daybreakView: () => { x0: number; x1: number; secondsPerPixel: number } }).daybreakView());
+    // The app's scale must match the plot drawn on screen (to a fraction of a pixel across the plot).
+    const box = await plotBox();
+    expect(Math.abs((v.x1 - v.x0) / v.secondsPerPixel - box.width)).toBeLessThan(1);
+    return v;
   }
 
   beforeAll(async () => {
@@ -70,7 +75,7 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
 
   it('moves a dragged pick by the seconds that match the pixels dragged', async () => {
     const box = await plotBox();
-    const { x0, x1 } = await viewWindow();
+    const { secondsPerPixel } = await viewWindow();
     const before = saved().events[0].picks[0];
     const y = box.y + 20;
     const x = box.x + box.width * 0.5;
@@ -81,7 +86,7 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     await app.page.mouse.up();
     const after = (await savedWhen((s) => s.events[0].picks[0].time !== before.time)).events[0].picks[0];
     const moved = (microsFromIso(after.time) - microsFromIso(before.time)) / 1e6;
-    expect(moved).toBeCloseTo((60 * (x1 - x0)) / box.width, 5);
+    expect(moved).toBeCloseTo(60 * secondsPerPixel, 5);
     expect(after.mode).toBe('manual');
   });
 
@@ -89,7 +94,7 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     await app.page.keyboard.press('t'); // zoom to the selected pick: 2 s before, 3 s after
     await app.page.waitForTimeout(200);
     const box = await plotBox();
-    const { x0, x1 } = await viewWindow();
+    const { x0, x1, secondsPerPixel } = await viewWindow();
     const pick = saved().events[0].picks[0];
     const title = await app.page.locator('.sheet-title').innerText();
     const ref = microsFromIso(`${title.slice(0, 19).replace(' ', 'T')}Z`);
@@ -102,7 +107,8 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     await app.page.mouse.move(xOf(tp + pick.upper) + 40, y, { steps: 4 });
     await app.page.mouse.up();
     const after = (await savedWhen((s) => s.events[0].picks[0].upper !== pick.upper)).events[0].picks[0];
-    expect(after.upper).toBeCloseTo(pick.upper + (40 * (x1 - x0)) / box.width, 4);
+    // The handle was grabbed where the test computed it to be: within a pixel of it.
+    expect(Math.abs(after.upper - (pick.upper + 40 * secondsPerPixel))).toBeLessThan(secondsPerPixel);
     expect(after.lower).toBe(pick.lower);
     expect(after.time).toBe(pick.time);
     await app.page.screenshot({ path: screenshotPath('picking-zoomed') });
@@ -140,6 +146,27 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     expect(saved()).toEqual(before);
     expect(await app.page.locator('.event-list li').count()).toBe(1);
     await app.page.screenshot({ path: screenshotPath('picking-reloaded') });
+  });
+
+  it('exports QuakeML and a CSV of the picks with the analyst and agency from the settings', async () => {
+    await app.page.getByRole('button', { name: 'Settings' }).click();
+    await app.page.locator('dialog#settings input[name=analyst]').fill('Test Analyst');
+    await app.page.locator('dialog#settings input[name=agency]').fill('XX');
+    await app.page.locator('dialog#settings button[value=save]').click();
+    await app.page.getByText('settings saved').waitFor();
+    await app.page.getByRole('button', { name: 'Export QuakeML + CSV' }).click();
+    await app.page.getByText(/^exported /).waitFor();
+    const dir = join(data, 'daybreak-exports');
+    const files = readdirSync(dir).sort();
+    expect(files.map((f) => f.replace(/\d{8}T\d{6}/, 'STAMP'))).toEqual(['picks-STAMP.csv', 'review-STAMP.quakeml.xml']);
+    const xml = readFileSync(join(dir, files[1]), 'utf8');
+    const doc = readQuakeMl(xml, files[1]);
+    const review = saved();
+    expect(doc.events.map((e) => e.picks.length)).toEqual(review.events.map((e) => e.picks.length));
+    expect(doc.events[0].picks.map((p) => isoFromMicros(p.time)).sort()).toEqual(review.events[0].picks.map((p) => p.time).sort());
+    expect(xml).toContain('<author>Test Analyst</author>');
+    expect(xml).toContain('<agencyID>XX</agencyID>');
+    expect(readFileSync(join(dir, files[0]), 'utf8').trim().split('\n')).toHaveLength(2 + review.events[0].picks.length);
   });
 
   it('shows every key in the help overlay', async () => {

@@ -13,6 +13,7 @@ type Command = (args: string[]) => Promise<number>;
 
 const commands: Record<string, () => Promise<Command>> = {
   info: async () => (await import('./info')).info,
+  scan: async () => (await import('./scan')).scan,
 };
 
 export async function main(argv: string[]): Promise<number> {

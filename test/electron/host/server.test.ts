@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { request } from 'node:http';
-import { mkdtempSync, mkdirSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { HostService, DEMO_COMPLETE_MARKER } from '../../../electron/host/service';
@@ -121,6 +121,23 @@ describe('browser-mode server', () => {
     expect(JSON.parse((await api('dataset.open', { root: join(dataRoot, 'missing') })).body.toString())).toMatchObject({ ok: false, code: 'not-found' });
     const broken = await send(server.port, { method: 'POST', path: '/api/app.info', body: '{nope', headers: { host: `127.0.0.1:${server.port}`, 'content-type': 'application/json', [TOKEN_HEADER]: server.token } });
     expect(JSON.parse(broken.body.toString())).toMatchObject({ ok: false, code: 'bad-request' });
+  });
+
+  it('writes exports atomically beside the review file, with safe names only', async () => {
+    await api('dataset.open', { root: dataRoot });
+    const r = JSON.parse((await api('export.write', { root: dataRoot, name: 'night.xml', content: '<q/>' })).body.toString());
+    expect(r).toEqual({ ok: true, value: { path: join(dataRoot, 'daybreak-exports', 'night.xml') } });
+    expect(readFileSync(r.value.path, 'utf8')).toBe('<q/>');
+    const bad = JSON.parse((await api('export.write', { root: dataRoot, name: '../x.xml', content: '' })).body.toString());
+    expect(bad).toMatchObject({ ok: false, code: 'bad-request' });
+  });
+
+  it('keeps settings in the user folder and refuses a bad authority', async () => {
+    expect(JSON.parse((await api('settings.get', {})).body.toString()).value).toEqual({ analyst: '', agency: '', authority: 'daybreak.local' });
+    const set = JSON.parse((await api('settings.set', { analyst: 'J. Doe', agency: 'XX' })).body.toString());
+    expect(set.value).toEqual({ analyst: 'J. Doe', agency: 'XX', authority: 'daybreak.local' });
+    expect(JSON.parse((await api('settings.get', {})).body.toString()).value.analyst).toBe('J. Doe');
+    expect(JSON.parse((await api('settings.set', { authority: 'no spaces' })).body.toString())).toMatchObject({ ok: false, code: 'bad-request' });
   });
 
   it('reports a finished demo scenario as ready', async () => {

@@ -1,0 +1,484 @@
+/**
+ * `daybreak scan --stations STATIONXML --out OUT.xml [options] PATH...`: the overnight scan. Reads the
+ * miniSEED at PATH (files, or folders searched recursively), filters, triggers (STA/LTA per site),
+ * associates (network coincidence) and picks (AIC P and S), then writes QuakeML 1.2: one event per
+ * candidate with its picks (evaluation mode automatic, status preliminary).
+ *
+ * How the night is processed (memory bounded by chunk length x stations, not by the night):
+ *  1. Every file's record headers are walked in chunks (no samples decoded): the record index.
+ *  2. Trigger pass: the night is cut into time chunks (`--chunk`, default 600 s); for each chunk only
+ *     the records of the chosen verticals in it are read and decoded (day files split at midnight are
+ *     joined by the collector); each channel's causal filter and STA/LTA carry their state from chunk
+ *     to chunk, so the triggers are those of one pass over the whole night whatever the chunk length.
+ *  3. Coincidence over all triggers (a few numbers each) gives the candidate events.
+ *  4. Pick pass: per event, only the records around it are read again (from `filterPad` seconds
+ *     before the earliest P window, so the filter has settled) and picked (core/scan eventPicks).
+ *
+ * Exit codes: 0 done; 1 done, but some input was bad or unknown and was reported (bad records, a file
+ * named on the command line that is not miniSEED, channels without metadata); 2 unusable arguments.
+ * Files found in folders that are not miniSEED (StationXML, JSON, text) are skipped with a note. The
+ * output is written to a temporary file beside OUT and renamed over it when complete.
+ */
+import { openSync, readSync, closeSync, readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
+import { channelKey, parseChannelKey, sampleTime, stationKey, type ChannelData, type ChannelId } from '../../../core/model';
+import { isoFromMicros, type Micros } from '../../../core/time';
+import { isMiniSeed3, looksLikeRecordStart } from '../../../core/mseed';
+import { parseStationXml, findChannel, missingMetadata, type Inventory } from '../../../core/stationxml';
+import { designForChannel, verticalPolarity } from '../../../core/dsp';
+import { chooseSiteStreams, coincidence, type CandidateEvent, type Pick, type SitePosition, type StationTrigger } from '../../../core/pick';
+import { writeQuakeMl, type QmlEvent } from '../../../core/quakeml';
+import { CAUTION } from '../../../core/caution';
+import { presetSettings, SCAN_PRESETS, type ScanPreset, type ScanSettings } from '../../../core/scan/settings';
+import { TriggerStream } from '../../../core/scan/triggerStream';
+import { eventPicks, pickId, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
+import { listFiles } from '../mseedFiles';
+import { indexFile, readWindow, type IndexedFile } from '../scan/recordFiles';
+import { duration } from './info';
+
+const USAGE = `usage: daybreak scan --stations STATIONXML --out OUT.xml [options] PATH...
+
+  PATH                 miniSEED files, or folders searched recursively (other files there are skipped)
+  --stations FILE      FDSN StationXML with every station to use (others are reported and left out)
+  --out FILE           QuakeML 1.2 to write (replaced atomically when the scan is done)
+  --preset NAME        settings: local (default; local earthquakes, 40-200 Hz) or near (near-source
+                       microseismic at about 500 Hz in short event cuts)
+  --band LO,HI         trigger and pick band-pass, Hz (preset: 2,15 or 10,120)
+  --sta S --lta S      STA/LTA windows, seconds (preset: 0.5/60 or 0.05/1)
+  --on R --off R       trigger-on and trigger-off ratios (4 and 2)
+  --min-sites N        sites that must trigger together (3)
+  --chunk S            seconds of data processed at a time (600); bounds memory
+  --agency ID          creationInfo agencyID (default "daybreak")
+  --author NAME        creationInfo author (default "daybreak scan")
+  --authority A        authority of the smi: identifiers (default "daybreak.local")
+`;
+
+class ArgumentError extends Error {}
+
+export interface ScanArgs {
+  stations: string;
+  out: string;
+  paths: string[];
+  settings: ScanSettings;
+  agency: string;
+  author: string;
+  authority: string;
+}
+
+function num(name: string, v: string | undefined, min: number, max: number, integer = false): number {
+  const x = Number(v);
+  if (v === undefined || v.trim() === '' || !Number.isFinite(x) || x < min || x > max || (integer && !Number.isInteger(x))) {
+    throw new ArgumentError(`${name} must be ${integer ? 'an integer' : 'a number'} from ${min} to ${max}, got "${v ?? ''}"`);
+  }
+  return x;
+}
+
+export function parseScanArgs(args: string[]): ScanArgs {
+  const values = new Map<string, string>();
+  const paths: string[] = [];
+  const known = ['--stations', '--out', '--preset', '--band', '--sta', '--lta', '--on', '--off', '--min-sites', '--chunk', '--agency', '--author', '--authority'];
+  let optionsDone = false;
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i];
+    if (!optionsDone && a === '--') optionsDone = true;
+    else if (!optionsDone && a.startsWith('--')) {
+      const eq = a.indexOf('=');
+      const name = eq > 0 ? a.slice(0, eq) : a;
+      if (!known.includes(name)) throw new ArgumentError(`unknown option "${a}"`);
+      const v = eq > 0 ? a.slice(eq + 1) : args[++i];
+      if (v === undefined) throw new ArgumentError(`${name} needs a value`);
+      values.set(name, v);
+    } else if (!optionsDone && a.startsWith('-') && a !== '-') throw new ArgumentError(`unknown option "${a}"`);
+    else paths.push(a);
+  }
+  const stations = values.get('--stations');
+  const out = values.get('--out');
+  if (!stations) throw new ArgumentError('--stations STATIONXML is required');
+  if (!out) throw new ArgumentError('--out OUT.xml is required');
+  if (paths.length === 0) throw new ArgumentError('no PATH given');
+  const preset = values.get('--preset') ?? 'local';
+  if (!SCAN_PRESETS.includes(preset as ScanPreset)) throw new ArgumentError(`--preset must be one of ${SCAN_PRESETS.join(', ')}, got "${preset}"`);
+  const base = presetSettings(preset as ScanPreset);
+  let filter = base.filter;
+  const band = values.get('--band');
+  if (band !== undefined) {
+    const parts = band.split(/[,:]/);
+    if (parts.length !== 2) throw new ArgumentError(`--band must be LO,HI in Hz, got "${band}"`);
+    const lo = num('--band low corner (Hz)', parts[0], 1e-3, 1e5);
+    const hi = num('--band high corner (Hz)', parts[1], 1e-3, 1e5);
+    if (!(hi > lo)) throw new ArgumentError(`--band high corner must be above the low corner, got "${band}"`);
+    filter = { ...filter, corners: [lo, hi] };
+  }
+  const staLta = { ...base.staLta };
+  if (values.has('--sta')) staLta.sta = num('--sta (s)', values.get('--sta'), 1e-3, 3600);
+  if (values.has('--lta')) staLta.lta = num('--lta (s)', values.get('--lta'), 1e-3, 86400);
+  if (values.has('--on')) staLta.triggerOn = num('--on', values.get('--on'), 1, 1e6);
+  if (values.has('--off')) staLta.triggerOff = num('--off', values.get('--off'), 0.01, 1e6);
+  const sta = staLta.sta ?? 0.5, lta = staLta.lta ?? 60, on = staLta.triggerOn ?? 4, off = staLta.triggerOff ?? 2;
+  if (!(lta > sta)) throw new ArgumentError(`--lta must be longer than --sta (${sta} s), got ${lta}`);
+  if (!(off <= on)) throw new ArgumentError(`--off must be at most --on (${on}), got ${off}`);
+  const settings: ScanSettings = {
+    ...base, filter, staLta,
+    minSites: values.has('--min-sites') ? num('--min-sites', values.get('--min-sites'), 1, 10000, true) : base.minSites,
+    chunkSeconds: values.has('--chunk') ? num('--chunk (s)', values.get('--chunk'), 1, 86400 * 7) : base.chunkSeconds,
+  };
+  const agency = values.get('--agency') ?? 'daybreak';
+  const author = values.get('--author') ?? 'daybreak scan';
+  const authority = values.get('--authority') ?? 'daybreak.local';
+  if (!/^[\w.\-~]{1,200}$/.test(authority)) throw new ArgumentError(`--authority must be 1-200 of letters, digits and .-_~, got "${authority}"`);
+  for (const p of paths) {
+    try { statSync(p); } catch { throw new ArgumentError(`no such file or folder: "${p}"`); }
+  }
+  try {
+    if (!statSync(stations).isFile()) throw new Error();
+  } catch { throw new ArgumentError(`--stations: no such file: "${stations}"`); }
+  try {
+    if (!statSync(dirname(out)).isDirectory()) throw new Error();
+  } catch { throw new ArgumentError(`--out: the folder "${dirname(out)}" does not exist`); }
+  return { stations, out, paths, settings, agency, author, authority };
+}
+
+function miniSeedKind(path: string): 'mseed2' | 'mseed3' | 'other' {
+  const head = new Uint8Array(64);
+  const fd = openSync(path, 'r');
+  try {
+    const n = readSync(fd, head, 0, head.length, 0);
+    const bytes = head.subarray(0, n);
+    if (looksLikeRecordStart(bytes, 0)) return 'mseed2';
+    return isMiniSeed3(bytes, 0) ? 'mseed3' : 'other';
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/** A one-line progress bar on a terminal, redrawn at most ten times a second. */
+function progressBar(stream: NodeJS.WriteStream): { update: (fraction: number, text: string) => void; done: () => void } {
+  let last = 0;
+  let shown = false;
+  return {
+    update(fraction, text) {
+      const now = Date.now();
+      if (now - last < 100) return;
+      last = now;
+      shown = true;
+      const width = 24;
+      const f = Math.max(0, Math.min(1, fraction));
+      const full = Math.round(f * width);
+      const line = `[${'#'.repeat(full)}${'-'.repeat(width - full)}] ${String(Math.floor(f * 100)).padStart(3)}% ${text}`;
+      stream.write(`\r${line.slice(0, Math.max(10, (stream.columns ?? 80) - 1))}\x1b[K`);
+    },
+    done() {
+      if (shown) stream.write('\r\x1b[K');
+    },
+  };
+}
+
+/** The part of a segment's samples with times in [from, to) µs, with the time of its first sample. */
+function cut(seg: ChannelData['segments'][number], from: Micros, to: Micros): { samples: ChannelData['segments'][number]['samples']; start: Micros } | null {
+  const n = seg.samples.length;
+  const timeOf = (i: number) => sampleTime(seg, i);
+  const firstAtOrAfter = (t: Micros) => {
+    let lo = 0, hi = n;
+    while (lo < hi) { const mid = (lo + hi) >> 1; if (timeOf(mid) < t) lo = mid + 1; else hi = mid; }
+    return lo;
+  };
+  const a = firstAtOrAfter(from);
+  const b = firstAtOrAfter(to);
+  if (b <= a) return null;
+  return { samples: seg.samples.subarray(a, b), start: timeOf(a) };
+}
+
+interface SiteInfo {
+  key: string;
+  vertical: ChannelId;
+  horizontals: readonly [ChannelId, ChannelId] | null;
+  position: SitePosition;
+}
+
+export interface ScanSummary {
+  files: number;
+  skippedFiles: { path: string; why: string }[];
+  badRecords: { path: string; offset: number; reason: string }[];
+  channels: number;
+  hours: number;
+  candidates: number;
+  picks: { P: number; S: number };
+  skippedChannels: { id: string; why: string }[];
+  seconds: number;
+}
+
+export async function scan(args: string[]): Promise<number> {
+  if (args.includes('--help') || args.includes('-h')) {
+    process.stdout.write(USAGE);
+    return 0;
+  }
+  let a: ScanArgs;
+  let inv: Inventory;
+  try {
+    a = parseScanArgs(args);
+    try {
+      inv = parseStationXml(readFileSync(a.stations, 'utf8'), a.stations);
+    } catch (e) {
+      throw new ArgumentError(`--stations: ${(e as Error).message}`);
+    }
+  } catch (e) {
+    if (!(e instanceof ArgumentError)) throw e;
+    process.stderr.write(`daybreak scan: ${e.message}\n${USAGE}`);
+    return 2;
+  }
+  const t0 = performance.now();
+  const s = a.settings;
+  const bar = process.stderr.isTTY ? progressBar(process.stderr) : null;
+  const summary: ScanSummary = {
+    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, picks: { P: 0, S: 0 }, skippedChannels: [], seconds: 0,
+  };
+  let bad = false;
+
+  // Files: miniSEED 2 is read; others found in folders are skipped with a note.
+  const named = new Set(a.paths.filter((p) => statSync(p).isFile()));
+  const found = await listFiles(a.paths);
+  const mseed: { path: string; size: number }[] = [];
+  for (const f of found) {
+    const kind = f.size === 0 ? 'other' : miniSeedKind(f.path);
+    if (kind === 'mseed2') { mseed.push(f); continue; }
+    const why = kind === 'mseed3' ? 'miniSEED 3, not supported yet' : `not miniSEED${f.size === 0 ? ' (empty)' : ''}`;
+    summary.skippedFiles.push({ path: f.path, why });
+    if (named.has(f.path) || kind === 'mseed3') bad = true;
+  }
+  summary.files = mseed.length;
+
+  // Pass 0: record index.
+  const totalBytes = mseed.reduce((n, f) => n + f.size, 0);
+  let doneBytes = 0;
+  const files: IndexedFile[] = [];
+  for (const f of mseed) {
+    bar?.update(0.2 * (doneBytes / Math.max(1, totalBytes)), `indexing ${basename(f.path)}`);
+    const ix = await indexFile(f.path, f.size);
+    doneBytes += f.size;
+    for (const p of ix.index.problems) summary.badRecords.push({ path: f.path, offset: p, reason: 'not a readable miniSEED record' });
+    files.push(ix);
+  }
+
+  // Channels seen, their spans; metadata.
+  const spans = new Map<string, { id: ChannelId; start: Micros; end: Micros }>();
+  for (const f of files) {
+    for (const r of f.index.records) {
+      const sp = spans.get(r.channel);
+      if (sp) { sp.start = Math.min(sp.start, r.start); sp.end = Math.max(sp.end, r.end); } else spans.set(r.channel, { id: parseChannelKey(r.channel), start: r.start, end: r.end });
+    }
+  }
+  summary.channels = spans.size;
+  const missing = missingMetadata(inv, [...spans.values()]);
+  for (const m of missing.waveforms) {
+    summary.skippedChannels.push({ id: m.key, why: m.reason === 'no-channel' ? 'not in the StationXML' : 'no StationXML epoch covers its data' });
+    bad = true;
+  }
+  for (const m of missing.stateOfHealth) summary.skippedChannels.push({ id: m.key, why: 'state of health or log, no metadata' });
+  const missingKeys = new Set([...missing.waveforms, ...missing.stateOfHealth].map((m) => m.key));
+  const usable = [...spans.values()].filter((c) => !missingKeys.has(channelKey(c.id)) && c.id.channel.length === 3);
+  const streams = chooseSiteStreams(usable.map((c) => c.id));
+  const chosen = new Set<string>();
+  const sites = new Map<string, SiteInfo>();
+  const midOf = (id: ChannelId) => { const sp = spans.get(channelKey(id)); return sp ? Math.round((sp.start + sp.end) / 2) : 0; };
+  for (const st of streams) {
+    const meta = findChannel(inv, st.vertical, midOf(st.vertical));
+    if (!meta) continue;
+    sites.set(st.site, { key: st.site, vertical: st.vertical, horizontals: st.horizontals, position: { latitude: meta.latitude, longitude: meta.longitude } });
+    chosen.add(channelKey(st.vertical));
+    if (st.horizontals) for (const h of st.horizontals) chosen.add(channelKey(h));
+  }
+  for (const c of usable) {
+    const key = channelKey(c.id);
+    if (chosen.has(key)) continue;
+    const site = sites.get(stationKey(c.id));
+    summary.skippedChannels.push({
+      id: key,
+      why: site ? `site ${site.key} uses ${site.vertical.location}.${site.vertical.channel.slice(0, 2)}` : 'no vertical at this site (or not a ground-motion channel)',
+    });
+  }
+
+  // Filters per sample rate (corners clamped per channel by designForChannel).
+  const sosCache = new Map<number, Float64Array>();
+  const sosFor = (rate: number) => {
+    let sos = sosCache.get(rate);
+    if (!sos) { sos = designForChannel(s.filter, rate).sos; sosCache.set(rate, sos); }
+    return sos;
+  };
+
+  // Pass 1: triggers, chunk by chunk.
+  const verticals = new Set([...sites.values()].map((x) => channelKey(x.vertical)));
+  let tStart = Infinity, tEnd = -Infinity;
+  for (const k of verticals) { const sp = spans.get(k)!; tStart = Math.min(tStart, sp.start); tEnd = Math.max(tEnd, sp.end); }
+  const streamsByKey = new Map<string, TriggerStream>();
+  const triggers: StationTrigger[] = [];
+  const decodeErrors = new Set<string>();
+  const noteErrors = (errs: { path: string; error: { offset: number; reason: string } }[]) => {
+    for (const e of errs) {
+      const k = `${e.path}\u0000${e.error.offset}`;
+      if (decodeErrors.has(k)) continue;
+      decodeErrors.add(k);
+      summary.badRecords.push({ path: e.path, offset: e.error.offset, reason: e.error.reason });
+    }
+  };
+  const chunk = Math.round(s.chunkSeconds * 1e6);
+  let dataSeconds = 0;
+  if (verticals.size > 0) {
+    for (let from = tStart; from < tEnd; from += chunk) {
+      const to = Math.min(from + chunk, tEnd);
+      bar?.update(0.2 + 0.6 * ((from - tStart) / Math.max(1, tEnd - tStart)), `triggering ${isoFromMicros(from).slice(0, 19)}`);
+      const w = await readWindow(files, verticals, from, to);
+      noteErrors(w.errors);
+      for (const ch of w.channels) {
+        const key = channelKey(ch.id);
+        for (const seg of ch.segments) {
+          const part = cut(seg, from, to);
+          if (!part) continue;
+          let ts = streamsByKey.get(key);
+          if (ts && ts.sampleRate !== seg.sampleRate) {
+            triggers.push(...ts.finish());
+            ts = undefined;
+          }
+          if (!ts) {
+            try {
+              ts = new TriggerStream(ch.id, seg.sampleRate, sosFor(seg.sampleRate), s.staLta);
+            } catch (e) {
+              summary.skippedChannels.push({ id: key, why: (e as Error).message });
+              verticals.delete(key);
+              break;
+            }
+            streamsByKey.set(key, ts);
+          }
+          triggers.push(...ts.push(part.samples, part.start));
+          dataSeconds += part.samples.length / seg.sampleRate;
+        }
+      }
+    }
+    for (const ts of streamsByKey.values()) triggers.push(...ts.finish());
+  }
+  summary.hours = dataSeconds / 3600 / Math.max(1, verticals.size);
+
+  // Coincidence.
+  const positions = new Map<string, SitePosition>();
+  for (const x of sites.values()) positions.set(x.key, x.position);
+  const networks = [...new Set([...sites.values()].map((x) => x.vertical.network))].sort();
+  const network = networks.length === 1 && /^[A-Za-z0-9_-]{1,16}$/.test(networks[0]) ? networks[0] : 'NET';
+  const events: CandidateEvent[] = triggers.length ? coincidence(triggers, positions, { minSites: s.minSites, vMin: s.vMin, slack: s.slack, network }) : [];
+  summary.candidates = events.length;
+
+  // Pass 2: picks per event.
+  const onsetBefore = s.onset.before ?? 1.0;
+  const snrNoise = s.onset.snrNoise ?? 5;
+  const vpVsMax = s.sWindow.vpVsMax ?? 2.0;
+  const qmlEvents: QmlEvent[] = [];
+  for (let k = 0; k < events.length; k++) {
+    const ev = events[k];
+    bar?.update(0.8 + 0.2 * (k / events.length), `picking ${ev.id}`);
+    const ons = ev.triggers.map((t) => t.on);
+    const firstOn = Math.min(...ons), lastOn = Math.max(...ons);
+    const from = firstOn - Math.round((s.filterPad + onsetBefore + snrNoise) * 1e6);
+    const to = lastOn + Math.round(((vpVsMax - 1) * ((lastOn - firstOn) / 1e6 + s.firstTravelMax) * 1.5 + 2 + (s.onset.snrSignal ?? 1)) * 1e6);
+    const want = new Set<string>();
+    for (const site of ev.sites) {
+      const x = sites.get(site);
+      if (!x) continue;
+      want.add(channelKey(x.vertical));
+      if (x.horizontals) for (const h of x.horizontals) want.add(channelKey(h));
+    }
+    const w = await readWindow(files, want, from, to);
+    noteErrors(w.errors);
+    const byKey = new Map(w.channels.map((c) => [channelKey(c.id), c]));
+    const pickSites = new Map<string, PickSite>();
+    const chan = (id: ChannelId): PickChannel => {
+      const c = byKey.get(channelKey(id));
+      const meta = findChannel(inv, id, ev.time);
+      const segments = (c?.segments ?? []).filter((g) => g.end >= from && g.start < to);
+      return { id, segments, azimuth: meta?.azimuth ?? null };
+    };
+    for (const site of ev.sites) {
+      const x = sites.get(site);
+      if (!x) continue;
+      const meta = findChannel(inv, x.vertical, ev.time);
+      let polarity: 1 | -1 = 1;
+      if (meta && meta.dip !== null && Math.abs(meta.dip) >= 60) {
+        polarity = verticalPolarity(meta.dip, meta.sensitivity?.value || 1);
+      }
+      pickSites.set(site, {
+        vertical: chan(x.vertical), polarity,
+        horizontals: x.horizontals ? [chan(x.horizontals[0]), chan(x.horizontals[1])] : null,
+      });
+    }
+    const picks = eventPicks(ev, pickSites, sosFor, s);
+    for (const p of picks) summary.picks[p.phaseHint]++;
+    qmlEvents.push(toQmlEvent(ev, picks));
+  }
+
+  // Output, atomically.
+  const xml = writeQuakeMl({ events: qmlEvents }, {
+    authority: a.authority, agencyId: a.agency, author: a.author, creationTime: Date.now() * 1000, version: 'daybreak scan 0.1',
+  });
+  bar?.done();
+  writeAtomically(a.out, xml);
+  summary.seconds = (performance.now() - t0) / 1000;
+  process.stdout.write(summaryText(summary, a.out));
+  return bad || summary.badRecords.length > 0 ? 1 : 0;
+}
+
+function pickComment(p: Pick): string {
+  const snr = Number.isFinite(p.snr) ? p.snr.toFixed(1) : 'inf';
+  return `SNR ${snr}${p.questionableTiming ? '; questionable timing (record flags)' : ''}`;
+}
+
+export function toQmlEvent(ev: CandidateEvent, picks: readonly Pick[]): QmlEvent {
+  return {
+    id: ev.id,
+    type: null,
+    typeCertainty: null,
+    comment: `automatic candidate: ${ev.sites.length} sites triggered (${ev.sites.join(' ')}), first at ${isoFromMicros(ev.time)}`,
+    picks: picks.map((p) => ({
+      id: pickId(ev.id, p),
+      waveformId: p.waveformId,
+      time: p.time,
+      lowerUncertainty: p.lowerUncertainty,
+      upperUncertainty: p.upperUncertainty,
+      phaseHint: p.phaseHint,
+      onset: p.onset,
+      polarity: p.phaseHint === 'P' ? (p.polarity ?? 'undecidable') : null,
+      evaluationMode: 'automatic',
+      evaluationStatus: 'preliminary',
+      comment: pickComment(p),
+    })),
+    origins: [],
+    preferredOriginId: null,
+  };
+}
+
+/** Writes `text` to a temporary file beside `path`, then renames it over `path` (never a half-written file). */
+export function writeAtomically(path: string, text: string): void {
+  const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
+  const cleanup = () => { try { unlinkSync(tmp); } catch { /* already gone */ } };
+  process.once('exit', cleanup);
+  try {
+    writeFileSync(tmp, text);
+    renameSync(tmp, path);
+  } catch (e) {
+    cleanup();
+    throw e;
+  } finally {
+    process.removeListener('exit', cleanup);
+  }
+}
+
+export function summaryText(sm: ScanSummary, out: string): string {
+  const lines: string[] = [];
+  lines.push(`daybreak scan: ${sm.candidates} candidate event${sm.candidates === 1 ? '' : 's'}, ${sm.picks.P} P and ${sm.picks.S} S picks written to ${out}`);
+  lines.push(`  files: ${sm.files} miniSEED read${sm.skippedFiles.length ? `, ${sm.skippedFiles.length} skipped` : ''}`);
+  lines.push(`  channels: ${sm.channels} with data, ${sm.skippedChannels.length} not used`);
+  lines.push(`  data: ${sm.hours.toFixed(2)} h per triggering channel`);
+  lines.push(`  time taken: ${duration(sm.seconds)}`);
+  for (const f of sm.skippedFiles) lines.push(`  skipped file ${f.path}: ${f.why}`);
+  for (const c of sm.skippedChannels) lines.push(`  not used ${c.id}: ${c.why}`);
+  for (const b of sm.badRecords.slice(0, 50)) lines.push(`  bad record ${b.path} byte ${b.offset}: ${b.reason}`);
+  if (sm.badRecords.length > 50) lines.push(`  ... and ${sm.badRecords.length - 50} more bad records`);
+  lines.push(`  ${CAUTION.split('\n').join(' ')}`);
+  return lines.join('\n') + '\n';
+}
