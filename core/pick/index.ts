@@ -17,3 +17,4 @@ export {
   coincidence, type CoincidenceOptions, DEFAULT_COINCIDENCE, idTime, siteDistanceKm, type SitePosition,
 } from './coincidence';
 export { chooseSiteStreams, type SiteStream } from './streams';
+export { LOCAL_EARTHQUAKE, NEAR_FIELD_MICROSEISMIC, type PickingPreset } from './presets';

@@ -11,9 +11,10 @@
  * [vpVsMin, vpVsMax] (default 1.5 to 2.0, spanning crustal rocks; 1.73 for a Poisson solid) and Tp in
  * [TpMin, TpMax]: S lies in [tP + (vpVsMin - 1) TpMin, tP + (vpVsMax - 1) TpMax]. Tp comes from an
  * origin-time estimate (Tp = tP - t0), from bounds the caller knows (network geometry), or else from
- * [0, maxPTravelTime]. The AIC window reaches a quarter of the span (at least 0.1 s) beyond both ends
- * so the curve has data on both sides, but never back to the P pick. The pick names the horizontal with
- * the higher SNR.
+ * [0, maxPTravelTime]. The AIC window starts a quarter of the span (at least 0.1 s) before the range,
+ * but never before the P pick, and ends just after the largest horizontal energy (N^2 + E^2) in the
+ * range: the onset comes before the maximum, and a coda dying into noise later in the range would
+ * otherwise be a change point as strong as S. The pick names the horizontal with the higher SNR.
  *
  * Rules (Daybreak's, documented here and in the tests):
  * - Uncertainty: the AIC minimum's width. The samples whose AIC lies within 2 tau of the minimum,
@@ -284,15 +285,30 @@ export function pickS(
   from = Math.max(from, 0, -shift);
   to = Math.min(to, north.samples.length, east.samples.length - shift);
   if (to - from < 16 || searchTo < from || searchFrom >= to) return null;
+  // The onset precedes the largest horizontal amplitude: the AIC window ends just after it, so a
+  // later drop of energy (a coda dying into noise) cannot pose as the change point.
+  const sn = north.samples;
+  const se = east.samples;
+  let peak = Math.max(searchFrom, from);
+  let peakEnergy = -1;
+  for (let i = peak, last = Math.min(searchTo, to - 1); i <= last; i++) {
+    const v = sn[i] * sn[i] + se[i + shift] * se[i + shift];
+    if (v > peakEnergy) {
+      peakEnergy = v;
+      peak = i;
+    }
+  }
+  to = Math.min(to, peak + Math.max(8, Math.round(0.1 * margin * fs)) + 1);
+  if (to - from < 16) return null;
   const n = to - from;
-  const xn = north.samples.subarray(from, to);
-  const xe = east.samples.subarray(from + shift, to + shift);
+  const xn = sn.subarray(from, to);
+  const xe = se.subarray(from + shift, to + shift);
   const res = jointAic([xn, xe], 0, n);
-  // Minimum restricted to the search range.
+  // Minimum restricted to the search range, up to the peak.
   let k = -1;
   let best = Infinity;
   const k0 = Math.max(2, searchFrom - from);
-  const k1 = Math.min(n - 2, searchTo - from);
+  const k1 = Math.min(n - 2, searchTo - from, peak - from);
   for (let j = k0; j <= k1; j++) {
     if (res.aic[j] < best) {
       best = res.aic[j];

@@ -21,8 +21,8 @@
  * history - in the classic form the ring's unfilled slots hold it, in the recursive form the average
  * simply continues with coefficient 1/Nl. So the LTA neither starts from zero (which makes the ratio
  * huge) nor waits a whole LTA window (which blinds it), and an arrival 2 s into the record is not
- * swallowed by an LTA that would still be averaging over 2 s only. No trigger is declared before the
- * seed is complete. With the defaults (1 s warm-up, 0.5 s STA) a trigger can come from a P 1 s or more
+ * swallowed by an LTA that would still be averaging over 2 s only. No trigger is declared before
+ * max(S, warmUp) has passed. With the defaults (1 s warm-up, 0.5 s STA) a trigger can come from a P 1 s or more
  * after a record's start.
  *
  * Spikes (Daybreak's design): with `despike` the CF is replaced by the median of its last three values
@@ -448,6 +448,8 @@ export class StaLtaDetector {
   readonly options: StaLtaOptions;
   private readonly ratio: StaLtaRatio;
   private readonly periodMicros: number;
+  /** Samples after a restart before a trigger may start: the seed, or warmUp if longer. */
+  private readonly quiet: number;
   private buf = new Float64Array(0);
   private started = false;
   private expectedNext: Micros = 0;
@@ -464,6 +466,7 @@ export class StaLtaDetector {
     this.id = id;
     this.sampleRate = sampleRate;
     this.periodMicros = 1e6 / sampleRate;
+    this.quiet = Math.max(this.ratio.seed, Math.round(this.options.warmUp * sampleRate));
   }
 
   /** The ratio computed for the last chunk pushed (a view, overwritten by the next push). */
@@ -494,7 +497,7 @@ export class StaLtaDetector {
     const off = this.options.triggerOff;
     const per = 1e6 / this.sampleRate;
     // First index in this chunk at which triggers are allowed.
-    let i = Math.max(0, this.ratio.seed - countBefore);
+    let i = Math.max(0, this.quiet - countBefore);
     while (i < n) {
       if (!this.open) {
         while (i < n && !(r[i] >= on)) i++;
