@@ -61,6 +61,23 @@ function rms(x: Float64Array, n: number): number {
   return Math.sqrt(s / Math.max(1, n));
 }
 
+/**
+ * The instrument's gain (counts per m/s) when it is flat within 1 % from `lo` to `hi` Hz, else null.
+ * Seismometer inputs only (an accelerometer sees the derivative of velocity).
+ */
+export function flatGain(inst: Instrument, lo: number, hi: number): number | null {
+  if (inst.inputUnits !== 'm/s') return null;
+  const scale = normalizationFactor(inst.poles, inst.zeros, inst.normalizationHz) * sensitivity(inst);
+  const ref = sensitivity(inst);
+  for (let f = lo; f <= hi * 1.0001; f *= 1.25) {
+    const r = polesZerosRatio(inst.poles, inst.zeros, f);
+    if (Math.abs((Math.hypot(r.re, r.im) * scale) / ref - 1) > 0.01) return null;
+  }
+  const r = polesZerosRatio(inst.poles, inst.zeros, hi);
+  if (Math.abs((Math.hypot(r.re, r.im) * scale) / ref - 1) > 0.01) return null;
+  return ref;
+}
+
 /** Rate at which the microseism is generated before linear interpolation to the channel's rate, Hz. */
 const MICROSEISM_RATE = 5;
 /** Samples used to measure the site band's RMS before scaling it. */
@@ -69,8 +86,8 @@ const RMS_PREFIX = 200_000;
 /**
  * `length` samples of the channel's noise, counts (floating point).
  *
- * For speed the site band and the instrument run as one cascade of sections over one white series,
- * and the level factor is applied after the instrument (it changes over minutes, far slower than any
+ * For speed the site band and the instrument run as one cascade of sections over one white series
+ * (an instrument flat over the band, such as a broadband seismometer, as its gain alone), and the level factor is applied after the instrument (it changes over minutes, far slower than any
  * instrument time constant that matters at these frequencies). The microseism is generated at 5 Hz,
  * scaled by the instrument's gain at 0.2 Hz and interpolated linearly.
  */
@@ -87,10 +104,16 @@ export function channelNoise(spec: NoiseSpec, length: number): Float64Array {
   const m = Math.min(length, RMS_PREFIX);
   const probe = sosfilt(band, out.subarray(0, m));
   const siteScale = spec.siteMs / (rms(probe, m) || 1);
-  const cascade = new Float64Array(band.length + inst.length);
-  cascade.set(band);
-  cascade.set(inst, band.length);
+  // An instrument flat (within 1 %) over the site band is applied as its gain alone.
+  const flat = flatGain(spec.instrument, lo, Math.min(hi, 0.45 * fs));
+  let cascade = band;
+  if (flat === null) {
+    cascade = new Float64Array(band.length + inst.length);
+    cascade.set(band);
+    cascade.set(inst, band.length);
+  }
   sosfilt(cascade, out, { out });
+  const siteGain = flat ?? 1;
   // Microseism at a low rate, in counts via the instrument's gain at 0.2 Hz.
   const dec = fs / MICROSEISM_RATE;
   const nLow = Math.ceil(length / dec) + 2;
@@ -104,14 +127,24 @@ export function channelNoise(spec: NoiseSpec, length: number): Float64Array {
   const perSec = Math.round(fs);
   const levels = spec.levelPerSecond;
   const lastLevel = levels.length - 1;
+  const step = 1 / dec;
   for (let s = 0, i = 0; i < length; s++) {
-    const g = siteScale * levels[s < lastLevel ? s : lastLevel];
+    const g = siteScale * siteGain * levels[s < lastLevel ? s : lastLevel];
     const stop = Math.min(length, i + perSec);
+    // Linear interpolation of the microseism, walking its samples rather than dividing per sample.
+    let k = Math.floor(i / dec);
+    let f = i / dec - k;
+    let a = low[k] * microScale, d = (low[k + 1] - low[k]) * microScale;
     for (; i < stop; i++) {
-      const p = i / dec;
-      const k = Math.floor(p);
-      const f = p - k;
-      out[i] = out[i] * g + (low[k] + f * (low[k + 1] - low[k])) * microScale;
+      out[i] = out[i] * g + a + f * d;
+      f += step;
+      if (f >= 1 - 1e-9) {
+        f -= 1;
+        if (f < 0) f = 0;
+        k++;
+        a = low[k] * microScale;
+        d = (low[k + 1] - low[k]) * microScale;
+      }
     }
   }
   if (spec.selfNoiseCounts > 0) {

@@ -346,7 +346,10 @@ function quantize(x: Float64Array, clip: number, samples: Int32Array, clippedAt:
     if (v >= clip || v <= -clip) {
       if (clippedAt.length < 1000) clippedAt.push(i);
       samples[i] = v > 0 ? clip : -clip;
-    } else samples[i] = Math.round(v);
+    } else {
+      // Round half away from zero; |v| < 2^31 here, so | 0 truncates exactly.
+      samples[i] = v >= 0 ? (v + 0.5) | 0 : -((0.5 - v) | 0);
+    }
   }
 }
 
