@@ -1,0 +1,130 @@
+/**
+ * Picks of one candidate event: the traces of each member site are cut from the data read around the
+ * event, prepared (vertical polarity corrected, horizontals rotated to north and east from their
+ * azimuths, causal filter started from its steady state), and picked with core/pick: P by AIC on the
+ * vertical around the site's trigger, S by the joint AIC of the horizontals in the window a plausible
+ * Vp/Vs allows after that P.
+ *
+ * The S window at site i (Daybreak's rule): the origin time is not known yet, but it precedes the
+ * earliest P of the event, tP_first, by at most `firstTravelMax` seconds, so the P travel time at i lies
+ * in [tP_i - tP_first, tP_i - tP_first + firstTravelMax]; core/pick's sWindow turns that into S times.
+ *
+ * Only the data given is used, and every trace starts where the data read for the event starts, so an
+ * event's picks depend on the event and the files, never on how the night was cut into chunks.
+ */
+import type { ChannelId, Segment } from '../model';
+import { channelKey } from '../model';
+import type { Micros } from '../time';
+import { filterSegments } from '../dsp/filterSegments';
+import { rotateToNorthEast } from '../dsp/rotate';
+import { pickP, pickS, type CandidateEvent, type Pick, type Trace } from '../pick';
+import type { ScanSettings } from './settings';
+
+/** What is known of one channel of a site's stream for picking. */
+export interface PickChannel {
+  readonly id: ChannelId;
+  /** The channel's segments in the span read for the event. */
+  readonly segments: readonly Segment[];
+  /** Azimuth of the positive axis, degrees from north (horizontals), or null when unknown. */
+  readonly azimuth: number | null;
+}
+
+/** A site's stream as read for an event. */
+export interface PickSite {
+  readonly vertical: PickChannel;
+  /** +1, or -1 when the vertical's counts run against upward ground motion (dsp verticalPolarity). */
+  readonly polarity: 1 | -1;
+  /** First and second horizontal (N/E or 1/2), or null for a vertical-only site. */
+  readonly horizontals: readonly [PickChannel, PickChannel] | null;
+}
+
+function segmentAt(segments: readonly Segment[], t: Micros): Segment | null {
+  for (const s of segments) if (s.start <= t && t <= s.end) return s;
+  return null;
+}
+
+/** The vertical trace around t: the segment holding t, polarity applied, filtered causally. */
+export function verticalTrace(site: PickSite, sos: Float64Array, t: Micros): Trace | null {
+  const seg = segmentAt(site.vertical.segments, t);
+  if (!seg) return null;
+  const [y] = filterSegments(sos, [seg.samples]);
+  if (site.polarity === -1) for (let i = 0; i < y.length; i++) y[i] = -y[i];
+  return {
+    id: site.vertical.id, samples: y, sampleRate: seg.sampleRate, start: seg.start,
+    questionableTiming: seg.timing.questionableTimeRecords > 0,
+  };
+}
+
+/**
+ * North and east traces around t: the common span of the two horizontals' segments holding t, rotated
+ * (1/2 by their azimuths; N/E with unknown azimuths taken as 0 and 90), filtered causally. The
+ * returned traces carry the channel ids of the recorded horizontals (first, second).
+ */
+export function horizontalTraces(site: PickSite, sos: Float64Array, t: Micros): [Trace, Trace] | null {
+  if (!site.horizontals) return null;
+  const [c1, c2] = site.horizontals;
+  const s1 = segmentAt(c1.segments, t);
+  const s2 = segmentAt(c2.segments, t);
+  if (!s1 || !s2 || s1.sampleRate !== s2.sampleRate) return null;
+  const fs = s1.sampleRate;
+  const start = Math.max(s1.start, s2.start);
+  const i1 = Math.round(((start - s1.start) * fs) / 1e6);
+  const i2 = Math.round(((start - s2.start) * fs) / 1e6);
+  const n = Math.min(s1.samples.length - i1, s2.samples.length - i2);
+  if (n < 16) return null;
+  const isNE = c1.id.channel.endsWith('N') && c2.id.channel.endsWith('E');
+  const az1 = c1.azimuth ?? (isNE ? 0 : null);
+  const az2 = c2.azimuth ?? (isNE ? 90 : null);
+  if (az1 === null || az2 === null) return null;
+  const { north, east } = rotateToNorthEast(s1.samples.subarray(i1, i1 + n), s2.samples.subarray(i2, i2 + n), az1, az2);
+  const [yn, ye] = filterSegments(sos, [north, east]);
+  const q = s1.timing.questionableTimeRecords > 0 || s2.timing.questionableTimeRecords > 0;
+  const t0 = s1.start + Math.round((i1 * 1e6) / fs);
+  return [
+    { id: c1.id, samples: yn, sampleRate: fs, start: t0, questionableTiming: q },
+    { id: c2.id, samples: ye, sampleRate: fs, start: t0, questionableTiming: q },
+  ];
+}
+
+/**
+ * P and S picks of an event. `sites` maps "NET.STA" to the site's data; `sosFor` gives the filter
+ * sections for a sample rate (Hz). Picks come in the order of the event's triggers, P before S.
+ */
+export function eventPicks(
+  event: CandidateEvent, sites: ReadonlyMap<string, PickSite>, sosFor: (sampleRate: number) => Float64Array,
+  settings: ScanSettings,
+): Pick[] {
+  const ps: { site: string; pick: Pick }[] = [];
+  for (const trig of event.triggers) {
+    const key = `${trig.id.network}.${trig.id.station}`;
+    const site = sites.get(key);
+    if (!site) continue;
+    const seg = segmentAt(site.vertical.segments, trig.on);
+    if (!seg) continue;
+    const z = verticalTrace(site, sosFor(seg.sampleRate), trig.on);
+    if (!z) continue;
+    const p = pickP(z, trig.on, settings.onset);
+    if (p) ps.push({ site: key, pick: p });
+  }
+  if (ps.length === 0) return [];
+  const first = Math.min(...ps.map((x) => x.pick.time));
+  const out: Pick[] = [];
+  for (const { site: key, pick: p } of ps) {
+    out.push(p);
+    const site = sites.get(key) as PickSite;
+    if (!site.horizontals) continue;
+    const seg = segmentAt(site.horizontals[0].segments, p.time);
+    if (!seg) continue;
+    const h = horizontalTraces(site, sosFor(seg.sampleRate), p.time);
+    if (!h) continue;
+    const tp = (p.time - first) / 1e6;
+    const s = pickS(h[0], h[1], p.time, { ...settings.sWindow, pTravelTime: { min: tp, max: tp + settings.firstTravelMax } }, settings.onset);
+    if (s) out.push(s);
+  }
+  return out;
+}
+
+/** A pick's identifier within its event: "EVENT.NET.STA.LOC.CHA.P". */
+export function pickId(eventId: string, p: Pick): string {
+  return `${eventId}.${channelKey(p.waveformId)}.${p.phaseHint}`;
+}
