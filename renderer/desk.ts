@@ -15,10 +15,11 @@ import { drawPicks, hitPick, type PickMarks } from './picks/pickLayer';
 import { openReview, ReviewSaver } from './data/reviewSync';
 import {
   History, acceptAutomatic, addEvent, deletePick, movePick, placePick, setPickAttributes, setState, setUncertainty,
-  setEventType, EVENT_TYPES, REVIEW_STATES, reviewToCsv, reviewToQuakeMl, type ReviewDocument, type ReviewEvent, type EventType,
+  setEventType, EVENT_TYPES, REVIEW_STATES, reviewToCsv, reviewToQuakeMl, mergeCandidates, type ReviewDocument, type ReviewEvent, type EventType,
   type ReviewState,
 } from '../core/review';
 import { microsFromIso } from '../core/time';
+import { readQuakeMl } from '../core/quakeml';
 import { KEY_MAP, actionForKey, type KeyAction } from './keys';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
@@ -162,7 +163,17 @@ export class Desk {
     });
     const exportButton = el('button', { title: 'Write the review as QuakeML 1.2 and a CSV of picks beside the review file' }, 'Export QuakeML + CSV');
     exportButton.addEventListener('click', () => void this.exportAll());
-    this.eventList.root.append(el('div', { className: 'event-list-foot' }, exportButton));
+    const foot = el('div', { className: 'event-list-foot' });
+    const qml = this.session.dataset.files.filter((f) => f.kind === 'quakeml');
+    if (qml.length) {
+      const pickFile = el('select', { title: 'QuakeML files in the data folder (e.g. written overnight by daybreak scan)' },
+        ...qml.map((f) => el('option', { value: f.path }, f.path)));
+      const load = el('button', { title: 'Add the events of this QuakeML file to the review (events already worked on are left as they are)' }, 'Load candidates');
+      load.addEventListener('click', () => void this.loadCandidates(pickFile.value));
+      foot.append(el('div', { className: 'load-row' }, pickFile, load));
+    }
+    foot.append(exportButton);
+    this.eventList.root.append(foot);
     const work = el('div', { className: 'desk-work' }, this.eventList.root, this.sheetHost);
     this.root.replaceChildren(overviewHost, this.banner, work, this.status);
     this.sheetHost.insertBefore(this.eventBar, this.sheetHost.children[1]);
@@ -500,6 +511,23 @@ export class Desk {
     }
     if (this.helpDialog.open) this.helpDialog.close();
     else this.helpDialog.showModal();
+  }
+
+  /** Merges the events of a QuakeML file of the dataset into the review. */
+  async loadCandidates(path: string): Promise<void> {
+    const r = await this.host.call('file.read', { root: this.session.dataset.root, path });
+    if (!r.ok) { this.setStatus(`could not read ${path}: ${r.message}`); return; }
+    let events;
+    try {
+      events = readQuakeMl(new TextDecoder().decode(r.value), path).events;
+    } catch (e) {
+      this.setStatus(e instanceof Error ? e.message : String(e));
+      return;
+    }
+    let summary = '';
+    if (this.apply((d) => { const m = mergeCandidates(d, events); summary = `${m.added} added, ${m.refreshed} refreshed, ${m.keptAsReviewed} already worked on and left as they were`; return m.doc; })) {
+      this.setStatus(`${path}: ${events.length} events \u2014 ${summary}`);
+    }
   }
 
   /** Writes the review as QuakeML and CSV through the host; returns the paths written. */

@@ -3,3 +3,4 @@ export * from './types';
 export * from './edits';
 export * from './format';
 export * from './export';
+export * from './candidates';

@@ -1,0 +1,45 @@
+import { describe, expect, it } from 'vitest';
+import { EMPTY_REVIEW, mergeCandidates, movePick, setState } from '../../../core/review';
+import type { QmlEvent } from '../../../core/quakeml';
+import { microsFromIso } from '../../../core/time';
+
+const T = (s: string) => microsFromIso(`2026-11-14T20:41:${s}Z`);
+
+function candidate(id: string, times: [string, string, 'P' | 'S'][]): QmlEvent {
+  return {
+    id, type: null, typeCertainty: null, origins: [], preferredOriginId: null,
+    picks: times.map(([sta, t, phase], i) => ({
+      id: `p${i}`, waveformId: { network: 'XX', station: sta, location: '00', channel: phase === 'P' ? 'HHZ' : 'HHN' },
+      time: T(t), lowerUncertainty: 0.03, upperUncertainty: 0.04, phaseHint: phase, onset: 'impulsive', polarity: phase === 'P' ? 'positive' : null,
+      evaluationMode: 'automatic', evaluationStatus: 'preliminary', comment: 'snr 12.5',
+    })),
+  };
+}
+
+describe('mergeCandidates', () => {
+  it('adds new candidates as events to do, spanning their picks with margins', () => {
+    const r = mergeCandidates(EMPTY_REVIEW, [candidate('ev-a', [['BRAE', '19.87', 'P'], ['CALD', '21.00', 'P'], ['BRAE', '23.50', 'S']])]);
+    expect(r.added).toBe(1);
+    const ev = r.doc.events[0];
+    expect(ev).toMatchObject({ id: 'ev-a', source: 'detector', state: 'todo', start: T('19.87') - 20e6, end: T('23.50') + 40e6 });
+    expect(ev.picks.map((p) => [p.channel, p.mode, p.snr])).toEqual([['XX.BRAE.00.HHZ', 'automatic', 12.5], ['XX.CALD.00.HHZ', 'automatic', 12.5], ['XX.BRAE.00.HHN', 'automatic', 12.5]]);
+  });
+
+  it('refreshes an untouched event after a re-scan with late data, keeping its identity', () => {
+    const first = mergeCandidates(EMPTY_REVIEW, [candidate('ev-a', [['BRAE', '19.87', 'P']])]).doc;
+    const again = mergeCandidates(first, [candidate('ev-a', [['BRAE', '19.86', 'P'], ['DUNM', '22.10', 'P']])]);
+    expect(again.refreshed).toBe(1);
+    expect(again.doc.events).toHaveLength(1);
+    expect(again.doc.events[0].picks.map((p) => p.time)).toEqual([T('19.86'), T('22.10')]);
+  });
+
+  it('leaves an event the analyst has worked on exactly as it is', () => {
+    let doc = mergeCandidates(EMPTY_REVIEW, [candidate('ev-a', [['BRAE', '19.87', 'P']])]).doc;
+    doc = movePick(doc, 'ev-a', doc.events[0].picks[0].id, T('19.90'));
+    doc = setState(doc, 'ev-a', 'done');
+    const before = doc.events[0];
+    const r = mergeCandidates(doc, [candidate('ev-a', [['BRAE', '19.80', 'P'], ['CALD', '21.0', 'P']]), candidate('ev-b', [['CALD', '40.0', 'P']])]);
+    expect(r).toMatchObject({ added: 1, refreshed: 0, keptAsReviewed: 1 });
+    expect(r.doc.events.find((e) => e.id === 'ev-a')).toBe(before);
+  });
+});
