@@ -7,10 +7,13 @@
  * - Data: P and S pick times, each weighted by 1 / sigma^2 with sigma its stated 1-sigma timing
  *   uncertainty; picks whose time tag is questionable get sigma x QUESTIONABLE_FACTOR (or are left
  *   out, as the caller chooses); picks marked not used only get a residual.
- * - Start: grid search over a box around the stations (the network's box plus a margin) and a set of
- *   depths, with times from a precomputed table (travelTimeTable.ts; station elevation added as a
- *   vertical path through the top layer), origin time the weighted median of the observed-minus-
- *   computed times and misfit the weighted L1 norm, so one wild pick cannot steer the start.
+ * - Starts: grid search over a box around the stations (grown for events outside the network) and
+ *   a set of depths, with times from a precomputed table scaled to the box (travelTimeTable.ts;
+ *   station elevation added as a vertical path through the top layer), origin time the weighted
+ *   median of the observed-minus-computed times and misfit the weighted L1 norm, so one wild pick
+ *   cannot steer the start. The best nodes at the three best-fitting depths are each refined and
+ *   iterated from; the converged solution with the lowest misfit wins (first-arrival misfits have
+ *   kinks where the first phase changes and at interfaces, which can hold one local search).
  * - Iteration: the weighted Jacobian G (rows [1, dT/de, dT/dn, dT/dz] / sigma) is decomposed by SVD
  *   (ml-matrix) and the step is the damped solution sum_j v_j s_j / (s_j^2 + lambda^2) (u_j . r);
  *   lambda is adapted Levenberg-Marquardt fashion (by the ratio of the actual to the predicted
@@ -136,6 +139,7 @@ export interface Hypocentre {
   gapDeg: number;
   phaseCount: number;
   stationCount: number;
+  /** Geiger iterations, summed over the starts tried. */
   iterations: number;
   /** One per input pick, in input order. */
   arrivals: ArrivalResidual[];
@@ -214,12 +218,11 @@ export function locate(stations: readonly LocationStation[], picks: readonly Loc
   if (!(minDepth < maxDepth)) throw new RangeError(`minDepthKm (${minDepth}) must be below maxDepthKm (${maxDepth})`);
   const zFixed = fixed ? (options.fixedDepthKm as number) : NaN;
 
-  // ---- start: grid search
-  const start = gridStart(model, idx, picks, se, sn, sz, obs, sigma, fixed ? [zFixed] : null, minDepth, maxDepth);
+  // ---- starts: grid search (the best node at each of up to three depths)
+  const starts = gridStarts(model, idx, picks, se, sn, sz, obs, sigma, fixed ? [zFixed] : null, minDepth, maxDepth);
 
-  // ---- Geiger iterations (Levenberg-Marquardt damped SVD steps)
+  // ---- Geiger iterations (Levenberg-Marquardt damped SVD steps) from each start; the lowest misfit wins
   const np = fixed ? 3 : 4;
-  const par = [start.t0, start.e, start.n, fixed ? zFixed : start.z];
   const tt: TravelTime = { time: 0, phase: '', takeoffDeg: 0, incidenceDeg: 0, slownessH: 0, dTdDepth: 0 };
   const J = new Matrix(m, np);
   const rw = new Float64Array(m);
@@ -245,82 +248,100 @@ export function locate(stations: readonly LocationStation[], picks: readonly Loc
     return chi2;
   };
   const limitKm = 2000;
-  let chi2 = evaluate(par, true);
-  let mu = 1e-3;
-  let converged = false;
-  let stalls = 0;
-  let iterations = 0;
   const trial = [0, 0, 0, 0];
   const ur = new Float64Array(np);
-  for (; iterations < maxIterations && !converged; iterations++) {
-    const svd = new SingularValueDecomposition(J, { autoTranspose: true });
-    const s = svd.diagonal;
-    const U = svd.leftSingularVectors;
-    const V = svd.rightSingularVectors;
-    const smax = s[0];
-    for (let j = 0; j < np; j++) {
-      let a = 0;
-      for (let k = 0; k < m; k++) a += U.get(k, j) * rw[k];
-      ur[j] = a;
-    }
-    let accepted = false;
-    while (!accepted) {
-      const lam2 = mu * smax * smax;
-      // misfit decrease the linearised problem predicts for this step: sum ur_j^2 (1 - (lam2 / (s_j^2 + lam2))^2)
-      let predicted = 0;
-      for (let q = 0; q < 4; q++) trial[q] = par[q];
+  /** Iterates from a start; returns the end point, its misfit, and whether it converged or ran off. */
+  const iterate = (start: Start): { par: number[]; chi2: number; converged: boolean; ranOff: boolean; iterations: number } => {
+    const par = [start.t0, start.e, start.n, fixed ? zFixed : start.z];
+    let chi2 = evaluate(par, true);
+    let mu = 1e-3;
+    let converged = false;
+    let stalls = 0;
+    let iterations = 0;
+    for (; iterations < maxIterations && !converged; iterations++) {
+      const svd = new SingularValueDecomposition(J, { autoTranspose: true });
+      const s = svd.diagonal;
+      const U = svd.leftSingularVectors;
+      const V = svd.rightSingularVectors;
+      const smax = s[0];
       for (let j = 0; j < np; j++) {
-        const f = lam2 / (s[j] * s[j] + lam2);
-        predicted += ur[j] * ur[j] * (1 - f * f);
+        let a = 0;
+        for (let k = 0; k < m; k++) a += U.get(k, j) * rw[k];
+        ur[j] = a;
       }
-      for (let q = 0; q < np; q++) {
-        let d = 0;
-        for (let j = 0; j < np; j++) d += V.get(q, j) * (s[j] / (s[j] * s[j] + lam2)) * ur[j];
-        trial[q] += d;
-      }
-      if (!fixed) trial[3] = Math.min(maxDepth, Math.max(minDepth, trial[3]));
-      const stepT = Math.abs(trial[0] - par[0]);
-      const stepPos = Math.max(Math.abs(trial[1] - par[1]), Math.abs(trial[2] - par[2]), Math.abs(trial[3] - par[3]));
-      if (!(Math.hypot(trial[1], trial[2]) < limitKm) || !Number.isFinite(trial[0])) {
-        return { ok: false, code: 'did-not-converge', message: `the solution ran off beyond ${limitKm} km from the network after ${iterations + 1} iterations` };
-      }
-      const c2 = evaluate(trial, false);
-      if (c2 <= chi2) {
-        // Gain ratio (actual over predicted decrease) steers the damping (Levenberg-Marquardt, as in
-        // Madsen, Nielsen & Tingleff 2004, Methods for non-linear least squares problems, section 3.2; from memory).
-        const rho = predicted > 0 ? (chi2 - c2) / predicted : 1;
-        if (rho > 0.75) mu = Math.max(mu / 3, 1e-15);
-        else if (rho < 0.25) mu *= 2;
-        const gain = chi2 - c2;
-        for (let q = 0; q < 4; q++) par[q] = trial[q];
-        chi2 = c2;
-        accepted = true;
-        if (stepPos < 1e-6 && stepT < 1e-6) converged = true;
-        // Creeping: five steps in a row that each lower the misfit by under 1e-9 of itself.
-        stalls = gain <= 1e-9 * chi2 ? stalls + 1 : 0;
-        if (stalls >= 5) converged = true;
-      } else {
-        mu *= 10;
-        if (mu > 1e15) {
-          // No step lowers the misfit any more: a minimum to machine precision.
-          converged = true;
-          break;
+      let accepted = false;
+      while (!accepted) {
+        const lam2 = mu * smax * smax;
+        // misfit decrease the linearised problem predicts for this step: sum ur_j^2 (1 - (lam2 / (s_j^2 + lam2))^2)
+        let predicted = 0;
+        for (let q = 0; q < 4; q++) trial[q] = par[q];
+        for (let j = 0; j < np; j++) {
+          const f = lam2 / (s[j] * s[j] + lam2);
+          predicted += ur[j] * ur[j] * (1 - f * f);
+        }
+        for (let q = 0; q < np; q++) {
+          let d = 0;
+          for (let j = 0; j < np; j++) d += V.get(q, j) * (s[j] / (s[j] * s[j] + lam2)) * ur[j];
+          trial[q] += d;
+        }
+        if (!fixed) trial[3] = Math.min(maxDepth, Math.max(minDepth, trial[3]));
+        const stepT = Math.abs(trial[0] - par[0]);
+        const stepPos = Math.max(Math.abs(trial[1] - par[1]), Math.abs(trial[2] - par[2]), Math.abs(trial[3] - par[3]));
+        if (!(Math.hypot(trial[1], trial[2]) < limitKm) || !Number.isFinite(trial[0])) {
+          return { par, chi2, converged: false, ranOff: true, iterations: iterations + 1 };
+        }
+        const c2 = evaluate(trial, false);
+        if (c2 <= chi2) {
+          // Gain ratio (actual over predicted decrease) steers the damping (Levenberg-Marquardt, as in
+          // Madsen, Nielsen & Tingleff 2004, Methods for non-linear least squares problems, section 3.2; from memory).
+          const rho = predicted > 0 ? (chi2 - c2) / predicted : 1;
+          if (rho > 0.75) mu = Math.max(mu / 3, 1e-15);
+          else if (rho < 0.25) mu *= 2;
+          const gain = chi2 - c2;
+          for (let q = 0; q < 4; q++) par[q] = trial[q];
+          chi2 = c2;
+          accepted = true;
+          if (stepPos < 1e-6 && stepT < 1e-6) converged = true;
+          // Creeping: five steps in a row that each lower the misfit by under 1e-9 of itself.
+          stalls = gain <= 1e-9 * chi2 ? stalls + 1 : 0;
+          if (stalls >= 5) converged = true;
+        } else {
+          mu *= 10;
+          if (mu > 1e15) {
+            // No step lowers the misfit any more: a minimum to machine precision.
+            converged = true;
+            break;
+          }
         }
       }
+      chi2 = evaluate(par, true);
     }
-    chi2 = evaluate(par, true);
+    return { par, chi2, converged, ranOff: false, iterations };
+  };
+  let best: ReturnType<typeof iterate> | null = null;
+  let firstFailure: ReturnType<typeof iterate> | null = null;
+  let iterations = 0;
+  for (const st of starts) {
+    const r = iterate(st);
+    iterations += r.iterations;
+    if (r.converged && (best === null || r.chi2 < best.chi2)) best = r;
+    if (!r.converged && firstFailure === null) firstFailure = r;
   }
-  if (!converged) {
-    const rms = Math.sqrt(idx.reduce((a, i) => {
-      const d = Math.hypot(par[1] - se[i], par[2] - sn[i]);
-      const r = obs[i] - par[0] - firstArrivalInto(tt, model, picks[i].wave, d, par[3], sz[i]).time;
-      return a + r * r;
-    }, 0) / m);
+  if (best === null) {
+    const f = firstFailure as ReturnType<typeof iterate>;
+    evaluate(f.par, false);
+    let sumR2 = 0;
+    for (let k = 0; k < m; k++) sumR2 += (rw[k] * sigma[idx[k]]) ** 2;
+    if (f.ranOff) {
+      return { ok: false, code: 'did-not-converge', message: `the solution ran off beyond ${limitKm} km from the network after ${f.iterations} iterations` };
+    }
     return {
       ok: false, code: 'did-not-converge',
-      message: `no convergence in ${maxIterations} iterations (still moving ${Math.hypot(par[1], par[2]).toFixed(2)} km from the network's centre, depth ${par[3].toFixed(2)} km, RMS ${rms.toFixed(3)} s)`,
+      message: `no convergence in ${maxIterations} iterations (still moving ${Math.hypot(f.par[1], f.par[2]).toFixed(2)} km from the network's centre, depth ${f.par[3].toFixed(2)} km, RMS ${Math.sqrt(sumR2 / m).toFixed(3)} s)`,
     };
   }
+  const par = best.par;
+  const chi2 = evaluate(par, true); // also leaves J at the solution
 
   // ---- errors from the undamped SVD at the solution
   const svd = new SingularValueDecomposition(J, { autoTranspose: true });
@@ -422,7 +443,7 @@ export function azimuthalGapDeg(azimuths: readonly number[]): number {
   return gap;
 }
 
-interface Start { t0: number; e: number; n: number; z: number }
+interface Start { t0: number; e: number; n: number; z: number; misfit: number }
 
 /** The used phases laid out flat for the grid search's inner loop. */
 interface GridContext {
@@ -438,13 +459,15 @@ interface GridContext {
  * Coarse grid search. The box is the stations' box with a margin of half its size (at least 2 km);
  * the depths are the start table's within [minDepth, maxDepth] (or the fixed depth). Stage 1: 13 x 13
  * epicentres at every third depth; when the best lies on the box's edge the box is tripled and
- * searched again (at most three times: events outside the network). Stage 2: 7 x 7 at a third of that
- * spacing around the best, at the depths near it. The table's distance scale follows the box (so a
- * mine's network gets metre steps). Station elevations are allowed for as a vertical path through
- * the top layer.
+ * searched again (at most three times: events outside the network). Stage 2, for each of the three
+ * depths whose best node fits best: 7 x 7 at a third of that spacing around that node, at the depths
+ * near it. Several starts, because first-arrival misfits have kinks (where the first phase changes,
+ * and at interfaces) that can hold a local search in a false minimum. The table's distance scale
+ * follows the box (so a mine's network gets metre steps). Station elevations are allowed for as a
+ * vertical path through the top layer.
  */
-function gridStart(model: VelocityModel, idx: number[], picks: readonly LocationPick[], se: Float64Array, sn: Float64Array, sz: Float64Array,
-  obs: Float64Array, sigma: Float64Array, depths: number[] | null, minDepth: number, maxDepth: number): Start {
+function gridStarts(model: VelocityModel, idx: number[], picks: readonly LocationPick[], se: Float64Array, sn: Float64Array, sz: Float64Array,
+  obs: Float64Array, sigma: Float64Array, depths: number[] | null, minDepth: number, maxDepth: number): Start[] {
   const m = idx.length;
   let e0 = Infinity;
   let e1 = -Infinity;
@@ -457,7 +480,7 @@ function gridStart(model: VelocityModel, idx: number[], picks: readonly Location
   const ce = 0.5 * (e0 + e1);
   const cn = 0.5 * (n0 + n1);
   let half = 0.5 * Math.max(e1 - e0, n1 - n0) + Math.max(2, 0.5 * Math.max(e1 - e0, n1 - n0));
-  let best: Start = { t0: 0, e: ce, n: cn, z: 0 };
+  let perDepth: Start[] = [];
   let c: GridContext | null = null;
   let all: number[] = [];
   for (let round = 0; round < 4; round++) {
@@ -482,19 +505,25 @@ function gridStart(model: VelocityModel, idx: number[], picks: readonly Location
     all = depths ?? [...tabP.depthsKm].filter((z) => z >= minDepth && z <= maxDepth);
     if (all.length === 0) all.push(Math.max(minDepth, Math.min(maxDepth, 0)));
     const coarse = all.length <= 3 ? all : all.filter((_, i) => i % 3 === 1);
-    best = searchGrid(c, ce - half, ce + half, cn - half, cn + half, 13, coarse);
+    perDepth = searchGrid(c, ce - half, ce + half, cn - half, cn + half, 13, coarse).sort((x, y) => x.misfit - y.misfit);
+    const best = perDepth[0];
     const onEdge = Math.abs(Math.abs(best.e - ce) - half) < 1e-9 * half || Math.abs(Math.abs(best.n - cn) - half) < 1e-9 * half;
     if (!onEdge) break;
     half *= 3;
   }
   const h = (2 * half) / 12;
-  const k = all.indexOf(best.z);
-  const near = all.filter((_, i) => Math.abs(i - k) <= 2);
-  return searchGrid(c as GridContext, best.e - h, best.e + h, best.n - h, best.n + h, 7, near);
+  const starts: Start[] = [];
+  for (const cand of perDepth.slice(0, 3)) {
+    const k = all.indexOf(cand.z);
+    const near = all.filter((_, i) => Math.abs(i - k) <= 2);
+    const refined = searchGrid(c as GridContext, cand.e - h, cand.e + h, cand.n - h, cand.n + h, 7, near).sort((x, y) => x.misfit - y.misfit)[0];
+    if (!starts.some((x) => x.e === refined.e && x.n === refined.n && x.z === refined.z)) starts.push(refined);
+  }
+  return starts;
 }
 
-/** Best node of an N x N x depths grid by weighted L1 misfit, its origin time the weighted median. */
-function searchGrid(c: GridContext, e0: number, e1: number, n0: number, n1: number, N: number, zs: readonly number[]): Start {
+/** The best node at each depth of an N x N x depths grid by weighted L1 misfit, origin time the weighted median. */
+function searchGrid(c: GridContext, e0: number, e1: number, n0: number, n1: number, N: number, zs: readonly number[]): Start[] {
   const { m, e: se, n: sn, obs, w, delay, isP, tabP, tabS, d, order } = c;
   const nx = tabP.nDistances;
   const step = tabP.distanceStepKm;
@@ -502,9 +531,9 @@ function searchGrid(c: GridContext, e0: number, e1: number, n0: number, n1: numb
   const ts = tabS.times;
   let wsum = 0;
   for (let k = 0; k < m; k++) wsum += w[k];
-  let best: Start = { t0: 0, e: 0.5 * (e0 + e1), n: 0.5 * (n0 + n1), z: zs[0] };
-  let bestMisfit = Infinity;
+  const out: Start[] = [];
   for (const z of zs) {
+    let best: Start = { t0: 0, e: 0.5 * (e0 + e1), n: 0.5 * (n0 + n1), z, misfit: Infinity };
     // the depth rows bracketing z and the weight of the lower one (same layout in both tables)
     const dz = tabP.depthsKm;
     let iz = 0;
@@ -541,12 +570,10 @@ function searchGrid(c: GridContext, e0: number, e1: number, n0: number, n1: numb
         }
         let misfit = 0;
         for (let k = 0; k < m; k++) misfit += w[k] * Math.abs(d[k] - t0);
-        if (misfit < bestMisfit) {
-          bestMisfit = misfit;
-          best = { t0, e, n: nn, z };
-        }
+        if (misfit < best.misfit) best = { t0, e, n: nn, z, misfit };
       }
     }
+    out.push(best);
   }
-  return best;
+  return out;
 }

@@ -85,6 +85,28 @@ describe('geiger', () => {
     expect(res.value.gapDeg).toBeGreaterThan(180);
   });
 
+  it('finds events well outside the network whose misfit has false minima: shallow 50 km off, regional 230 km off (head waves first)', () => {
+    // A five-layer crust (invented for the test) where a single local search from the best grid node
+    // stalls: at the 3 km interface for the shallow event, below the Moho for the regional one.
+    const crust = checkVelocityModel([[0, 5.0], [3, 5.9], [12, 6.3], [24, 6.8], [32, 8.05]].map(([topKm, vp]) => ({ topKm, vp, vs: vp / 1.73 })), 'five layers');
+    const synth = (t: Truth): LocationPick[] => STATIONS.flatMap((s) => (['P', 'S'] as const).map((w) => ({
+      stationKey: s.key, wave: w, uncertaintyS: w === 'P' ? 0.05 : 0.1,
+      time: T0 + Math.round(firstArrival(crust, w, vincentyKm(t.lat, t.lon, s.latDeg, s.lonDeg), t.depth, s.elevKm).time * 1e6),
+    })));
+    const shallow = { lat: 46.1, lon: 8.62, depth: 2.6 };
+    const a = locate(STATIONS, synth(shallow), { model: crust });
+    if (!a.ok) throw new Error(a.message);
+    expect(miss(a.value.latDeg, a.value.lonDeg, shallow) * 1000).toBeLessThan(10);
+    expect(Math.abs(a.value.depthKm - shallow.depth) * 1000).toBeLessThan(10);
+    const regional = { lat: 44.0, lon: 7.4, depth: 12 };
+    const b = locate(STATIONS, synth(regional), { model: crust });
+    if (!b.ok) throw new Error(b.message);
+    expect(b.value.arrivals.every((x) => x.phase === x.wave + 'n')).toBe(true);
+    expect(miss(b.value.latDeg, b.value.lonDeg, regional)).toBeLessThan(0.2);
+    expect(Math.abs(b.value.depthKm - regional.depth)).toBeLessThan(0.3);
+    expect(b.value.rmsS).toBeLessThan(0.001);
+  });
+
   it('the 68 % ellipse covers the true epicentre in 68 % of trials with Gaussian pick errors (200 trials, within +-10 %)', () => {
     // With errors drawn at the stated sigmas the a-priori covariance is the right one, so the true
     // epicentre falls inside the ellipse with probability 0.6827 (to linearisation). 200 trials give
