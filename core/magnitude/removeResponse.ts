@@ -13,6 +13,7 @@
  *    that level keeping its phase (phase 0 where R = 0).
  * 6. Spectrum · prefilter(f) · simulate(f) / R(f), where prefilter is the cosine band of four
  *    corners f1 < f2 < f3 < f4 (0 below f1 and above f4, 1 from f2 to f3, half-cosine flanks).
+ *    A bin where R is exactly 0 (possible only without a water level) is set to 0.
  * 7. The imaginary parts of the bins 0 and N/2 are set to 0, the spectrum completed by conjugate
  *    symmetry and inverse transformed; the first n samples are the result.
  */

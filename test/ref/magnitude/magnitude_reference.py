@@ -68,7 +68,8 @@ def remove(case):
         wa = case["wa"]
         _, S = signal.freqs_zpk(cx(wa["zeros"]), cx(wa["poles"]), wa["k"], worN=w)
         G = G * S
-    Y = X * G / R
+    with np.errstate(divide="ignore", invalid="ignore"):
+        Y = np.where(R != 0, X * G / np.where(R != 0, R, 1), 0)
     Y[0] = Y[0].real
     Y[-1] = Y[-1].real
     return np.fft.irfft(Y, nfft)[:n]
