@@ -19,6 +19,16 @@ Cases ("op" selects):
   detrend     x, type ('constant'|'linear') -> y (scipy.signal.detrend)
   tukey       n, alpha                      -> window (scipy.signal.windows.tukey, sym=True)
   window      name, n, sym                  -> scipy.signal.windows.get_window(name, n, fftbins=not sym)
+  rfft_amplitude x, window                  -> |numpy.fft.rfft(x * w)| with w = get_window(window, len(x))
+                                               (periodic), and sum(w)
+  buttap      order                         -> poles [[re, im]...] of scipy.signal.buttap
+  lp2lp | lp2hp | lp2bp  z, p, k, wo, bw    -> scipy.signal.lp2*_zpk results {"z", "p", "k"}
+  bilinear_zpk z, p, k, fs                  -> scipy.signal.bilinear_zpk result {"z", "p", "k"}
+  zpk2sos     z, p, k                       -> scipy.signal.zpk2sos(z, p, k) flat (pairing 'nearest')
+  solve_ne    h1, h2, az1, az2              -> [north, east] from numpy.linalg.solve of
+                                               [[cos az1, sin az1], [cos az2, sin az2]] per sample
+  csqrt       values [[re, im]...]          -> numpy.sqrt of each (complex128), as [[re, im]...];
+                                               a part may be the string "-0" for a negative zero
 """
 import json
 import sys
@@ -34,6 +44,19 @@ def as_sos(flat):
 
 def corners(c):
     return c if isinstance(c, (int, float)) else list(c)
+
+
+def cplx(pairs):
+    # float() also reads "-0" (JSON numbers cannot carry a negative zero).
+    return np.asarray([complex(float(re), float(im)) for re, im in pairs], dtype=complex)
+
+
+def pairs(values):
+    return [[float(v.real), float(v.imag)] for v in np.asarray(values, dtype=complex)]
+
+
+def zpk_out(z, p, k):
+    return {"z": pairs(z), "p": pairs(p), "k": float(np.real(k))}
 
 
 def run(case):
@@ -84,6 +107,31 @@ def run(case):
         return signal.windows.tukey(case["n"], case["alpha"], sym=True).tolist()
     if op == "window":
         return signal.windows.get_window(case["name"], case["n"], fftbins=not case["sym"]).tolist()
+    if op == "rfft_amplitude":
+        x = np.asarray(case["x"], dtype=np.float64)
+        w = signal.windows.get_window(case["window"], x.shape[0], fftbins=True)
+        return {"amplitude": np.abs(np.fft.rfft(x * w)).tolist(), "wsum": float(np.sum(w))}
+    if op == "buttap":
+        _, p, _ = signal.buttap(case["order"])
+        return pairs(p)
+    if op in ("lp2lp", "lp2hp", "lp2bp"):
+        z, p, k = cplx(case["z"]), cplx(case["p"]), case["k"]
+        if op == "lp2lp":
+            return zpk_out(*signal.lp2lp_zpk(z, p, k, wo=case["wo"]))
+        if op == "lp2hp":
+            return zpk_out(*signal.lp2hp_zpk(z, p, k, wo=case["wo"]))
+        return zpk_out(*signal.lp2bp_zpk(z, p, k, wo=case["wo"], bw=case["bw"]))
+    if op == "bilinear_zpk":
+        return zpk_out(*signal.bilinear_zpk(cplx(case["z"]), cplx(case["p"]), case["k"], fs=case["fs"]))
+    if op == "zpk2sos":
+        return signal.zpk2sos(cplx(case["z"]), cplx(case["p"]), case["k"]).ravel().tolist()
+    if op == "solve_ne":
+        a1, a2 = np.radians(case["az1"]), np.radians(case["az2"])
+        m = np.array([[np.cos(a1), np.sin(a1)], [np.cos(a2), np.sin(a2)]])
+        ne = np.linalg.solve(m, np.vstack([np.asarray(case["h1"], float), np.asarray(case["h2"], float)]))
+        return [ne[0].tolist(), ne[1].tolist()]
+    if op == "csqrt":
+        return pairs(np.sqrt(cplx(case["values"])))
     raise ValueError(f"unknown op {op!r}")
 
 
