@@ -12,8 +12,9 @@
  * key). Each trigger not yet used seeds a group; later triggers, each from a site not yet in the
  * group, join when they are consistent with every member; the search stops at seed + aperture / vMin +
  * slack. A group with at least `minSites` sites is a candidate event and its triggers are used; later
- * triggers of its sites that start within its span (seed to the last member's off time) are kept as
- * `secondary` (e.g. S triggers) and are used too, so they cannot seed an event of their own. A group
+ * triggers of its sites that start before the last member's off time plus that same largest move-out
+ * are kept as `secondary` (e.g. S triggers, which reach the far sites later) and are used too, so they
+ * cannot seed an event of their own. A group
  * that is too small uses nothing: its seed may be a noise trigger, and the next trigger seeds afresh.
  *
  * Identifiers: `${network}.${YYYYMMDDThhmmss}` from the earliest member trigger's on-time
@@ -136,7 +137,7 @@ export function coincidence(
       lastOff = Math.max(lastOff, list[m].off);
     }
     const secondary: number[] = [];
-    for (let j = s + 1; j < list.length && list[j].on <= lastOff; j++) {
+    for (let j = s + 1; j < list.length && list[j].on <= lastOff + maxSpan; j++) {
       if (!used[j] && inGroup.has(sites[j])) {
         used[j] = 1;
         secondary.push(j);
