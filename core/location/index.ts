@@ -3,7 +3,7 @@ export {
   DEFAULT_MODEL, VelocityModelError, checkVelocityModel, parseVelocityModel, velocityModelJson,
   type VelocityLayer, type VelocityModel,
 } from './velocityModel';
-export { firstArrival, firstArrivalInto, type TravelTime, type Wave } from './travelTime';
+export { allArrivals, firstArrival, firstArrivalInto, type TravelTime, type Wave } from './travelTime';
 export { START_TABLE_GRID, TravelTimeTable, startTable, type TravelTimeTableGrid } from './travelTimeTable';
 export {
   MEAN_EARTH_RADIUS_KM, fromLocalKm, kmToDegrees, localProjection, toLocalKm, type LocalProjection,

@@ -121,9 +121,7 @@ export const MAX_DEPTH_KM = 1000;
 /** Largest epicentral distance accepted, km (a flat model means little beyond a few hundred). */
 export const MAX_DISTANCE_KM = 20000;
 
-/** As firstArrival, writing into `out` (no allocation; for loops that call it many times). Returns `out`. */
-export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wave, epicentralKm: number, sourceDepthKm: number, receiverElevKm = 0): TravelTime {
-  const c = compile(model);
+function checkArgs(wave: Wave, epicentralKm: number, sourceDepthKm: number, receiverElevKm: number): void {
   if (wave !== 'P' && wave !== 'S') throw new RangeError(`wave must be 'P' or 'S', got ${JSON.stringify(wave)}`);
   if (!(epicentralKm >= 0 && epicentralKm <= MAX_DISTANCE_KM)) {
     throw new RangeError(`epicentralKm must be in [0, ${MAX_DISTANCE_KM}] km, got ${epicentralKm}`);
@@ -134,6 +132,12 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
   if (!(Math.abs(receiverElevKm) <= MAX_DEPTH_KM)) {
     throw new RangeError(`receiverElevKm must be in [-${MAX_DEPTH_KM}, ${MAX_DEPTH_KM}] km, got ${receiverElevKm}`);
   }
+}
+
+/** As firstArrival, writing into `out` (no allocation; for loops that call it many times). Returns `out`. */
+export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wave, epicentralKm: number, sourceDepthKm: number, receiverElevKm = 0): TravelTime {
+  const c = compile(model);
+  checkArgs(wave, epicentralKm, sourceDepthKm, receiverElevKm);
   const v = wave === 'P' ? c.vp : c.vs;
   const heads = wave === 'P' ? c.headP : c.headS;
   const { n, tops } = c;
@@ -188,14 +192,22 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
       vFaster = vm;
     }
   }
-  const head = headDir !== 0;
-  if (head) {
+  if (headDir !== 0) {
     cosS = Math.sqrt(1 - vsrc * vsrc * p * p);
     cosR = Math.sqrt(1 - vrcv * vrcv * p * p);
   }
+  return fillRay(out, time, phase, p, headDir, cosS, cosR, x, zs, zr, vsrc, vrcv);
+}
 
-  // ---- angles and derivatives. Sign of the vertical direction the ray leaves the source in:
-  // a head wave goes toward its refractor; the direct wave goes up when the source is the deeper end.
+/**
+ * Writes an arrival's time, name, ray parameter, angles and depth derivative. headDir: 0 direct, 1
+ * head wave below both ends, -1 above; cosS, cosR: cosines of the ray's angle to the vertical at the
+ * source and the receiver. A head wave goes toward its refractor; the direct wave goes up when the
+ * source is the deeper end.
+ */
+function fillRay(out: TravelTime, time: number, phase: string, p: number, headDir: number, cosS: number, cosR: number,
+  x: number, zs: number, zr: number, vsrc: number, vrcv: number): TravelTime {
+  const head = headDir !== 0;
   const sinS = p * vsrc;
   const sinR = p * vrcv;
   const up = head ? headDir < 0 : zs > zr;
@@ -219,6 +231,46 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
     out.dTdDepth = -cosS / vsrc;
   }
   return out;
+}
+
+/**
+ * Every arrival of the set described at the top that exists at this distance: the direct wave and
+ * each head wave past its critical distance, fastest first (the first is firstArrival's). For
+ * records that show later phases too (a regional event's Pg after Pn).
+ */
+export function allArrivals(model: VelocityModel, wave: Wave, epicentralKm: number, sourceDepthKm: number, receiverElevKm = 0): TravelTime[] {
+  const c = compile(model);
+  checkArgs(wave, epicentralKm, sourceDepthKm, receiverElevKm);
+  const v = wave === 'P' ? c.vp : c.vs;
+  const heads = wave === 'P' ? c.headP : c.headS;
+  const { n, tops } = c;
+  const x = epicentralKm;
+  const zs = sourceDepthKm;
+  const zr = -receiverElevKm;
+  const ks = layerOf(tops, n, zs);
+  const kr = layerOf(tops, n, zr);
+  const vsrc = v[ks];
+  const vrcv = v[kr];
+  const blank = (): TravelTime => ({ time: 0, phase: '', takeoffDeg: 0, incidenceDeg: 0, slownessH: 0, dTdDepth: 0 });
+  solveDirect(c, v, x, zs, zr, ks, kr);
+  const out = [fillRay(blank(), dTime, wave === 'P' ? 'Pg' : 'Sg', dP, 0, dCosSrc, dCosRcv, x, zs, zr, vsrc, vrcv)];
+  const kTop = ks < kr ? ks : kr;
+  const kBot = ks < kr ? kr : ks;
+  let vPath = 0;
+  for (let i = kTop; i <= kBot; i++) if (v[i] > vPath) vPath = v[i];
+  for (const dir of [1, -1]) {
+    let vFaster = vPath;
+    for (let m = dir > 0 ? kBot + 1 : kTop - 1; dir > 0 ? m < n : m >= 0; m += dir) {
+      const vm = v[m];
+      if (!(vm > vFaster)) continue;
+      vFaster = vm;
+      const t = headTime(tops, v, n, m, dir, x, zs, zr, dir > 0 ? kTop : kBot);
+      if (t === Infinity) continue;
+      const p = 1 / vm;
+      out.push(fillRay(blank(), t, heads[m], p, dir, Math.sqrt(1 - vsrc * vsrc * p * p), Math.sqrt(1 - vrcv * vrcv * p * p), x, zs, zr, vsrc, vrcv));
+    }
+  }
+  return out.sort((a, b) => a.time - b.time);
 }
 
 /**

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { execFileSync } from 'node:child_process';
-import { firstArrival, firstArrivalInto, type TravelTime, type Wave } from '../../../core/location/travelTime';
+import { allArrivals, firstArrival, firstArrivalInto, type TravelTime, type Wave } from '../../../core/location/travelTime';
 import { DEFAULT_MODEL, checkVelocityModel, type VelocityModel } from '../../../core/location/velocityModel';
 import { rng } from './reference';
 
@@ -69,8 +69,8 @@ function shootDirect(m: VelocityModel, wave: Wave, x: number, zs: number, zr: nu
   return { time: land(phi).T, phase: wave + 'g', p: Math.sin(phi) / vmax, takeoffDeg: up ? 180 - theta : theta };
 }
 
-/** The fastest arrival, and how much later the runner-up is (to tell near-ties apart). */
-function shootFirst(m: VelocityModel, wave: Wave, x: number, zs: number, zr: number): Shot & { margin: number } {
+/** Every arrival the shooter finds (direct, and head waves past their critical distance), fastest first. */
+function shootAll(m: VelocityModel, wave: Wave, x: number, zs: number, zr: number): Shot[] {
   const all: Shot[] = [shootDirect(m, wave, x, zs, zr)];
   const v0 = speedAt(m, wave, zs);
   const vr = speedAt(m, wave, zr);
@@ -96,7 +96,12 @@ function shootFirst(m: VelocityModel, wave: Wave, x: number, zs: number, zr: num
     const ic = Math.asin(v0 / vk) * 180 / Math.PI;
     all.push({ time: t + (x - d) / vk, phase: below && k === n - 1 ? wave + 'n' : wave + k, p: 1 / vk, takeoffDeg: below ? ic : 180 - ic });
   }
-  all.sort((a, b) => a.time - b.time);
+  return all.sort((a, b) => a.time - b.time);
+}
+
+/** The fastest arrival, and how much later the runner-up is (to tell near-ties apart). */
+function shootFirst(m: VelocityModel, wave: Wave, x: number, zs: number, zr: number): Shot & { margin: number } {
+  const all = shootAll(m, wave, x, zs, zr);
   return { ...all[0], margin: all.length > 1 ? all[1].time - all[0].time : Infinity };
 }
 
@@ -364,6 +369,40 @@ describe('travelTime', () => {
     expect(lvl).toBeGreaterThan(300);
     // direct, along the half-space, along intermediate tops, and along the base of a layer above both ends
     expect([...names].sort()).toEqual(expect.arrayContaining(['1', '2', 'above', 'g', 'n']));
+  });
+
+  it('allArrivals lists the direct wave and every head wave past its critical distance, as the shooter finds them', () => {
+    const r = rng(99);
+    let later = 0;
+    for (let trial = 0; trial < 1000; trial++) {
+      const n = 2 + Math.floor(r() * 4);
+      const layers: [number, number, number][] = [];
+      let top = 0;
+      for (let i = 0; i < n; i++) {
+        const vp = 3 + 6 * r();
+        layers.push([top, vp, vp / 1.75]);
+        top += 0.5 + 15 * r();
+      }
+      const m = model(layers);
+      const x = 300 * r();
+      const zs = -1 + 40 * r();
+      const zr = r() < 0.8 ? -r() : 25 * r();
+      const ours = allArrivals(m, 'P', x, zs, -zr);
+      const ref = shootAll(m, 'P', x, zs, zr);
+      expect(ours.map((a) => a.phase).sort(), `trial ${trial}`).toEqual(ref.map((a) => a.phase).sort());
+      for (const a of ours) {
+        const b = ref.find((q) => q.phase === a.phase) as Shot;
+        expect(Math.abs(a.time - b.time), `trial ${trial} ${a.phase}`).toBeLessThan(1e-8 * Math.max(1, b.time));
+        expect(Math.abs(a.takeoffDeg - b.takeoffDeg), `trial ${trial} ${a.phase}`).toBeLessThan(1e-4);
+      }
+      expect(ours[0]).toEqual(firstArrival(m, 'P', x, zs, -zr));
+      later += ours.length - 1;
+    }
+    expect(later).toBeGreaterThan(200); // later arrivals were really there to list (350 in this set)
+    // the regional case: Pn first, Pg later
+    const reg = allArrivals(onePointFive, 'P', 250, 10);
+    expect(reg.map((a) => a.phase)).toEqual(['Pn', 'Pg']);
+    expect(reg[1].time).toBeCloseTo(Math.hypot(250, 10) / 6, 9);
   });
 
   it('is never slower than the fastest path on a Fermat grid (scipy Dijkstra) and within 0.3 % of it', () => {
