@@ -2,14 +2,27 @@
 import type { SampleArray } from '../model';
 import { checkSamples, outputArray } from './checkSamples';
 
+/**
+ * Mean of x by the corrected two-pass algorithm (the plain mean, then the mean of the residuals
+ * added back), so a large offset (counts of a few million) does not cost digits of the result.
+ */
+function accurateMean(x: SampleArray): number {
+  const n = x.length;
+  if (n === 0) return 0;
+  let sum = 0;
+  for (let i = 0; i < n; i++) sum += x[i];
+  const mean = sum / n;
+  let residual = 0;
+  for (let i = 0; i < n; i++) residual += x[i] - mean;
+  return mean + residual / n;
+}
+
 /** x minus its mean (units of x). `out` may be x itself when x is a Float64Array. Empty input gives empty output. */
 export function demean(x: SampleArray, out?: Float64Array): Float64Array {
   checkSamples(x);
   const n = x.length;
   const y = outputArray(n, out);
-  let sum = 0;
-  for (let i = 0; i < n; i++) sum += x[i];
-  const mean = n > 0 ? sum / n : 0;
+  const mean = accurateMean(x);
   for (let i = 0; i < n; i++) y[i] = x[i] - mean;
   return y;
 }
@@ -24,9 +37,7 @@ export function detrend(x: SampleArray, out?: Float64Array): Float64Array {
   const y = outputArray(n, out);
   if (n < 2) return demean(x, y);
   const tMean = (n - 1) / 2;
-  let sum = 0;
-  for (let i = 0; i < n; i++) sum += x[i];
-  const mean = sum / n;
+  const mean = accurateMean(x);
   // Centred sums: slope = Σ (t − t̄)(x − x̄) / Σ (t − t̄)², and Σ (t − t̄)² = n(n² − 1)/12.
   let sxy = 0;
   for (let i = 0; i < n; i++) sxy += (i - tMean) * (x[i] - mean);

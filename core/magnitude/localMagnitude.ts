@@ -9,6 +9,8 @@
  *   amplitude is treated as a single datum"); the station magnitude shown is their mean.
  * - 'max': the larger of the station's horizontal amplitudes is the station's datum.
  * - 'mean': the mean of the channels' magnitudes (mean log amplitude) is the station's datum.
+ * With 'max' and 'mean' a station with a clipped horizontal gives no datum (the unclipped one alone
+ * would understate it); with 'each' its unclipped horizontals still count.
  */
 import { channelKey, stationKey, type ChannelId, type SampleArray } from '../model';
 import type { Micros } from '../time';
@@ -110,7 +112,11 @@ export interface ChannelMagnitude {
   readonly magnitude: number | null;
   /** Correction applied, magnitude units. */
   readonly correction: number;
-  /** Why the channel gives no magnitude ('clipped', 'distance out of range', 'amplitude not positive'), or null. */
+  /**
+   * Why the channel gives no magnitude, or null: 'clipped', 'another horizontal clipped' (combine
+   * 'max' or 'mean': the station's datum needs all its horizontals), 'distance out of range',
+   * 'amplitude not positive'.
+   */
   readonly excluded: string | null;
 }
 
@@ -186,10 +192,13 @@ export function localMagnitude(
     const km = scale.distance === 'hypocentral' ? d.hypocentralKm : d.epicentralKm;
     let inRange = true;
     try { distanceCorrection(scale, km); } catch { inRange = false; }
+    // With 'max' or 'mean' the station's datum needs all its horizontals: one clipped spoils it.
+    const siblingClipped = combine !== 'each' && list.some((a) => a.clipped);
     const channels: ChannelMagnitude[] = list.map((a) => {
       const correction = correctionFor(a.key, opts.stationCorrections);
       let excluded: string | null = null;
       if (a.clipped) excluded = 'clipped';
+      else if (siblingClipped) excluded = 'another horizontal clipped';
       else if (!inRange) excluded = 'distance out of range';
       else if (!(a.amplitudeM > 0)) excluded = 'amplitude not positive';
       const magnitude = excluded ? null : localMagnitudeOf(scale, a.amplitudeM, km, correction);
