@@ -10,7 +10,8 @@ export {
 } from './staLta';
 export { type AicResult, autocorrelationTime, jointAic, maedaAic } from './aic';
 export {
-  firstMotion, LOCAL_EARTHQUAKE_ONSET, LOCAL_EARTHQUAKE_S_WINDOW, type OnsetOptions, pickP, pickS,
+  firstMotion, LOCAL_EARTHQUAKE_ONSET, LOCAL_EARTHQUAKE_S_WINDOW, type OnsetOptions, pickP, pickS, pickStation,
+  type StationTraces,
   resolveOnsetOptions, sWindow, type SWindowOptions,
 } from './onset';
 export {

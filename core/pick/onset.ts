@@ -339,3 +339,26 @@ export function pickS(
     questionableTiming: north.questionableTiming === true || east.questionableTiming === true,
   };
 }
+
+/** One site's traces for picking: the vertical, and the two horizontals when the site has them. */
+export interface StationTraces {
+  readonly vertical: Trace;
+  readonly horizontals?: readonly [Trace, Trace] | null;
+}
+
+/**
+ * Picks one site from a trigger time (µs): P on the vertical, then S on the horizontals after that P
+ * (a vertical-only site gets P only). Returns the picks made, [] when no P could be read.
+ */
+export function pickStation(
+  traces: StationTraces, triggerTime: Micros,
+  options: { readonly onset?: Partial<OnsetOptions>; readonly sWindow?: Partial<SWindowOptions> } = {},
+): Pick[] {
+  if (!traces || typeof traces !== 'object' || !traces.vertical) throw new TypeError('traces must hold at least a vertical Trace');
+  const p = pickP(traces.vertical, triggerTime, options.onset);
+  if (!p) return [];
+  const h = traces.horizontals;
+  if (!h) return [p];
+  const s = pickS(h[0], h[1], p.time, options.sWindow, options.onset);
+  return s ? [p, s] : [p];
+}

@@ -4,7 +4,7 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { readMiniSeedBuffer } from '../../../core/mseed';
 import type { ChannelData } from '../../../core/model';
-import { firstMotion, pickP, pickS, sWindow } from '../../../core/pick/onset';
+import { firstMotion, pickP, pickS, pickStation, sWindow } from '../../../core/pick/onset';
 import { NEAR_FIELD_MICROSEISMIC } from '../../../core/pick/presets';
 import { staLtaTriggers } from '../../../core/pick/staLta';
 import type { Pick, Trace } from '../../../core/pick/types';
@@ -201,6 +201,19 @@ for c in range(20):
       ok.push(pick !== null && Math.abs(pick.time - (T0 + s * 10_000)) <= 50_000);
     }
     expect(share(ok)).toBeGreaterThanOrEqual(0.9);
+  });
+
+  it('pickStation gives P and S at a three-component site and P only at a vertical-only one', () => {
+    const [p, s] = s3[0];
+    const tp = T0 + p * 10_000;
+    const trig = staLtaTriggers(Z, s3[1], FS, T0)[0].on;
+    const three = pickStation({ vertical: trace(s3[1]), horizontals: [trace(s3[2], N_ID), trace(s3[3], E_ID)] }, trig, { sWindow: { originTime: tp - 5_000_000 } });
+    expect(three.map((k) => k.phaseHint)).toEqual(['P', 'S']);
+    expect(Math.abs(three[0].time - tp)).toBeLessThanOrEqual(20_000);
+    expect(Math.abs(three[1].time - (T0 + s * 10_000))).toBeLessThanOrEqual(50_000);
+    const one = pickStation({ vertical: trace(s3[1]) }, trig);
+    expect(one.map((k) => k.phaseHint)).toEqual(['P']);
+    expect(pickStation({ vertical: trace(new Float64Array(8)) }, T0)).toEqual([]);
   });
 
   it('returns null when the S window lies beyond the traces, and refuses horizontals of different rates', () => {

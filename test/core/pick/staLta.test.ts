@@ -146,6 +146,15 @@ describe('STA/LTA ratio', () => {
       }
     }
   }
+  // Longer than one 65,536-sample block, so the fused float64 loops of the recursive form run too.
+  const long = noise('hourBand').subarray(0, 140_000);
+  addWavelet(long, 12_000, 100, 8);
+  for (const despike of [false, true]) {
+    cases.push({
+      name: `recursive ratio over 140,000 samples (fused loops after the first block)${despike ? ' with median of three' : ''}`,
+      form: 'recursive', x: long, fs: 100, o: { ...LOCAL_EARTHQUAKE_STA_LTA, despike, sta: 0.5, lta: 10 },
+    });
+  }
   const refs = references(cases);
   cases.forEach((c, i) => {
     // Tolerance: the recursion is the same arithmetic in both; numpy's classic form subtracts cumulative
@@ -288,6 +297,15 @@ describe('STA/LTA triggers', () => {
       on.push(t[0].on);
     }
     expect(Math.abs(on[0] - on[1])).toBeLessThanOrEqual(10_000);
+  });
+
+  it('FLOAT32 and INT32 samples give the ratio of the same values as float64 (the fused float64 loop does the same arithmetic)', () => {
+    const x64 = noise('cut21').map((v) => Math.round(v * 1000));
+    for (const form of ['classic', 'recursive'] as const) {
+      const want = staLtaRatio(x64, 100, { form, lta: 5 });
+      expect(Array.from(staLtaRatio(Float32Array.from(x64), 100, { form, lta: 5 }))).toEqual(Array.from(want));
+      expect(Array.from(staLtaRatio(Int32Array.from(x64), 100, { form, lta: 5 }))).toEqual(Array.from(want));
+    }
   });
 
   it('a dead channel (all zeros) gives ratio 0 and no trigger', () => {
