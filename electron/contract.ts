@@ -90,6 +90,12 @@ export interface HostRequests {
   'settings.set': [Partial<Settings>, Settings];
   /** Bytes [offset, offset + length) of a file (fewer at its end). */
   'file.readRange': [{ root: string; path: string; offset: number; length: number }, Uint8Array];
+  /**
+   * Several byte ranges of dataset files in one answer, framed: a little-endian uint32 count n, then n
+   * uint32 lengths (bytes actually read per range), then the ranges' bytes one after another
+   * (see `splitRanges`).
+   */
+  'file.readRanges': [{ root: string; ranges: { path: string; offset: number; length: number }[] }, Uint8Array];
 }
 
 export type HostRequestName = keyof HostRequests;
@@ -98,12 +104,26 @@ export type ResponseOf<N extends HostRequestName> = HostRequests[N][1];
 
 /** Names the host answers, for validation on both sides. */
 export const HOST_REQUEST_NAMES: readonly HostRequestName[] = [
-  'app.info', 'demo.status', 'demo.ensure', 'dataset.open', 'file.read', 'file.readRange', 'review.open', 'review.save',
+  'app.info', 'demo.status', 'demo.ensure', 'dataset.open', 'file.read', 'file.readRange', 'file.readRanges', 'review.open', 'review.save',
   'export.write', 'settings.get', 'settings.set',
 ];
 
 /** Requests whose response is raw bytes (sent as application/octet-stream over HTTP). */
-export const BINARY_RESPONSES: ReadonlySet<HostRequestName> = new Set<HostRequestName>(['file.read', 'file.readRange']);
+export const BINARY_RESPONSES: ReadonlySet<HostRequestName> = new Set<HostRequestName>(['file.read', 'file.readRange', 'file.readRanges']);
+
+/** Splits a 'file.readRanges' answer into one view per range (no copies). */
+export function splitRanges(framed: Uint8Array): Uint8Array[] {
+  const view = new DataView(framed.buffer, framed.byteOffset, framed.byteLength);
+  const n = view.getUint32(0, true);
+  const out: Uint8Array[] = [];
+  let at = 4 + 4 * n;
+  for (let i = 0; i < n; i++) {
+    const len = view.getUint32(4 + 4 * i, true);
+    out.push(framed.subarray(at, at + len));
+    at += len;
+  }
+  return out;
+}
 
 /** What the renderer holds: one method for every request. */
 export interface HostApi {

@@ -59,6 +59,7 @@ export class HostService {
       'dataset.open': async (req) => this.openDataset(req.root),
       'file.read': async (req) => this.readDatasetFile(req.root, req.path),
       'file.readRange': async (req) => this.readDatasetRange(req.root, req.path, req.offset, req.length),
+      'file.readRanges': async (req) => this.readDatasetRanges(req.root, req.ranges),
       'review.open': async (req) => this.openReview(req.root, req.force === true),
       'review.save': async (req) => this.saveReview(req.root, req.content),
       'export.write': async (req) => this.writeExport(req.root, req.name, req.content),
@@ -196,6 +197,29 @@ export class HostService {
     } finally {
       await handle.close();
     }
+  }
+
+  private async readDatasetRanges(rootArg: unknown, ranges: unknown): Promise<Uint8Array> {
+    if (!Array.isArray(ranges) || ranges.length > 100_000) throw new HostError('bad-request', 'ranges must be a list of at most 100,000 {path, offset, length}');
+    let total = 0;
+    for (const r of ranges) {
+      const len = (r as { length?: unknown })?.length;
+      if (!Number.isSafeInteger(len) || (len as number) < 0) throw new HostError('bad-request', `range length must be an integer >= 0, got ${String(len)}`);
+      total += len as number;
+    }
+    if (total > MAX_RANGE_BYTES) throw new HostError('bad-request', `ranges add up to ${total} bytes, more than ${MAX_RANGE_BYTES}`);
+    const parts = await Promise.all(ranges.map((r: { path?: unknown; offset?: unknown; length?: unknown }) => this.readDatasetRange(rootArg, r.path, r.offset, r.length)));
+    const head = 4 + 4 * parts.length;
+    const out = new Uint8Array(head + parts.reduce((n, p) => n + p.length, 0));
+    const view = new DataView(out.buffer);
+    view.setUint32(0, parts.length, true);
+    let at = head;
+    parts.forEach((p, i) => {
+      view.setUint32(4 + 4 * i, p.length, true);
+      out.set(p, at);
+      at += p.length;
+    });
+    return out;
   }
 
   /** Absolute path of a file inside an opened dataset (or the demo folder); refuses anything outside. */

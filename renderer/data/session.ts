@@ -3,7 +3,7 @@
  * levels per channel (built once, in workers, with progress), and event windows read on demand from
  * just the byte ranges they need.
  */
-import type { Dataset, HostApi } from '../../electron/contract';
+import { splitRanges, type Dataset, type HostApi } from '../../electron/contract';
 import { parseStationXml, channelsOf, type ChannelMeta, type Inventory } from '../../core/stationxml';
 import type { FilterRequest } from '../../core/dsp';
 import type { Micros } from '../../core/time';
@@ -111,27 +111,29 @@ export class DataSession {
   async window(channels: string[], start: Micros, end: Micros, filter: FilterRequest | null, zeroPhase = false, warmup = 20): Promise<WindowReply> {
     const want = new Set(channels);
     const readFrom = start - warmup * 1e6;
-    const chunks: WindowChunk[] = [];
-    const transfer: Transferable[] = [];
-    await Promise.all(this.files.map(async (f) => {
+    const ranges: { path: string; offset: number; length: number }[] = [];
+    for (const f of this.files) {
       const keyWanted = f.channelKeys.map((k) => want.has(k));
-      if (!keyWanted.some(Boolean)) return;
-      const ranges: { offset: number; length: number }[] = [];
+      if (!keyWanted.some(Boolean)) continue;
+      const mine: { path: string; offset: number; length: number }[] = [];
       for (let i = 0; i < f.recOffset.length; i++) {
         if (!keyWanted[f.recChannel[i]] || f.recEnd[i] <= readFrom || f.recStart[i] >= end) continue;
-        const last = ranges[ranges.length - 1];
+        const last = mine[mine.length - 1];
         const off = f.recOffset[i];
         if (last && off <= last.offset + last.length + 65536) last.length = Math.max(last.length, off + f.recLength[i] - last.offset);
-        else ranges.push({ offset: off, length: f.recLength[i] });
+        else mine.push({ path: f.path, offset: off, length: f.recLength[i] });
       }
-      for (const rg of ranges) {
-        const r = await this.host.call('file.readRange', { root: this.dataset.root, path: f.path, offset: rg.offset, length: rg.length });
-        if (!r.ok) { this.problems.push({ file: f.path, reason: r.message }); continue; }
-        chunks.push({ path: f.path, base: rg.offset, bytes: r.value });
-        transfer.push(r.value.buffer);
-      }
-    }));
-    return this.pool.request<WindowReply>({ type: 'window', chunks, channels, start, end, filter, zeroPhase }, transfer);
+      ranges.push(...mine);
+    }
+    // One request for every range: the host reads them in parallel and frames them in one answer.
+    const r = await this.host.call('file.readRanges', { root: this.dataset.root, ranges });
+    if (!r.ok) {
+      this.problems.push({ file: this.dataset.root, reason: r.message });
+      return { type: 'window', id: 0, pieces: [], notes: [`could not read the window: ${r.message}`], errors: [] };
+    }
+    const parts = splitRanges(r.value);
+    const chunks: WindowChunk[] = ranges.map((rg, i) => ({ path: rg.path, base: rg.offset, bytes: parts[i] }));
+    return this.pool.request<WindowReply>({ type: 'window', chunks, channels, start, end, filter, zeroPhase }, [r.value.buffer]);
   }
 
   close(): void {

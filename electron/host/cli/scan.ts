@@ -43,10 +43,11 @@ const USAGE = `usage: daybreak scan --stations STATIONXML --out OUT.xml [options
   --out FILE           QuakeML 1.2 to write (replaced atomically when the scan is done)
   --preset NAME        settings: local (default; local earthquakes, 40-200 Hz) or near (near-source
                        microseismic at about 500 Hz in short event cuts)
-  --band LO,HI         trigger and pick band-pass, Hz (preset: 2,15 or 10,120)
+  --band LO,HI         trigger and pick band-pass, Hz (preset: 2,15 or 5,150)
   --sta S --lta S      STA/LTA windows, seconds (preset: 0.5/60 or 0.05/1)
   --on R --off R       trigger-on and trigger-off ratios (4 and 2)
   --min-sites N        sites that must trigger together (3)
+  --vmin V             slowest P velocity the coincidence allows, km/s (3)
   --chunk S            seconds of data processed at a time (600); bounds memory
   --agency ID          creationInfo agencyID (default "daybreak")
   --author NAME        creationInfo author (default "daybreak scan")
@@ -76,7 +77,7 @@ function num(name: string, v: string | undefined, min: number, max: number, inte
 export function parseScanArgs(args: string[]): ScanArgs {
   const values = new Map<string, string>();
   const paths: string[] = [];
-  const known = ['--stations', '--out', '--preset', '--band', '--sta', '--lta', '--on', '--off', '--min-sites', '--chunk', '--agency', '--author', '--authority'];
+  const known = ['--stations', '--out', '--preset', '--band', '--sta', '--lta', '--on', '--off', '--min-sites', '--vmin', '--chunk', '--agency', '--author', '--authority'];
   let optionsDone = false;
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -120,6 +121,7 @@ export function parseScanArgs(args: string[]): ScanArgs {
   const settings: ScanSettings = {
     ...base, filter, staLta,
     minSites: values.has('--min-sites') ? num('--min-sites', values.get('--min-sites'), 1, 10000, true) : base.minSites,
+    vMin: values.has('--vmin') ? num('--vmin (km/s)', values.get('--vmin'), 0.01, 100) : base.vMin,
     chunkSeconds: values.has('--chunk') ? num('--chunk (s)', values.get('--chunk'), 1, 86400 * 7) : base.chunkSeconds,
   };
   const agency = values.get('--agency') ?? 'daybreak';

@@ -5,6 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { HostService, DEMO_COMPLETE_MARKER } from '../../../electron/host/service';
 import { startBrowserServer, TOKEN_HEADER, type BrowserServer } from '../../../electron/host/server';
+import { splitRanges } from '../../../electron/contract';
 
 const EVENT_XML = '<?xml version="1.0"?><q:quakeml xmlns:q="x"/>';
 
@@ -113,6 +114,18 @@ describe('browser-mode server', () => {
     expect([...tail.body]).toEqual([3, 250]);
     const bad = JSON.parse((await api('file.readRange', { root: dataRoot, path: 'day1/XX.AB..HHZ.mseed', offset: -1, length: 2 })).body.toString());
     expect(bad).toMatchObject({ ok: false, code: 'bad-request' });
+  });
+
+  it('returns several ranges in one framed answer that splitRanges takes apart', async () => {
+    await api('dataset.open', { root: dataRoot });
+    const r = await api('file.readRanges', { root: dataRoot, ranges: [
+      { path: 'day1/XX.AB..HHZ.mseed', offset: 0, length: 2 },
+      { path: 'stations.xml', offset: 1, length: 5 },
+      { path: 'day1/XX.AB..HHZ.mseed', offset: 3, length: 10 },
+    ] });
+    expect(r.type).toBe('application/octet-stream');
+    const parts = splitRanges(new Uint8Array(r.body));
+    expect(parts.map((p) => [...p])).toEqual([[1, 2], [...Buffer.from('FDSNS')], [250]]);
   });
 
   it('answers bad arguments and unknown requests with a value, not a crash', async () => {
