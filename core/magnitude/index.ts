@@ -21,3 +21,6 @@ export {
   type ChannelMagnitude, type StationMagnitude, type NetworkMagnitude,
   measureWoodAndersonAmplitude, localMagnitude, median,
 } from './localMagnitude';
+export {
+  type DurationCoefficients, type CodaOptions, type CodaDuration, LEE_BENNETT_MEAGHER_1972, durationMagnitude, codaDuration,
+} from './durationMagnitude';
