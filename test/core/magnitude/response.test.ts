@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import {
   channelResponse, groundMotionOf, normalizationFactorOf, oscillatorPoles, responseAt, sensitivityCheck,
 } from '../../../core/magnitude/response';
+import { parseStationXml } from '../../../core/stationxml/parse';
 import type { ChannelMeta, ResponseStage } from '../../../core/stationxml/types';
 import { magnitudeReference, pairsOf } from '../../ref/magnitude/reference';
 
@@ -27,6 +28,10 @@ function gainStage(n: number, gain: number): ResponseStage {
 }
 
 const ZZ: C[] = [{ re: 0, im: 0 }, { re: 0, im: 0 }];
+const FIR_HALF = [0.1, 0.25, 0.3];
+const DIGITAL_FREQS = [0.5, 3, 17, 33, 49];
+/** scipy.signal.freqz of the FIR and IIR stages, filled by the scipy batch of the freqs_zpk tests. */
+const DIGITAL_REF: [number, number][][] = [];
 
 describe('oscillatorPoles', () => {
   it('gives -h·w0 ± i·w0·sqrt(1-h²) for a 1 Hz geophone with damping 0.7 (hand-computed)', () => {
@@ -108,7 +113,13 @@ describe('channelResponse against scipy.signal.freqs_zpk', () => {
     const a0 = stage.filter?.kind === 'polesZeros' ? stage.filter.normalizationFactor : NaN;
     return { ...c, meta: meta([stage, gainStage(2, 5e5)]), k: a0 * 800 * 5e5 };
   });
-  const ref = magnitudeReference(built.map((c) => ({ op: 'freqs_zpk', zeros: pairsOf(c.zeros), poles: pairsOf(c.poles), k: c.k, freqs, hertz: c.hertz }))) as [number, number][][];
+  const ref = magnitudeReference([
+    ...built.map((c) => ({ op: 'freqs_zpk', zeros: pairsOf(c.zeros), poles: pairsOf(c.poles), k: c.k, freqs, hertz: c.hertz })),
+    // For the digital-stage tests below: one python process per file.
+    { op: 'freqz_fir', b: [...FIR_HALF, ...[...FIR_HALF].reverse()], a: [1], freqs: DIGITAL_FREQS, fs: 200 },
+    { op: 'freqz_fir', b: [0.2, 0.3], a: [1, -0.5], freqs: DIGITAL_FREQS, fs: 100 },
+  ]) as [number, number][][];
+  DIGITAL_REF.push(ref[built.length], ref[built.length + 1]);
   built.forEach((c, i) => {
     it(`matches scipy to 1e-12 relative for the ${c.name} (scipy.signal.freqs_zpk, scipy 1.17.1)`, () => {
       const r = channelResponse(c.meta);
@@ -123,7 +134,7 @@ describe('channelResponse against scipy.signal.freqs_zpk', () => {
 });
 
 describe('digital stages', () => {
-  const h = [0.1, 0.25, 0.3];
+  const h = FIR_HALF;
   const fir: ResponseStage = {
     number: 3, inputUnits: 'count', outputUnits: 'count', gain: { value: 1, frequency: 1 },
     filter: { kind: 'fir', symmetry: 'EVEN', coefficients: h },
@@ -135,11 +146,8 @@ describe('digital stages', () => {
     decimation: { inputSampleRate: 100, factor: 1, offset: 0, delay: 0, correction: 0 },
   };
   const base = [pzStage(oscillatorPoles(1, 0.7), ZZ, 5, 170), gainStage(2, 1000)];
-  const freqs = [0.5, 3, 17, 33, 49];
-  const [firRef, iirRef] = magnitudeReference([
-    { op: 'freqz_fir', b: [...h, ...[...h].reverse()], a: [1], freqs, fs: 200 },
-    { op: 'freqz_fir', b: [0.2, 0.3], a: [1, -0.5], freqs, fs: 100 },
-  ]) as [number, number][][];
+  const freqs = DIGITAL_FREQS;
+  const [firRef, iirRef] = DIGITAL_REF;
   it('count by their gain only by default (the FIR shape and delay left out)', () => {
     const plain = channelResponse(meta(base)), withDigital = channelResponse(meta([...base, fir, iir]));
     const a = new Float64Array(2), b = new Float64Array(2);
@@ -181,5 +189,53 @@ describe('groundMotionOf and argument checks', () => {
   });
   it('rejects a normalization frequency on a pole', () => {
     expect(() => normalizationFactorOf([{ re: 0, im: 2 * Math.PI }], [], 1)).toThrow(/no finite non-zero response at 1 Hz/);
+  });
+});
+
+describe('channelResponse of a channel read from StationXML (core/stationxml parser)', () => {
+  // A 1 Hz, h 0.7 geophone written as LAPLACE (HERTZ): poles −0.7 ± i·√0.51 Hz, zeros 0, 0. Its A0 at
+  // 5 Hz is exactly 1 (|−25/(−24 + 7i)| = 1, hand-computed), then a digitizer and a symmetric FIR.
+  const xml = `<?xml version="1.0" encoding="UTF-8"?>
+<FDSNStationXML xmlns="http://www.fdsn.org/xml/station/1" schemaVersion="1.2">
+ <Source>test</Source><Created>2026-01-01T00:00:00Z</Created>
+ <Network code="XX"><Station code="GEO"><Latitude>0</Latitude><Longitude>0</Longitude><Elevation>0</Elevation>
+  <Channel code="EHZ" locationCode=""><Latitude>0</Latitude><Longitude>0</Longitude><Elevation>0</Elevation><Depth>0</Depth>
+   <Azimuth>0</Azimuth><Dip>-90</Dip><SampleRate>100</SampleRate>
+   <Response>
+    <InstrumentSensitivity><Value>71303168</Value><Frequency>5</Frequency><InputUnits><Name>M/S</Name></InputUnits><OutputUnits><Name>COUNTS</Name></OutputUnits></InstrumentSensitivity>
+    <Stage number="1"><PolesZeros><InputUnits><Name>M/S</Name></InputUnits><OutputUnits><Name>V</Name></OutputUnits>
+      <PzTransferFunctionType>LAPLACE (HERTZ)</PzTransferFunctionType><NormalizationFactor>1</NormalizationFactor><NormalizationFrequency>5</NormalizationFrequency>
+      <Zero number="0"><Real>0</Real><Imaginary>0</Imaginary></Zero><Zero number="1"><Real>0</Real><Imaginary>0</Imaginary></Zero>
+      <Pole number="0"><Real>-0.7</Real><Imaginary>${Math.sqrt(0.51)}</Imaginary></Pole><Pole number="1"><Real>-0.7</Real><Imaginary>${-Math.sqrt(0.51)}</Imaginary></Pole>
+     </PolesZeros><StageGain><Value>170</Value><Frequency>5</Frequency></StageGain></Stage>
+    <Stage number="2"><Coefficients><InputUnits><Name>V</Name></InputUnits><OutputUnits><Name>COUNTS</Name></OutputUnits>
+      <CfTransferFunctionType>DIGITAL</CfTransferFunctionType><Numerator>1</Numerator></Coefficients>
+      <Decimation><InputSampleRate>100</InputSampleRate><Factor>1</Factor><Offset>0</Offset><Delay>0</Delay><Correction>0</Correction></Decimation>
+      <StageGain><Value>419430.4</Value><Frequency>5</Frequency></StageGain></Stage>
+    <Stage number="3"><FIR><InputUnits><Name>COUNTS</Name></InputUnits><OutputUnits><Name>COUNTS</Name></OutputUnits>
+      <Symmetry>EVEN</Symmetry><NumeratorCoefficient i="1">0.25</NumeratorCoefficient><NumeratorCoefficient i="2">0.25</NumeratorCoefficient></FIR>
+      <Decimation><InputSampleRate>100</InputSampleRate><Factor>1</Factor><Offset>0</Offset><Delay>0</Delay><Correction>0</Correction></Decimation>
+      <StageGain><Value>1</Value><Frequency>0</Frequency></StageGain></Stage>
+   </Response></Channel></Station></Network></FDSNStationXML>`;
+  const ch = parseStationXml(xml, 'geophone.xml').networks[0].stations[0].channels[0];
+  it('is i·G/(2h) at the natural frequency, G = 170 × 419430.4 counts per m/s (hand-computed)', () => {
+    const r = responseAt(ch, 1);
+    expect(r.re / 71303168).toBeCloseTo(0, 12);
+    expect(r.im / 71303168).toBeCloseTo(1 / 1.4, 12);
+  });
+  it('agrees with its InstrumentSensitivity at 5 Hz (normalization-factor rule) and reads M/S as velocity', () => {
+    const c = sensitivityCheck(ch);
+    expect(c?.evaluatedRatio).toBeCloseTo(1, 12);
+    expect(c?.gainRatio).toBeCloseTo(1, 14);
+    expect(channelResponse(ch).input).toBe('velocity');
+  });
+  it("with digitalStages 'shape' includes the 4-tap boxcar FIR: cos(πf/100)·cos(πf/50)·e^(−i3πf/100) times the analog part", () => {
+    // h = [¼, ¼, ¼, ¼]: H = ¼(1 + z⁻¹ + z⁻² + z⁻³) = cos(ω/2)·cos(ω)·e^(−i3ω/2), ω = 2πf/100 (hand-computed).
+    const f = 7;
+    const a = responseAt(ch, f), b = responseAt(ch, f, { digitalStages: 'shape' });
+    const w = (2 * Math.PI * f) / 100;
+    const mag = Math.cos(w / 2) * Math.cos(w), ph = (-3 * w) / 2;
+    const er = mag * (a.re * Math.cos(ph) - a.im * Math.sin(ph)), ei = mag * (a.re * Math.sin(ph) + a.im * Math.cos(ph));
+    expect(Math.hypot(b.re - er, b.im - ei) / Math.hypot(er, ei)).toBeLessThan(1e-12);
   });
 });
