@@ -460,8 +460,8 @@ interface GridContext {
  * the depths are the start table's within [minDepth, maxDepth] (or the fixed depth). Stage 1: 13 x 13
  * epicentres at every third depth; when the best lies on the box's edge the box is tripled and
  * searched again (at most three times: events outside the network). Stage 2, for each of the three
- * depths whose best node fits best: 7 x 7 at a third of that spacing around that node, at the depths
- * near it. Several starts, because first-arrival misfits have kinks (where the first phase changes,
+ * depths whose best node fits best: 7 x 7 at a third of that spacing around that node, at that depth
+ * and the tabulated depths either side. Several starts, because first-arrival misfits have kinks (where the first phase changes,
  * and at interfaces) that can hold a local search in a false minimum. The table's distance scale
  * follows the box (so a mine's network gets metre steps). Station elevations are allowed for as a
  * vertical path through the top layer.
@@ -515,7 +515,7 @@ function gridStarts(model: VelocityModel, idx: number[], picks: readonly Locatio
   const starts: Start[] = [];
   for (const cand of perDepth.slice(0, 3)) {
     const k = all.indexOf(cand.z);
-    const near = all.filter((_, i) => Math.abs(i - k) <= 2);
+    const near = all.filter((_, i) => Math.abs(i - k) <= 1);
     const refined = searchGrid(c as GridContext, cand.e - h, cand.e + h, cand.n - h, cand.n + h, 7, near).sort((x, y) => x.misfit - y.misfit)[0];
     if (!starts.some((x) => x.e === refined.e && x.n === refined.n && x.z === refined.z)) starts.push(refined);
   }

@@ -112,8 +112,7 @@ const RAD = 180 / Math.PI;
  * @param receiverElevKm receiver elevation above the datum, km (default 0; negative = below the datum)
  */
 export function firstArrival(model: VelocityModel, wave: Wave, epicentralKm: number, sourceDepthKm: number, receiverElevKm = 0): TravelTime {
-  const out: TravelTime = { time: 0, phase: '', takeoffDeg: 0, incidenceDeg: 0, slownessH: 0, dTdDepth: 0 };
-  return firstArrivalInto(out, model, wave, epicentralKm, sourceDepthKm, receiverElevKm);
+  return scan(blankArrival(), null, model, wave, epicentralKm, sourceDepthKm, receiverElevKm);
 }
 
 /** Largest |depth| or elevation accepted, km. */
@@ -136,6 +135,26 @@ function checkArgs(wave: Wave, epicentralKm: number, sourceDepthKm: number, rece
 
 /** As firstArrival, writing into `out` (no allocation; for loops that call it many times). Returns `out`. */
 export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wave, epicentralKm: number, sourceDepthKm: number, receiverElevKm = 0): TravelTime {
+  return scan(out, null, model, wave, epicentralKm, sourceDepthKm, receiverElevKm);
+}
+
+/**
+ * Every arrival of the set described at the top that exists at this distance: the direct wave and
+ * each head wave past its critical distance, fastest first (the first is firstArrival's). For
+ * records that show later phases too (a regional event's Pg after Pn).
+ */
+export function allArrivals(model: VelocityModel, wave: Wave, epicentralKm: number, sourceDepthKm: number, receiverElevKm = 0): TravelTime[] {
+  const list: TravelTime[] = [];
+  scan(blankArrival(), list, model, wave, epicentralKm, sourceDepthKm, receiverElevKm);
+  return list.sort((a, b) => a.time - b.time);
+}
+
+function blankArrival(): TravelTime {
+  return { time: 0, phase: '', takeoffDeg: 0, incidenceDeg: 0, slownessH: 0, dTdDepth: 0 };
+}
+
+/** Writes the first arrival into `out`; when `list` is given, also pushes every arrival that exists onto it. */
+function scan(out: TravelTime, list: TravelTime[] | null, model: VelocityModel, wave: Wave, epicentralKm: number, sourceDepthKm: number, receiverElevKm: number): TravelTime {
   const c = compile(model);
   checkArgs(wave, epicentralKm, sourceDepthKm, receiverElevKm);
   const v = wave === 'P' ? c.vp : c.vs;
@@ -156,6 +175,7 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
   let cosS = dCosSrc; // cos of the ray's angle to the vertical at the source
   let cosR = dCosRcv;
   let phase: string = wave === 'P' ? 'Pg' : 'Sg';
+  if (list) list.push(fillRay(blankArrival(), time, phase, p, 0, cosS, cosR, x, zs, zr, vsrc, vrcv));
 
   // ---- head waves along the tops of layers below both ends, and along the bases of layers above
   // both ends (only possible for a receiver below the datum under a faster layer)
@@ -169,6 +189,7 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
     const vm = v[m];
     if (vm > vFaster) {
       const t = headTime(tops, v, n, m, 1, x, zs, zr, kTop);
+      if (list && t < Infinity) list.push(headRay(t, heads[m], vm, 1, x, zs, zr, vsrc, vrcv));
       if (t < time) {
         time = t;
         p = 1 / vm;
@@ -183,6 +204,7 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
     const vm = v[m];
     if (vm > vFaster) {
       const t = headTime(tops, v, n, m, -1, x, zs, zr, kBot);
+      if (list && t < Infinity) list.push(headRay(t, heads[m], vm, -1, x, zs, zr, vsrc, vrcv));
       if (t < time) {
         time = t;
         p = 1 / vm;
@@ -197,6 +219,12 @@ export function firstArrivalInto(out: TravelTime, model: VelocityModel, wave: Wa
     cosR = Math.sqrt(1 - vrcv * vrcv * p * p);
   }
   return fillRay(out, time, phase, p, headDir, cosS, cosR, x, zs, zr, vsrc, vrcv);
+}
+
+/** A head wave's arrival as a new object (for allArrivals). */
+function headRay(t: number, phase: string, vm: number, dir: number, x: number, zs: number, zr: number, vsrc: number, vrcv: number): TravelTime {
+  const p = 1 / vm;
+  return fillRay(blankArrival(), t, phase, p, dir, Math.sqrt(1 - vsrc * vsrc * p * p), Math.sqrt(1 - vrcv * vrcv * p * p), x, zs, zr, vsrc, vrcv);
 }
 
 /**
@@ -231,46 +259,6 @@ function fillRay(out: TravelTime, time: number, phase: string, p: number, headDi
     out.dTdDepth = -cosS / vsrc;
   }
   return out;
-}
-
-/**
- * Every arrival of the set described at the top that exists at this distance: the direct wave and
- * each head wave past its critical distance, fastest first (the first is firstArrival's). For
- * records that show later phases too (a regional event's Pg after Pn).
- */
-export function allArrivals(model: VelocityModel, wave: Wave, epicentralKm: number, sourceDepthKm: number, receiverElevKm = 0): TravelTime[] {
-  const c = compile(model);
-  checkArgs(wave, epicentralKm, sourceDepthKm, receiverElevKm);
-  const v = wave === 'P' ? c.vp : c.vs;
-  const heads = wave === 'P' ? c.headP : c.headS;
-  const { n, tops } = c;
-  const x = epicentralKm;
-  const zs = sourceDepthKm;
-  const zr = -receiverElevKm;
-  const ks = layerOf(tops, n, zs);
-  const kr = layerOf(tops, n, zr);
-  const vsrc = v[ks];
-  const vrcv = v[kr];
-  const blank = (): TravelTime => ({ time: 0, phase: '', takeoffDeg: 0, incidenceDeg: 0, slownessH: 0, dTdDepth: 0 });
-  solveDirect(c, v, x, zs, zr, ks, kr);
-  const out = [fillRay(blank(), dTime, wave === 'P' ? 'Pg' : 'Sg', dP, 0, dCosSrc, dCosRcv, x, zs, zr, vsrc, vrcv)];
-  const kTop = ks < kr ? ks : kr;
-  const kBot = ks < kr ? kr : ks;
-  let vPath = 0;
-  for (let i = kTop; i <= kBot; i++) if (v[i] > vPath) vPath = v[i];
-  for (const dir of [1, -1]) {
-    let vFaster = vPath;
-    for (let m = dir > 0 ? kBot + 1 : kTop - 1; dir > 0 ? m < n : m >= 0; m += dir) {
-      const vm = v[m];
-      if (!(vm > vFaster)) continue;
-      vFaster = vm;
-      const t = headTime(tops, v, n, m, dir, x, zs, zr, dir > 0 ? kTop : kBot);
-      if (t === Infinity) continue;
-      const p = 1 / vm;
-      out.push(fillRay(blank(), t, heads[m], p, dir, Math.sqrt(1 - vsrc * vsrc * p * p), Math.sqrt(1 - vrcv * vrcv * p * p), x, zs, zr, vsrc, vrcv));
-    }
-  }
-  return out.sort((a, b) => a.time - b.time);
 }
 
 /**
