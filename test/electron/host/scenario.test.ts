@@ -9,10 +9,10 @@ import { writeScenario } from '../../../electron/host/scenario';
 import { DEMO_COMPLETE_MARKER } from '../../../electron/host/service';
 import { libmseedDecode } from '../../ref/libmseed';
 
-// Three minutes of the demo night around the explosion: every station, every channel.
+// 75 s of the demo night around the explosion: every station, every channel.
 const full = demoScenario();
-const start = microsFromIso('2026-11-14T20:40:00Z');
-const sc = { ...full, start, end: start + 180e6, events: full.events.filter((e) => e.origin > start && e.origin < start + 150e6) };
+const start = microsFromIso('2026-11-14T20:40:40Z');
+const sc = { ...full, start, end: start + 75e6, events: full.events.filter((e) => e.origin > start && e.origin < start + 50e6) };
 const dirs: string[] = [];
 const fresh = () => {
   const d = mkdtempSync(join(tmpdir(), 'daybreak-scenario-'));
