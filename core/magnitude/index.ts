@@ -24,3 +24,4 @@ export {
 export {
   type DurationCoefficients, type CodaOptions, type CodaDuration, LEE_BENNETT_MEAGHER_1972, durationMagnitude, codaDuration,
 } from './durationMagnitude';
+export { type EventPosition, type StationPosition, stationDistance } from './distance';
