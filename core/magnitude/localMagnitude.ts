@@ -46,6 +46,8 @@ export interface AmplitudeOptions {
   taperFraction?: number;
   /** Fraction of full scale that counts as clipped; default 0.98. */
   fullScaleFraction?: number;
+  /** A window of noise before the event (e.g. the 10 s before P) measured the same way, for the signal-to-noise ratio. */
+  noiseWindow?: TimeWindow;
 }
 
 /** A measured Wood-Anderson amplitude. */
@@ -65,6 +67,8 @@ export interface WoodAndersonAmplitude {
   readonly window: TimeWindow;
   /** True when flagged by the caller or the counts reached full scale in the window. */
   readonly clipped: boolean;
+  /** Amplitude over the same measure in the noise window, or null when no noise window was measured. */
+  readonly snr: number | null;
 }
 
 /**
@@ -85,9 +89,11 @@ export function measureWoodAndersonAmplitude(trace: HorizontalTrace, window: Tim
   });
   const peak = measurePeak(wa, trace.sampleRate, trace.start, window, measure);
   if (!peak) return null;
+  const noise = opts.noiseWindow ? measurePeak(wa, trace.sampleRate, trace.start, opts.noiseWindow, measure) : null;
   return {
     channel: trace.channel, key: channelKey(trace.channel), amplitudeM: peak.amplitude, time: peak.time, periodS: peak.periodS,
     measure, standard: opts.scale.standard.name, window, clipped,
+    snr: noise ? (noise.amplitude > 0 ? peak.amplitude / noise.amplitude : Infinity) : null,
   };
 }
 
@@ -103,6 +109,8 @@ export interface MagnitudeOptions {
   combine?: 'each' | 'max' | 'mean';
   /** Additive corrections, magnitude units, by "NET.STA.LOC.CHA" or "NET.STA" (the channel's own wins). */
   stationCorrections?: Readonly<Record<string, number>>;
+  /** Leave out amplitudes whose signal-to-noise ratio is below this (those without one are kept); default none. */
+  minSnr?: number;
 }
 
 export interface ChannelMagnitude {
@@ -115,7 +123,7 @@ export interface ChannelMagnitude {
   /**
    * Why the channel gives no magnitude, or null: 'clipped', 'another horizontal clipped' (combine
    * 'max' or 'mean': the station's datum needs all its horizontals), 'distance out of range',
-   * 'amplitude not positive'.
+   * 'low signal-to-noise' (below minSnr), 'amplitude not positive'.
    */
   readonly excluded: string | null;
 }
@@ -171,6 +179,7 @@ export function localMagnitude(
   opts: MagnitudeOptions,
 ): NetworkMagnitude {
   const combine = opts.combine ?? 'each';
+  if (opts.minSnr !== undefined && !(opts.minSnr >= 0)) throw new RangeError(`minSnr must be >= 0, got ${opts.minSnr}`);
   if (combine !== 'each' && combine !== 'max' && combine !== 'mean') throw new RangeError(`combine must be each, max or mean, got ${String(combine)}`);
   const scale = opts.scale;
   const get = (k: string): StationDistance | undefined => (distances instanceof Map ? distances.get(k) : (distances as Record<string, StationDistance>)[k]);
@@ -194,12 +203,14 @@ export function localMagnitude(
     try { distanceCorrection(scale, km); } catch { inRange = false; }
     // With 'max' or 'mean' the station's datum needs all its horizontals: one clipped spoils it.
     const siblingClipped = combine !== 'each' && list.some((a) => a.clipped);
+    const minSnr = opts.minSnr ?? 0;
     const channels: ChannelMagnitude[] = list.map((a) => {
       const correction = correctionFor(a.key, opts.stationCorrections);
       let excluded: string | null = null;
       if (a.clipped) excluded = 'clipped';
       else if (siblingClipped) excluded = 'another horizontal clipped';
       else if (!inRange) excluded = 'distance out of range';
+      else if (a.snr !== null && a.snr < minSnr) excluded = 'low signal-to-noise';
       else if (!(a.amplitudeM > 0)) excluded = 'amplitude not positive';
       const magnitude = excluded ? null : localMagnitudeOf(scale, a.amplitudeM, km, correction);
       return { key: a.key, amplitude: a, magnitude, correction, excluded };

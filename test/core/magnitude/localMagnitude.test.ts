@@ -16,9 +16,9 @@ import { quake, ringStations, tinyScenario } from '../synth/scenarioFixtures';
 const T = 1_700_000_000_000_000;
 const W: TimeWindow = { start: T, end: T + 10e6 };
 
-function amp(station: string, cha: string, metres: number, clipped = false, standard = 'UC1990'): WoodAndersonAmplitude {
+function amp(station: string, cha: string, metres: number, clipped = false, standard = 'UC1990', snr: number | null = null): WoodAndersonAmplitude {
   const channel: ChannelId = { network: 'XX', station, location: '00', channel: cha };
-  return { channel, key: channelKey(channel), amplitudeM: metres, time: T, periodS: null, measure: 'zeroToPeak', standard, window: W, clipped };
+  return { channel, key: channelKey(channel), amplitudeM: metres, time: T, periodS: null, measure: 'zeroToPeak', standard, window: W, clipped, snr };
 }
 
 describe('localMagnitude on given amplitudes (hand-computed with the IASPEI 2013 formula)', () => {
@@ -73,6 +73,11 @@ describe('localMagnitude on given amplitudes (hand-computed with the IASPEI 2013
     const far = localMagnitude([amp('AAA', 'HHN', 1e-6, false, 'AW1925')], new Map([['XX.AAA', { epicentralKm: 700, hypocentralKm: 700 }]]), { scale: RICHTER_1935 });
     expect(far.stations[0].channels[0].excluded).toBe('distance out of range');
   });
+  it('leaves out amplitudes below minSnr and keeps those without a ratio', () => {
+    const r = localMagnitude([amp('AAA', 'HHN', 1e-6, false, 'UC1990', 2.5), amp('AAA', 'HHE', 2e-6, false, 'UC1990', 1.5), amp('BBB', 'HHN', 1e-7)], dist, { scale: IASPEI_2013, minSnr: 2 });
+    expect(r.stations.flatMap((s) => s.channels.map((c) => c.excluded))).toEqual([null, 'low signal-to-noise', null]);
+    expect(r.count).toBe(2);
+  });
   it('median of an even count is the mean of the two middle values', () => {
     expect(median([4, 1, 3, 2])).toBe(2.5);
     expect(median([5, 1, 3])).toBe(3);
@@ -101,7 +106,7 @@ function measureScenario(sc: Scenario, stations: readonly StationSpec[], opts: {
       if (!meta) throw new Error(`no metadata for ${channelKey(c.id)}`);
       const a = measureWoodAndersonAmplitude({
         channel: c.id, counts: c.samples, sampleRate: c.sampleRate, start: c.start, response: channelResponse(meta), fullScaleCounts: c.spec.instrument.clipCounts,
-      }, w, { scale: IASPEI_2013 });
+      }, w, { scale: IASPEI_2013, noiseWindow: { start: ea.p.time - 12e6, end: ea.p.time - 2e6 } });
       if (a) amps.push(a);
     }
   }
@@ -116,11 +121,13 @@ describe('end to end on the synthetic generator (core/synth), whose amplitudes f
   ];
   for (const ev of events) {
     it(`recovers ML ${ev.ml} within 0.2 from at least 4 unclipped stations (larger horizontal, window from ${ev.fromOrigin ? 'origin and distance' : 'P and S'})`, () => {
-      const sc = tinyScenario(stations, [quake('a', 2, ev.ml, ev.depth, { strike: 200, dip: 55, rake: 100 }, ev.north, ev.east)], 50);
+      const sc = tinyScenario(stations, [quake('a', 15, ev.ml, ev.depth, { strike: 200, dip: 55, rake: 100 }, ev.north, ev.east)], 70);
       const { amps, dist } = measureScenario(sc, stations, { fromOrigin: ev.fromOrigin });
       const r = localMagnitude(amps, dist, { scale: IASPEI_2013, combine: 'max' });
       expect(r.stationCount).toBeGreaterThanOrEqual(4);
       expect(Math.abs((r.value as number) - ev.ml)).toBeLessThan(0.2);
+      // The 10 s before P hold only noise: the signal-to-noise ratios are large.
+      for (const a of amps) expect(a.snr as number).toBeGreaterThan(10);
       for (const s of r.stations) expect(Math.abs((s.magnitude as number) - ev.ml)).toBeLessThan(0.2);
       // Each horizontal as a datum (IASPEI) reads lower at single stations, by the ratio of the horizontals.
       const each = localMagnitude(amps, dist, { scale: IASPEI_2013 });
@@ -129,7 +136,7 @@ describe('end to end on the synthetic generator (core/synth), whose amplitudes f
     });
   }
   it('recovers the magnitude from accelerometer horizontals (HN?, m/s**2) within 0.2', () => {
-    const sc = tinyScenario(stations, [quake('a', 2, 2.2, 6, { strike: 30, dip: 70, rake: -20 }, 2, 2)], 50);
+    const sc = tinyScenario(stations, [quake('a', 15, 2.2, 6, { strike: 30, dip: 70, rake: -20 }, 2, 2)], 70);
     const withHn = stations.filter((s) => s.channels.some((c) => c.location === '10'));
     const { amps, dist } = measureScenario(sc, withHn, { location: '10' });
     expect(amps.map((a) => a.channel.channel).sort()).toEqual(['HNE', 'HNN']);
@@ -142,7 +149,7 @@ describe('end to end on the synthetic generator (core/synth), whose amplitudes f
     const hot = broadbandSensor(DIGITIZER_GAIN_40VPP * 8);
     const near: StationSpec = { ...near0, code: 'NEAR', channels: near0.channels.map((c) => ({ ...c, instrument: hot })) };
     const all = [...ring, near];
-    const sc = tinyScenario(all, [quake('big', 2, 3.5, 3, { strike: 0, dip: 45, rake: 90 })], 50);
+    const sc = tinyScenario(all, [quake('big', 15, 3.5, 3, { strike: 0, dip: 45, rake: 90 })], 70);
     const { amps, dist } = measureScenario(sc, all);
     const r = localMagnitude(amps, dist, { scale: IASPEI_2013, combine: 'max' });
     const nearMag = r.stations.find((s) => s.station === 'XX.NEAR');
