@@ -11,7 +11,8 @@
  *   A 2 pi f / fs, so K = (fs / (2 pi f))^2 makes the CF of that sine about A^2 everywhere: an envelope
  *   without the zero crossings of x^2.
  *
- * The input should be band-passed first (core/dsp): a DC offset would dominate every CF.
+ * The input should be band-passed first (core/dsp): a DC offset would dominate every CF. Samples must
+ * be finite: a NaN would stay in the recursive averages for good (the hot loops do not test for it).
  */
 import type { SampleArray } from '../model';
 

@@ -22,7 +22,7 @@ const here = dirname(fileURLToPath(import.meta.url));
 const root = resolve(here, '..', '..');
 const N = 8_640_000;
 const RATE = 100;
-const ROUNDS = 3; // alternating rounds; each runs PASSES passes
+const ROUNDS = 5; // alternating rounds; each runs PASSES passes
 const PASSES = 4;
 
 declare const gc: () => void;
