@@ -37,6 +37,7 @@ export function sosfiltfilt(sos: Float64Array, x: SampleArray, options: Sosfiltf
   const sections = sectionCount(sos);
   checkSamples(x);
   const n = x.length;
+  if (n === 0) return outputArray(0, options.out);
   const edge = options.padLength ?? defaultPadLength(sos);
   if (!Number.isInteger(edge) || edge < 0 || edge >= n) {
     throw new RangeError(`padding must be an integer from 0 to ${n - 1} samples (below the input length ${n}), got ${edge}`);

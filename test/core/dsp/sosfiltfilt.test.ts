@@ -49,6 +49,12 @@ describe('sosfiltfilt', () => {
     for (let k = 1; k < 400; k++) expect(Math.abs(y[2000 - k] - y[2000 + k]) / peak).toBeLessThan(1e-10);
   });
 
+  it('returns an empty output for an empty input, and filters a single sample with no padding', () => {
+    expect(sosfiltfilt(bp, new Float64Array(0)).length).toBe(0);
+    // One sample of value c: both passes start in the steady state for c, so a band-pass (zero gain at 0 Hz) gives 0.
+    expect(Math.abs(sosfiltfilt(bp, Float64Array.of(123.5), { padLength: 0 })[0])).toBeLessThan(1e-12);
+  });
+
   it('refuses a padding not below the input length, naming the allowed range', () => {
     expect(() => sosfiltfilt(bp, short.subarray(0, 27))).toThrow(/padding must be an integer from 0 to 26 samples \(below the input length 27\), got 27/);
     expect(() => sosfiltfilt(bp, short, { padLength: 40 })).toThrow(/from 0 to 39 samples \(below the input length 40\), got 40/);
