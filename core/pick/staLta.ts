@@ -22,12 +22,13 @@
  * simply continues with coefficient 1/Nl. So the LTA neither starts from zero (which makes the ratio
  * huge) nor waits a whole LTA window (which blinds it), and an arrival 2 s into the record is not
  * swallowed by an LTA that would still be averaging over 2 s only. No trigger is declared before
- * max(S, warmUp) has passed. With the defaults (1 s warm-up, 0.5 s STA) a trigger can come from a P 1 s or more
- * after a record's start.
+ * max(S, warmUp) has passed. With the defaults (1 s warm-up, 0.5 s STA) a trigger can come from a P
+ * 1 s or more after a record's start.
  *
  * Spikes (Daybreak's design): with `despike` the CF is replaced by the median of its last three values
- * before averaging. A single-sample spike is never the median of three, so it never reaches the
- * averages; a real arrival lasts many samples, and loses at most one sample of delay.
+ * before averaging (after a restart the first value stays, the second becomes the smaller of the first
+ * two). A single-sample spike is never the median of three, so it never reaches the averages; a real
+ * arrival lasts many samples, and loses at most one sample of delay.
  *
  * Defaults for local earthquakes (`LOCAL_EARTHQUAKE_STA_LTA`) follow Trnkoczy, "Understanding and
  * parameter setting of STA/LTA trigger algorithm", IASPEI New Manual of Seismological Observatory
