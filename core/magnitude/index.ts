@@ -1,7 +1,7 @@
 // Public API of core/magnitude: instrument response, its removal, Wood-Anderson simulation, local magnitude.
 export {
   type GroundMotion, type ResponseOptions, type ChannelResponse, MOTION_ORDER,
-  groundMotionOf, channelResponse, responseAt, sensitivityCheck, oscillatorPoles, normalizationFactorOf,
+  groundMotionOf, parseGroundUnits, channelResponse, responseAt, sensitivityCheck, oscillatorPoles, normalizationFactorOf,
 } from './response';
 export { type FrequencyResponse, type RemovalOptions, cosinePreFilter, checkPreFilter, removeResponse } from './removeResponse';
 export {

@@ -3,7 +3,7 @@
  * acceleration, optionally through a simulated instrument (Wood-Anderson).
  *
  * Steps, in this order (the usual sequence; each is common practice):
- * 1. Remove the mean.
+ * 1. Remove the mean (or, with detrend 'linear', the least-squares straight line).
  * 2. Cosine (Tukey) taper of `taperFraction` of the trace at each end (core/dsp cosineTaperWeights).
  * 3. Zero-pad to N = the power of two ≥ 2n (so the circular convolution does not wrap onto the
  *    trace) and transform (real FFT).
@@ -19,6 +19,7 @@
  */
 import FFT from 'fft.js';
 import type { SampleArray } from '../model';
+import { demean, detrend } from '../dsp/detrend';
 import { cosineTaperWeights } from '../dsp/taper';
 import { MOTION_ORDER, type ChannelResponse, type GroundMotion } from './response';
 
@@ -36,6 +37,8 @@ export interface RemovalOptions {
   waterLevelDb?: number | null;
   /** Taper per end, fraction of the trace (0 to 0.5). Default 0.05. */
   taperFraction?: number;
+  /** 'mean' (default) removes the mean; 'linear' the least-squares line (core/dsp detrend, as scipy.signal.detrend). */
+  detrend?: 'mean' | 'linear';
   /** A response to apply after the correction (output units in, any units out), e.g. Wood-Anderson. */
   simulate?: FrequencyResponse;
 }
@@ -88,14 +91,16 @@ export function removeResponse(samples: SampleArray, sampleRate: number, respons
   const taper = opts.taperFraction ?? 0.05;
   if (!(taper >= 0 && taper <= 0.5)) throw new RangeError(`taper fraction per end must be from 0 to 0.5, got ${taper}`);
 
-  // 1-2: demean and taper into the zero-padded input.
+  const trend = opts.detrend ?? 'mean';
+  if (trend !== 'mean' && trend !== 'linear') throw new RangeError(`detrend must be 'mean' or 'linear', got ${String(trend)}`);
+
+  // 1-2: demean or detrend, then taper, into the zero-padded input.
   const nfft = nextPow2(2 * n);
   const x = new Float64Array(nfft);
-  let sum = 0;
-  for (let i = 0; i < n; i++) sum += samples[i];
-  const mean = sum / n;
+  const flat = x.subarray(0, n);
+  if (trend === 'mean') demean(samples, flat); else detrend(samples, flat);
   const w = cosineTaperWeights(n, taper);
-  for (let i = 0; i < n; i++) x[i] = (samples[i] - mean) * w[i];
+  for (let i = 0; i < n; i++) x[i] *= w[i];
 
   // 3: transform.
   const fft = new FFT(nfft);

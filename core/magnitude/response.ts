@@ -28,17 +28,28 @@ export type GroundMotion = 'displacement' | 'velocity' | 'acceleration';
 /** Time-derivative order of each ground-motion kind (displacement 0, velocity 1, acceleration 2). */
 export const MOTION_ORDER: Readonly<Record<GroundMotion, number>> = { displacement: 0, velocity: 1, acceleration: 2 };
 
+const LENGTH_UNITS: Readonly<Record<string, number>> = { m: 1, cm: 1e-2, mm: 1e-3, um: 1e-6, nm: 1e-9 };
+
 /**
- * The ground-motion kind of a StationXML unit name, case-insensitive: "m" (displacement), "m/s"
- * (velocity), "m/s**2", "m/s2", "m/s/s", "m/sec**2" (acceleration). Throws RangeError for any
- * other unit (e.g. "nm/s", "V", "Pa": not ground motion in metres).
+ * Reads a StationXML ground-motion unit name, case-insensitive: a length (m, cm, mm, um, nm) alone
+ * (displacement), per second ("m/s", "nm/s", "m/sec"; velocity) or per second squared ("m/s**2",
+ * "m/s2", "m/s^2", "m/s/s", "m/sec**2"; acceleration). `metres` is the unit's length in metres.
+ * Throws RangeError for any other unit (e.g. "V", "Pa", "g").
  */
-export function groundMotionOf(units: string): GroundMotion {
+export function parseGroundUnits(units: string): { motion: GroundMotion; metres: number } {
   const u = units.trim().toLowerCase().replace(/\s+/g, '');
-  if (u === 'm') return 'displacement';
-  if (u === 'm/s' || u === 'm/sec') return 'velocity';
-  if (u === 'm/s**2' || u === 'm/s2' || u === 'm/s^2' || u === 'm/s/s' || u === 'm/sec**2' || u === 'm/sec2') return 'acceleration';
-  throw new RangeError(`input units must be ground motion in metres (m, m/s, m/s**2), got "${units}"`);
+  const m = /^([a-z]+)(\/(s|sec)(\*\*2|2|\^2|\/s|\/sec)?)?$/.exec(u);
+  const metres = m ? LENGTH_UNITS[m[1]] : undefined;
+  if (!m || metres === undefined) {
+    throw new RangeError(`input units must be ground motion in a length unit (m, cm, mm, um, nm; alone, /s or /s**2), got "${units}"`);
+  }
+  const motion: GroundMotion = m[2] === undefined ? 'displacement' : m[4] === undefined ? 'velocity' : 'acceleration';
+  return { motion, metres };
+}
+
+/** The ground-motion kind of a StationXML unit name (see parseGroundUnits). */
+export function groundMotionOf(units: string): GroundMotion {
+  return parseGroundUnits(units).motion;
 }
 
 export interface ResponseOptions {
@@ -63,7 +74,8 @@ interface PreparedStage {
 
 /**
  * A channel's response ready to evaluate. `evaluate(f, out)` writes the complex response at `f` Hz
- * (counts per input unit) into out[0] (real) and out[1] (imaginary), allocating nothing.
+ * into out[0] (real) and out[1] (imaginary), allocating nothing, in counts per SI unit of the input
+ * motion (m, m/s or m/s²; a file in nm/s is rescaled).
  */
 export interface ChannelResponse {
   /** "NET.STA.LOC.CHA" or a label, for error messages. */
@@ -72,7 +84,9 @@ export interface ChannelResponse {
   readonly input: GroundMotion;
   /** The input units as written. */
   readonly inputUnits: string;
-  /** Product of the stage gains (counts per input unit), sign included. */
+  /** Length of the input units' length unit in metres (1 for m, 1e-9 for nm). */
+  readonly metresPerUnit: number;
+  /** Product of the stage gains (counts per input unit as written in the file), sign included. */
   readonly gainProduct: number;
   /** `InstrumentSensitivity`, when the file gave one. */
   readonly sensitivity: Sensitivity | null;
@@ -176,8 +190,9 @@ export function channelResponse(meta: ChannelMeta, opts: ResponseOptions = {}): 
   if (digital !== 'gain' && digital !== 'shape') throw new RangeError(`digitalStages must be 'gain' or 'shape', got ${String(digital)}`);
   if (meta.stages.length === 0) throw new RangeError(`${label}: the channel has no response stages (need at least one)`);
   const inputUnits = meta.stages[0].inputUnits ?? meta.sensitivity?.inputUnits ?? '';
-  const input = groundMotionOf(inputUnits);
-  let constant = 1;
+  const { motion: input, metres } = parseGroundUnits(inputUnits);
+  // Counts per unit → counts per metre-based SI unit (e.g. per nm/s → per m/s: divide by 1e-9).
+  let constant = 1 / metres;
   let gainProduct = 1;
   const prepared: PreparedStage[] = [];
   for (const st of meta.stages) {
@@ -189,7 +204,7 @@ export function channelResponse(meta: ChannelMeta, opts: ResponseOptions = {}): 
   const a = new Float64Array(2);
   const b = new Float64Array(2);
   return {
-    label, input, inputUnits, gainProduct, sensitivity: meta.sensitivity ?? null,
+    label, input, inputUnits, metresPerUnit: metres, gainProduct, sensitivity: meta.sensitivity ?? null,
     evaluate(frequencyHz: number, out: Float64Array | number[]): void {
       let re = constant, im = 0;
       for (let i = 0; i < prepared.length; i++) {
@@ -233,7 +248,7 @@ export function responseAt(meta: ChannelMeta, frequencyHz: number, opts: Respons
 
 /**
  * How the stages agree with the stated `InstrumentSensitivity`: the modulus of the evaluated
- * response at the sensitivity's frequency, the product of stage gains, and their ratios to the
+ * response at the sensitivity's frequency (counts per input unit as written), the product of stage gains, and their ratios to the
  * stated value (1 when consistent). Null when the file gives no sensitivity.
  */
 export function sensitivityCheck(meta: ChannelMeta, opts: ResponseOptions = {}): {
@@ -244,7 +259,7 @@ export function sensitivityCheck(meta: ChannelMeta, opts: ResponseOptions = {}):
   const r = channelResponse(meta, opts);
   const out = new Float64Array(2);
   r.evaluate(s.frequency, out);
-  const evaluated = Math.hypot(out[0], out[1]);
+  const evaluated = Math.hypot(out[0], out[1]) * r.metresPerUnit;
   return {
     stated: s.value, frequency: s.frequency, evaluated, gainProduct: r.gainProduct,
     evaluatedRatio: evaluated / Math.abs(s.value), gainRatio: Math.abs(r.gainProduct / s.value),

@@ -59,21 +59,24 @@ describe('removeResponse against an independent numpy implementation of the same
     { name: 'accelerometer (m/s**2) to acceleration', inst: ACC, output: 'acceleration' as GroundMotion, pre: [0.1, 0.2, 35, 45] as const, wl: 60 },
     { name: 'accelerometer (m/s**2) to velocity', inst: ACC, output: 'velocity' as GroundMotion, pre: [0.1, 0.2, 35, 45] as const, wl: 60 },
     { name: 'accelerometer (m/s**2) to displacement', inst: ACC, output: 'displacement' as GroundMotion, pre: [0.2, 0.4, 35, 45] as const, wl: 60 },
+    { name: 'broadband velocity to displacement with a linear detrend (scipy.signal.detrend)', inst: BB, output: 'displacement' as GroundMotion, pre: [0.05, 0.1, 35, 45] as const, wl: 60, detrend: 'linear' as const },
   ];
   const built = cases.map((c, i) => {
     const m = meta(c.inst.poles, c.inst.zeros, c.inst.fn, c.inst.gain, c.inst.units);
     const st = m.stages[0].filter;
     const k = (st?.kind === 'polesZeros' ? st.normalizationFactor : NaN) * c.inst.gain * 419430.4;
-    return { ...c, meta: m, k, x: testCounts(n, 7 + i) };
+    const x = testCounts(n, 7 + i);
+    if (c.detrend) for (let j = 0; j < n; j++) x[j] += Math.round(j * 3.7);
+    return { ...c, meta: m, k, x };
   });
   const ref = magnitudeReference(built.map((c) => ({
     op: 'remove', x: Array.from(c.x), fs, zeros: pairsOf(c.inst.zeros), poles: pairsOf(c.inst.poles), k: c.k,
     inpower: ORDER[c.inst.units === 'm/s' ? 'velocity' : 'acceleration'], outpower: ORDER[c.output],
-    prefilt: c.pre, wl_db: c.wl, taper: 0.05, wa: null,
+    prefilt: c.pre, wl_db: c.wl, taper: 0.05, wa: null, detrend: c.detrend ?? 'mean',
   }))) as number[][];
   built.forEach((c, i) => {
     it(`${c.name}: agrees to 1e-9 of the peak (numpy.fft rfft/irfft, scipy.signal.windows.tukey; numpy 2.4.6, scipy 1.17.1)`, () => {
-      const y = removeResponse(c.x, fs, channelResponse(c.meta), { output: c.output, preFilter: c.pre, waterLevelDb: c.wl, taperFraction: 0.05 });
+      const y = removeResponse(c.x, fs, channelResponse(c.meta), { output: c.output, preFilter: c.pre, waterLevelDb: c.wl, taperFraction: 0.05, detrend: c.detrend });
       const r = ref[i];
       let peak = 0, err = 0;
       for (let j = 0; j < n; j++) {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  channelResponse, groundMotionOf, normalizationFactorOf, oscillatorPoles, responseAt, sensitivityCheck,
+  channelResponse, groundMotionOf, normalizationFactorOf, parseGroundUnits, oscillatorPoles, responseAt, sensitivityCheck,
 } from '../../../core/magnitude/response';
 import { parseStationXml } from '../../../core/stationxml/parse';
 import type { ChannelMeta, ResponseStage } from '../../../core/stationxml/types';
@@ -179,8 +179,24 @@ describe('groundMotionOf and argument checks', () => {
     expect(groundMotionOf('M/S**2')).toBe('acceleration');
     expect(groundMotionOf('m')).toBe('displacement');
   });
-  it('rejects units that are not ground motion in metres, naming them', () => {
-    expect(() => groundMotionOf('V')).toThrow(/input units must be ground motion in metres .* got "V"/);
+  it('rejects units that are not ground motion in a length unit, naming them', () => {
+    expect(() => groundMotionOf('V')).toThrow(/input units must be ground motion in a length unit .* got "V"/);
+    expect(() => groundMotionOf('m/s**3')).toThrow(RangeError);
+  });
+  it('reads nm/s and cm/s**2 and rescales the response to SI units: a channel in nm/s equals one in m/s with 1e-9 of the gain', () => {
+    expect(parseGroundUnits('NM/S')).toEqual({ motion: 'velocity', metres: 1e-9 });
+    expect(parseGroundUnits('cm/s**2')).toEqual({ motion: 'acceleration', metres: 1e-2 });
+    const poles = oscillatorPoles(1, 0.7);
+    const si = channelResponse(meta([pzStage(poles, ZZ, 5, 170), gainStage(2, 1000)]));
+    const nm = channelResponse(meta([pzStage(poles, ZZ, 5, 170e-9, 'nm/s'), gainStage(2, 1000)], { value: 170e-6, frequency: 5, inputUnits: 'nm/s', outputUnits: 'count', sign: 1 }));
+    const a = new Float64Array(2), b = new Float64Array(2);
+    si.evaluate(3, a);
+    nm.evaluate(3, b);
+    expect(b[0] / a[0]).toBeCloseTo(1, 12);
+    expect(b[1] / a[1]).toBeCloseTo(1, 12);
+    expect(nm.metresPerUnit).toBe(1e-9);
+    const nmMeta = meta([pzStage(poles, ZZ, 5, 170e-9, 'nm/s'), gainStage(2, 1000)], { value: 170e-6, frequency: 5, inputUnits: 'nm/s', outputUnits: 'count', sign: 1 });
+    expect(sensitivityCheck(nmMeta)?.evaluatedRatio).toBeCloseTo(1, 12);
   });
   it('rejects channels without stages and unsupported stage kinds', () => {
     expect(() => channelResponse(meta([]))).toThrow(/XX.TEST.00.HHZ: the channel has no response stages/);

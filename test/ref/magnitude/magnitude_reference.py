@@ -9,7 +9,7 @@ Cases ("op" selects):
              with worN = 2*pi*f (poles/zeros in rad/s) or worN = f (poles/zeros in Hz, hertz true)
   freqz_fir  b, a, freqs, fs                 -> [[re, im], ...]: scipy.signal.freqz(b, a, worN=freqs, fs=fs)
   remove     x, fs, zeros, poles, k, inpower, outpower, prefilt, wl_db, taper, wa (null or
-             {"zeros", "poles", "k"})        -> y: the removal steps of core/magnitude/removeResponse.ts
+             {"zeros", "poles", "k"}), detrend ("linear" or absent: mean)        -> y: the removal steps of core/magnitude/removeResponse.ts
              written independently with numpy.fft (rfft/irfft) and scipy.signal.windows.tukey
   wa_peak    x, fs, zeros, poles, k, wa, prefilt, wl_db, taper, i0, i1
                                              -> max |y[i0:i1]| of the same removal with the WA response
@@ -48,7 +48,7 @@ def remove(case):
     nfft = 1
     while nfft < 2 * n:
         nfft *= 2
-    x = x - x.mean()
+    x = signal.detrend(x, type="linear") if case.get("detrend") == "linear" else x - x.mean()
     x = x * signal.windows.tukey(n, 2 * case["taper"])
     X = np.fft.rfft(x, nfft)
     f = np.fft.rfftfreq(nfft, 1 / fs)
