@@ -7,9 +7,14 @@
  * z2 ← b2·v − a2·y. Substituting y, the loops compute z1 ← ((b1 − a1·b0)·v + z2) − a1·z1 and
  * z2 ← (b2 − a2·b0)·v − a2·z1 from the old z1: the same states and outputs (to rounding), but the
  * loop-carried chain from one z1 to the next is one multiply and one subtract instead of an add, a
- * multiply and a subtract, which makes the loop about 1.6 times faster on the machines we measured.
- * The inner loops run two sections per pass over the samples with every coefficient and state in
- * local variables (two independent recurrences keep the floating-point units busy).
+ * multiply and a subtract, which made the loop about 1.6 times faster where we measured (x86-64,
+ * Node 20). The folded coefficients are computed with a single rounding (see foldedCoefficient).
+ * The inner loops run two sections per pass over a block of samples with every coefficient and
+ * state in local variables (two independent recurrences keep the floating-point units busy).
+ *
+ * Speed: a reused `out` array is worth having for long inputs — a fresh 69 MB Float64Array costs
+ * about as much in first-touch page faults as filtering it through four sections
+ * (test/bench/filter.bench.ts prints both).
  */
 import type { SampleArray } from '../model';
 import { checkSamples, outputArray } from './checkSamples';
