@@ -15,6 +15,7 @@ import { drawPicks, hitPick, type PickMarks } from './picks/pickLayer';
 import { openReview, ReviewSaver } from './data/reviewSync';
 import {
   History, acceptAutomatic, addEvent, deletePick, movePick, placePick, setPickAttributes, setState, setUncertainty,
+  mergeEvents, splitEvent, setNote,
   setEventType, EVENT_TYPES, REVIEW_STATES, reviewToCsv, reviewToQuakeMl, mergeCandidates, type ReviewDocument, type ReviewEvent, type EventType,
   type ReviewState,
 } from '../core/review';
@@ -75,6 +76,14 @@ export class Desk {
   async open(onProgress: (fraction: number, note: string) => void): Promise<void> {
     await this.session.open(onProgress);
     this.sites = siteStreams(this.session.channels.keys());
+    if (this.sites.length === 0) {
+      this.root.replaceChildren(el('div', { className: 'card' },
+        el('h2', {}, 'No waveform data'),
+        el('p', {}, `No readable miniSEED records were found under ${this.session.dataset.root}.`),
+        el('ul', { className: 'problems' }, ...this.session.problems.slice(0, 50).map((p) =>
+          el('li', {}, `${p.file}${p.offset !== undefined ? ` at byte ${p.offset}` : ''}: ${p.reason}`)))));
+      return;
+    }
     await this.openReviewFile(false);
     this.build();
   }
@@ -118,7 +127,7 @@ export class Desk {
       binMicros: OVERVIEW_BIN_MICROS,
       span: [t0, t1],
       formatTime: (t) => isoFromMicros(t).slice(11, 19),
-      onPick: (t) => void this.openWindow(t - OPEN_BEFORE_S * 1e6, t + OPEN_AFTER_S * 1e6),
+      onPick: (t) => void this.openMoment(t),
     });
     this.overview.setSites(this.sites.map((s) => {
       const z = this.session.channels.get(s.channels[0]);
@@ -222,6 +231,16 @@ export class Desk {
       if (!ch.meta) flags.push(`${key.split('.')[3]} no metadata`);
     }
     return [...new Set(flags)];
+  }
+
+  /** Opens the event that holds `t`, else a window around `t` with no event open (browsing). */
+  async openMoment(t: Micros): Promise<void> {
+    const ev = this.doc?.events.find((e) => e.start <= t && t <= e.end);
+    if (ev) return this.openEvent(ev.id);
+    this.currentEvent = null;
+    this.selected = null;
+    this.afterDocChange(false);
+    await this.openWindow(t - OPEN_BEFORE_S * 1e6, t + OPEN_AFTER_S * 1e6);
   }
 
   async openWindow(start: Micros, end: Micros): Promise<void> {
@@ -351,11 +370,30 @@ export class Desk {
     accept.addEventListener('click', () => this.apply((d) => acceptAutomatic(d, ev.id)));
     const p = ev.picks.filter((x) => x.phase === 'P').length;
     const sCount = ev.picks.length - p;
+    const note = el('input', { type: 'text', value: ev.note, placeholder: 'note', className: 'note', title: 'A note on this event (saved when you leave the field)' });
+    note.addEventListener('change', () => this.apply((d) => setNote(d, ev.id, note.value)));
+    const events = this.doc?.events ?? [];
+    const next = events[events.findIndex((e) => e.id === ev.id) + 1];
+    const merge = el('button', { title: next ? `Merge the next event (${isoFromMicros(next.start).slice(11, 19)}) into this one: they are one event` : 'No later event to merge', disabled: !next }, 'Merge next');
+    merge.addEventListener('click', () => { if (next) this.apply((d) => mergeEvents(d, ev.id, next.id)); void this.openEvent(ev.id); });
+    const split = el('button', { title: 'Split this event in two at the centre of the view: picks before stay, picks after go to a new event' }, 'Split at centre');
+    split.addEventListener('click', () => this.splitAtCentre());
     this.eventBar.replaceChildren(
       el('span', { className: 'ev-id' }, ev.id),
       el('span', { className: 'muted' }, ` ${p} P \u00b7 ${sCount} S `),
-      el('label', {}, 'State ', state), el('label', {}, 'Type ', type, ' ', certainty), accept,
+      el('label', {}, 'State ', state), el('label', {}, 'Type ', type, ' ', certainty), accept, merge, split, note,
       el('span', { className: 'selected-pick' }, this.selectedText(ev)));
+  }
+
+  private splitAtCentre(): void {
+    const ev = this.currentEv();
+    if (!ev || !this.traces) return;
+    const [x0, x1] = this.traces.window;
+    const at = this.ref + Math.round(((x0 + x1) / 2) * 1e6);
+    let newId = '';
+    if (this.apply((d) => { const r = splitEvent(d, ev.id, at); newId = r.newEventId; return r.doc; })) {
+      this.setStatus(`split at ${isoFromMicros(at).slice(11, 23)}: the later part is ${newId}`);
+    }
   }
 
   private selectedText(ev: ReviewEvent): string {

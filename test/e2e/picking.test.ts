@@ -28,7 +28,8 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
       }
       await new Promise((r) => setTimeout(r, 50));
     }
-    throw new Error(`review file never reached the expected state: ${existsSync(reviewFile()) ? readFileSync(reviewFile(), 'utf8').slice(0, 400) : 'no file'}`);
+    await app.page.screenshot({ path: screenshotPath('picking-failure') });
+    throw new Error(`review file never reached the expected state (status: ${await app.page.locator('.status').innerText()}): ${existsSync(reviewFile()) ? readFileSync(reviewFile(), 'utf8').slice(0, 400) : 'no file'}`);
   }
   async function plotBox() {
     const box = await app.page.locator('.trace-row:visible .trace-plot').first().boundingBox();
@@ -138,13 +139,40 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     expect(s.events[0].picks.find((p) => p.phase === 'S')!.channel).toMatch(/\.DPN$/);
   });
 
+  it('adds an event from a window, merges it into the first and splits them apart again', async () => {
+    // Open another moment from the overview (a quarter of the way across the strips): no event there yet.
+    const ov = await app.page.locator('canvas.overview-canvas').boundingBox();
+    await app.page.mouse.click(ov!.x + ov!.width * 0.3, ov!.y + 5);
+    await app.page.getByRole('button', { name: 'Make this window an event' }).click();
+    let s = await savedWhen((x) => x.events.length === 2);
+    const [first, second] = s.events;
+    expect(second.picks).toEqual([]);
+    await app.page.locator('.event-list li', { hasText: first.start.slice(11, 19) }).click();
+    await app.page.getByRole('button', { name: 'Merge next' }).click();
+    s = await savedWhen((x) => x.events.length === 1);
+    expect(s.events[0]).toMatchObject({ id: first.id, start: first.start, end: second.end });
+    expect(s.events[0].picks.length).toBe(first.picks.length);
+    await app.page.keyboard.press('g');
+    await app.page.getByRole('button', { name: 'Split at centre' }).click();
+    s = await savedWhen((x) => x.events.length === 2);
+    expect(s.events[0].id).toBe(first.id);
+    expect(s.events[1].start).toBe(s.events[0].end);
+    // Every pick stays on the side of the split it was on.
+    expect(s.events[0].picks.length + s.events[1].picks.length).toBe(first.picks.length);
+    // Put it back as it was for the tests that follow.
+    await app.page.keyboard.press('Control+z');
+    await app.page.keyboard.press('Control+z');
+    s = await savedWhen((x) => x.events.length === 2 && x.events[1].picks.length === 0 && x.events[0].end === first.end);
+    await app.page.locator('.event-list li', { hasText: first.start.slice(11, 19) }).click();
+  });
+
   it('keeps every edit across a reload and resumes on the event', async () => {
     const before = saved();
     await app.page.reload();
     await app.page.locator('.event-list li.current').waitFor({ timeout: 60_000 });
     await app.page.waitForTimeout(300);
     expect(saved()).toEqual(before);
-    expect(await app.page.locator('.event-list li').count()).toBe(1);
+    expect(await app.page.locator('.event-list li').count()).toBe(before.events.length);
     await app.page.screenshot({ path: screenshotPath('picking-reloaded') });
   });
 

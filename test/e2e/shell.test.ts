@@ -20,10 +20,12 @@ describe('app shell in browser mode (Chromium)', () => {
   }, 120_000);
   afterAll(async () => { await app?.close(); });
 
-  it('opens the demo folder through the host and lists its files', async () => {
-    await app.page.getByText('ZZ.QRS.00.HHZ.2026-12-01.mseed').waitFor({ timeout: 15_000 });
+  it('opens the demo folder through the host and says which file held no readable records, and why', async () => {
+    await app.page.getByText('No waveform data').waitFor({ timeout: 30_000 });
     await app.page.screenshot({ path: screenshotPath('shell') });
-    expect(await app.page.locator('table.files tr').count()).toBe(3);
+    const problems = await app.page.locator('ul.problems li').allInnerTexts();
+    expect(problems.length).toBeGreaterThan(0);
+    expect(problems[0]).toMatch(/^waveforms\/ZZ\.QRS\.00\.HHZ\.2026-12-01\.mseed at byte 0: /);
   });
 
   it('shows the caution about preliminary results on every screen and in the about box', async () => {

@@ -7,12 +7,15 @@ const USAGE = `usage: daybreak <command> [options]
 
 commands:
   info [--json] PATH...   what the miniSEED files at PATH (files or folders) hold
+  demo [--out DIR] [--seed N] [--workers N]
+                          (re)generate the invented demo scenario (default samples/generated)
 `;
 
 type Command = (args: string[]) => Promise<number>;
 
 const commands: Record<string, () => Promise<Command>> = {
   info: async () => (await import('./info')).info,
+  demo: async () => (await import('./demo')).demo,
   scan: async () => (await import('./scan')).scan,
 };
 
