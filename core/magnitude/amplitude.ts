@@ -79,6 +79,8 @@ export function windowFromOrigin(w: WindowFromOrigin): TimeWindow {
 
 /** Sample index range [from, to) of `window` in a trace starting at `start` µs with `sampleRate` Hz, clamped to [0, n]. */
 export function windowIndices(window: TimeWindow, start: Micros, sampleRate: number, n: number): [number, number] {
+  if (!(sampleRate > 0) || !Number.isFinite(sampleRate)) throw new RangeError(`sample rate must be > 0 Hz, got ${sampleRate}`);
+  if (!Number.isInteger(n) || n < 0) throw new RangeError(`sample count must be a non-negative integer, got ${n}`);
   const from = Math.max(0, Math.ceil(((window.start - start) * sampleRate) / 1e6 - 1e-9));
   const to = Math.min(n, Math.floor(((window.end - start) * sampleRate) / 1e6 + 1e-9) + 1);
   return [from, Math.max(from, to)];

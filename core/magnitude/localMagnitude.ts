@@ -78,6 +78,12 @@ export interface WoodAndersonAmplitude {
  */
 export function measureWoodAndersonAmplitude(trace: HorizontalTrace, window: TimeWindow, opts: AmplitudeOptions): WoodAndersonAmplitude | null {
   const measure = opts.measure ?? 'zeroToPeak';
+  if (!(trace.counts instanceof Int32Array || trace.counts instanceof Float32Array || trace.counts instanceof Float64Array)) {
+    throw new TypeError(`${channelKey(trace.channel)}: counts must be an Int32Array, Float32Array or Float64Array`);
+  }
+  if (!(trace.sampleRate > 0) || !Number.isFinite(trace.sampleRate)) throw new RangeError(`${channelKey(trace.channel)}: sample rate must be > 0 Hz, got ${trace.sampleRate}`);
+  if (!Number.isFinite(trace.start)) throw new RangeError(`${channelKey(trace.channel)}: start time must be finite µs, got ${trace.start}`);
+  if (!(window.end > window.start)) throw new RangeError(`window end must be after its start, got ${window.start} to ${window.end} µs`);
   const [from, to] = windowIndices(window, trace.start, trace.sampleRate, trace.counts.length);
   if (to - from < 2) return null;
   let clipped = trace.clipped === true;

@@ -163,3 +163,15 @@ describe('end to end on the synthetic generator (core/synth), whose amplitudes f
     expect(each.stations.find((s) => s.station === 'XX.NEAR')?.channels.map((c) => c.excluded)).toEqual(['clipped', null]);
   });
 });
+
+describe('measureWoodAndersonAmplitude argument checks', () => {
+  it('names the channel and the bad sample rate, and rejects an empty window', () => {
+    const meta: ChannelMeta = {
+      id: { network: 'XX', station: 'AAA', location: '00', channel: 'HHN' }, start: null, end: null, latitude: 0, longitude: 0, elevation: 0, depth: 0,
+      azimuth: 0, dip: 0, sampleRate: 100, stages: [{ number: 1, inputUnits: 'm', outputUnits: 'count', decimation: null, gain: { value: 1e9, frequency: 1 }, filter: null }],
+    };
+    const trace = { channel: meta.id, counts: new Int32Array(1000), sampleRate: 0, start: T, response: channelResponse(meta) };
+    expect(() => measureWoodAndersonAmplitude(trace, W, { scale: IASPEI_2013 })).toThrow(/XX.AAA.00.HHN: sample rate must be > 0 Hz, got 0/);
+    expect(() => measureWoodAndersonAmplitude({ ...trace, sampleRate: 100 }, { start: T, end: T }, { scale: IASPEI_2013 })).toThrow(/window end must be after its start/);
+  });
+});
