@@ -55,6 +55,12 @@ export function groundMotionOf(units: string): GroundMotion {
 export interface ResponseOptions {
   /** 'gain' (default): digital stages count by their gain only; 'shape': their filter too. */
   digitalStages?: 'gain' | 'shape';
+  /**
+   * When the channel has no stages, use its InstrumentSensitivity as a flat response (real, its
+   * value at every frequency). Right only where the sensor is flat in its input units (e.g. a
+   * broadband velocity sensor between its corners); default false (no stages is an error).
+   */
+  sensitivityOnly?: boolean;
 }
 
 /** One stage prepared for evaluation: flat arrays, no objects per call. */
@@ -188,7 +194,21 @@ export function channelResponse(meta: ChannelMeta, opts: ResponseOptions = {}): 
   const label = `${meta.id.network}.${meta.id.station}.${meta.id.location}.${meta.id.channel}`;
   const digital = opts.digitalStages ?? 'gain';
   if (digital !== 'gain' && digital !== 'shape') throw new RangeError(`digitalStages must be 'gain' or 'shape', got ${String(digital)}`);
-  if (meta.stages.length === 0) throw new RangeError(`${label}: the channel has no response stages (need at least one)`);
+  if (meta.stages.length === 0) {
+    const sens = meta.sensitivity;
+    if (!opts.sensitivityOnly || !sens) {
+      throw new RangeError(`${label}: the channel has no response stages (need at least one${sens ? ', or sensitivityOnly' : ''})`);
+    }
+    const { motion, metres } = parseGroundUnits(sens.inputUnits);
+    const flat = sens.value / metres;
+    return {
+      label, input: motion, inputUnits: sens.inputUnits, metresPerUnit: metres, gainProduct: sens.value, sensitivity: sens,
+      evaluate(_f: number, out: Float64Array | number[]): void {
+        out[0] = flat;
+        out[1] = 0;
+      },
+    };
+  }
   const inputUnits = meta.stages[0].inputUnits ?? meta.sensitivity?.inputUnits ?? '';
   const { motion: input, metres } = parseGroundUnits(inputUnits);
   // Counts per unit → counts per metre-based SI unit (e.g. per nm/s → per m/s: divide by 1e-9).

@@ -203,6 +203,14 @@ describe('groundMotionOf and argument checks', () => {
     const poly: ResponseStage = { number: 1, inputUnits: 'm/s', outputUnits: 'V', decimation: null, gain: { value: 1, frequency: 1 }, filter: { kind: 'polynomial', coefficients: [0, 1] } };
     expect(() => channelResponse(meta([poly]))).toThrow(/polynomial stages are not evaluated/);
   });
+  it('with sensitivityOnly, a channel without stages is flat at its InstrumentSensitivity (sign kept)', () => {
+    const m = meta([], { value: -6.3e8, frequency: 1, inputUnits: 'M/S', outputUnits: 'COUNTS', sign: -1 });
+    expect(() => channelResponse(m)).toThrow(/no response stages \(need at least one, or sensitivityOnly\)/);
+    const r = channelResponse(m, { sensitivityOnly: true });
+    const out = new Float64Array(2);
+    r.evaluate(7, out);
+    expect([out[0], out[1], r.input]).toEqual([-6.3e8, 0, 'velocity']);
+  });
   it('rejects a normalization frequency on a pole', () => {
     expect(() => normalizationFactorOf([{ re: 0, im: 2 * Math.PI }], [], 1)).toThrow(/no finite non-zero response at 1 Hz/);
   });
