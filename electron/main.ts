@@ -25,7 +25,9 @@ function isTrustedSender(event: IpcMainInvokeEvent): boolean {
   const frame = event.senderFrame;
   if (!frame || frame !== event.sender.mainFrame) return false;   // top-level frame only
   try {
-    return new URL(frame.url).origin === ORIGIN;
+    // Compare scheme and host (URL.origin of a custom scheme is "null" outside Chromium).
+    const url = new URL(frame.url);
+    return url.protocol === `${SCHEME}:` && url.host === 'daybreak';
   } catch {
     return false;
   }
