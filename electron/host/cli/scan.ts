@@ -32,6 +32,8 @@ import { CAUTION } from '../../../core/caution';
 import { presetSettings, SCAN_PRESETS, type ScanPreset, type ScanSettings } from '../../../core/scan/settings';
 import { TriggerStream } from '../../../core/scan/triggerStream';
 import { eventPicks, pickId, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
+import { eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';
+import { DEFAULT_MODEL, parseVelocityModel, type VelocityModel } from '../../../core/location';
 import { listFiles } from '../mseedFiles';
 import { indexFile, readWindow, type IndexedFile } from '../scan/recordFiles';
 import { duration } from './info';
@@ -49,6 +51,7 @@ const USAGE = `usage: daybreak scan --stations STATIONXML --out OUT.xml [options
   --min-sites N        sites that must trigger together (3)
   --vmin V             slowest P velocity the coincidence allows, km/s (3)
   --chunk S            seconds of data processed at a time (600); bounds memory
+  --model FILE         velocity model JSON for the origins (default: core/location's DEFAULT_MODEL)
   --agency ID          creationInfo agencyID (default "daybreak")
   --author NAME        creationInfo author (default "daybreak scan")
   --authority A        authority of the smi: identifiers (default "daybreak.local")
@@ -58,6 +61,9 @@ class ArgumentError extends Error {}
 
 export interface ScanArgs {
   stations: string;
+  /** Velocity model for the origins and the name written as its earthModelID. */
+  model: VelocityModel;
+  modelId: string;
   out: string;
   paths: string[];
   settings: ScanSettings;
@@ -77,7 +83,7 @@ function num(name: string, v: string | undefined, min: number, max: number, inte
 export function parseScanArgs(args: string[]): ScanArgs {
   const values = new Map<string, string>();
   const paths: string[] = [];
-  const known = ['--stations', '--out', '--preset', '--band', '--sta', '--lta', '--on', '--off', '--min-sites', '--vmin', '--chunk', '--agency', '--author', '--authority'];
+  const known = ['--stations', '--out', '--preset', '--band', '--sta', '--lta', '--on', '--off', '--min-sites', '--vmin', '--chunk', '--agency', '--author', '--authority', '--model'];
   let optionsDone = false;
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -128,6 +134,15 @@ export function parseScanArgs(args: string[]): ScanArgs {
   const author = values.get('--author') ?? 'daybreak scan';
   const authority = values.get('--authority') ?? 'daybreak.local';
   if (!/^[\w.\-~]{1,200}$/.test(authority)) throw new ArgumentError(`--authority must be 1-200 of letters, digits and .-_~, got "${authority}"`);
+  let model = DEFAULT_MODEL;
+  let modelId = 'default';
+  const modelPath = values.get('--model');
+  if (modelPath !== undefined) {
+    let text: string;
+    try { text = readFileSync(modelPath, 'utf8'); } catch { throw new ArgumentError(`--model: cannot read "${modelPath}"`); }
+    try { model = parseVelocityModel(text, modelPath); } catch (e) { throw new ArgumentError(`--model: ${(e as Error).message}`); }
+    modelId = basename(modelPath).replace(/\.json$/i, '').replace(/[^\w.\-~]/g, '_') || 'model';
+  }
   for (const p of paths) {
     try { statSync(p); } catch { throw new ArgumentError(`no such file or folder: "${p}"`); }
   }
@@ -137,7 +152,7 @@ export function parseScanArgs(args: string[]): ScanArgs {
   try {
     if (!statSync(dirname(out)).isDirectory()) throw new Error();
   } catch { throw new ArgumentError(`--out: the folder "${dirname(out)}" does not exist`); }
-  return { stations, out, paths, settings, agency, author, authority };
+  return { stations, model, modelId, out, paths, settings, agency, author, authority };
 }
 
 function miniSeedKind(path: string): 'mseed2' | 'mseed3' | 'other' {
@@ -195,6 +210,8 @@ interface SiteInfo {
   vertical: ChannelId;
   horizontals: readonly [ChannelId, ChannelId] | null;
   position: SitePosition;
+  /** The vertical sensor's position, for the locator (elevation minus burial depth, m). */
+  coordinates: SiteCoordinates;
 }
 
 export interface ScanSummary {
@@ -204,6 +221,7 @@ export interface ScanSummary {
   channels: number;
   hours: number;
   candidates: number;
+  located: number;
   picks: { P: number; S: number };
   skippedChannels: { id: string; why: string }[];
   seconds: number;
@@ -232,7 +250,7 @@ export async function scan(args: string[]): Promise<number> {
   const s = a.settings;
   const bar = process.stderr.isTTY ? progressBar(process.stderr) : null;
   const summary: ScanSummary = {
-    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, picks: { P: 0, S: 0 }, skippedChannels: [], seconds: 0,
+    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, picks: { P: 0, S: 0 }, skippedChannels: [], seconds: 0,
   };
   let bad = false;
 
@@ -285,7 +303,10 @@ export async function scan(args: string[]): Promise<number> {
   for (const st of streams) {
     const meta = findChannel(inv, st.vertical, midOf(st.vertical));
     if (!meta) continue;
-    sites.set(st.site, { key: st.site, vertical: st.vertical, horizontals: st.horizontals, position: { latitude: meta.latitude, longitude: meta.longitude } });
+    sites.set(st.site, {
+      key: st.site, vertical: st.vertical, horizontals: st.horizontals, position: { latitude: meta.latitude, longitude: meta.longitude },
+      coordinates: { latitude: meta.latitude, longitude: meta.longitude, elevationM: meta.elevation - meta.depth },
+    });
     chosen.add(channelKey(st.vertical));
     if (st.horizontals) for (const h of st.horizontals) chosen.add(channelKey(h));
   }
@@ -411,7 +432,15 @@ export async function scan(args: string[]): Promise<number> {
     }
     const picks = eventPicks(ev, pickSites, sosFor, s);
     for (const p of picks) summary.picks[p.phaseHint]++;
-    qmlEvents.push(toQmlEvent(ev, picks));
+    const qe = toQmlEvent(ev, picks);
+    const coords = new Map([...sites.values()].map((x) => [x.key, x.coordinates]));
+    const o = eventOrigin(ev.id, picks, qe.picks.map((p) => p.id), coords, a.model, a.modelId);
+    if (o.ok) {
+      qe.origins.push(o.origin);
+      qe.preferredOriginId = o.origin.id;
+      summary.located++;
+    } else qe.comment = `${qe.comment}; not located: ${o.message}`;
+    qmlEvents.push(qe);
   }
 
   // Output, atomically.
@@ -473,6 +502,7 @@ export function writeAtomically(path: string, text: string): void {
 export function summaryText(sm: ScanSummary, out: string): string {
   const lines: string[] = [];
   lines.push(`daybreak scan: ${sm.candidates} candidate event${sm.candidates === 1 ? '' : 's'}, ${sm.picks.P} P and ${sm.picks.S} S picks written to ${out}`);
+  lines.push(`  located: ${sm.located} of ${sm.candidates} (an origin each)`);
   lines.push(`  files: ${sm.files} miniSEED read${sm.skippedFiles.length ? `, ${sm.skippedFiles.length} skipped` : ''}`);
   lines.push(`  channels: ${sm.channels} with data, ${sm.skippedChannels.length} not used`);
   lines.push(`  data: ${sm.hours.toFixed(2)} h per triggering channel`);

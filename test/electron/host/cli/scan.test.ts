@@ -9,7 +9,8 @@ import type { QmlDocument, QmlPick } from '../../../../core/quakeml';
 import { microsFromIso } from '../../../../core/time';
 import type { TruthArrival } from '../../../../core/synth/truth';
 import { parseScanArgs } from '../../../../electron/host/cli/scan';
-import { writeSmallNight } from './scanFixture';
+import { distanceAzimuth } from '../../../../core/synth/geometry';
+import { smallNight, writeSmallNight } from './scanFixture';
 
 // The command runs as a child process, exactly as cron or another tool runs it. References:
 // - the generator's known arrival times and first-motion signs (core/synth, whose travel times and
@@ -70,9 +71,9 @@ beforeAll(() => {
   // Default chunk (600 s) holds the whole 300 s night; --chunk 7 cuts it into 43 pieces whose borders
   // fall at odd places, one of them 1 s after midnight.
   single = daybreak('scan', '--stations', join(dir, 'night', 'stations.xml'), '--out', join(dir, 'single.xml'),
-    '--agency', 'XX-TEST', '--author', 'night shift', join(dir, 'night', 'waveforms'));
+    '--model', join(dir, 'night', 'model.json'), '--agency', 'XX-TEST', '--author', 'night shift', join(dir, 'night', 'waveforms'));
   chunked = daybreak('scan', '--stations', join(dir, 'night', 'stations.xml'), '--out', join(dir, 'chunked.xml'),
-    '--agency', 'XX-TEST', '--author', 'night shift', '--chunk', '7', join(dir, 'night', 'waveforms'));
+    '--model', join(dir, 'night', 'model.json'), '--agency', 'XX-TEST', '--author', 'night shift', '--chunk', '7', join(dir, 'night', 'waveforms'));
 }, 120_000);
 afterAll(() => {
   if (dir) rmSync(dir, { recursive: true, force: true });
@@ -136,6 +137,25 @@ describe('daybreak scan on a small synthetic night (five stations, two earthquak
       expect(err, `${a.station} ${a.wave} ${a.time}`).toBeLessThanOrEqual(a.wave === 'P' ? 0.03 : 0.05);
       if (a.wave === 'P' && a.snr !== null && a.snr >= 10) expect(near[0].polarity, `${a.station} P ${a.time}`).toBe(a.polarity);
     }
+  });
+
+  it('writes an origin for each event within 1 km of the true epicentre, 2 km of the depth and 0.1 s of the origin time, its arrivals naming the picks', () => {
+    const doc = readQuakeMl(readFileSync(join(dir, 'single.xml'), 'utf8'), 'single.xml');
+    expect(single.stdout).toContain('located: 2 of 2');
+    const sc = smallNight();
+    doc.events.forEach((e, i) => {
+      const ev = sc.events[i];
+      expect(e.origins).toHaveLength(1);
+      const o = e.origins[0];
+      expect(e.preferredOriginId).toBe(o.id);
+      const km = distanceAzimuth(ev.latitude, ev.longitude, o.latitude, o.longitude).distanceKm;
+      expect(km, `${ev.id} epicentre`).toBeLessThan(1);
+      expect(Math.abs(o.depthM / 1000 - ev.depthKm), `${ev.id} depth`).toBeLessThan(2);
+      expect(Math.abs(o.time - ev.origin) / 1e6, `${ev.id} origin time`).toBeLessThan(0.1);
+      expect(o.evaluationMode).toBe('automatic');
+      expect(o.arrivals.map((a) => a.pickId).sort()).toEqual(e.picks.map((p) => p.id).sort());
+      expect(o.quality?.usedPhaseCount).toBe(e.picks.length);
+    });
   });
 
   it('gives the same events and picks when the night is processed in 7 s chunks as in one chunk', () => {
@@ -208,6 +228,7 @@ describe('daybreak scan with unusable arguments', () => {
     ['a fractional --min-sites', ['--stations', 'S', '--out', 'O', '--min-sites', '2.5', 'P'], /--min-sites must be an integer from 1/],
     ['an unknown preset', ['--stations', 'S', '--out', 'O', '--preset', 'fast', 'P'], /--preset must be one of local, near, got "fast"/],
     ['an output folder that does not exist', ['--stations', 'S', '--out', '/no/such/dir/out.xml', 'P'], /--out: the folder "\/no\/such\/dir" does not exist/],
+    ['a velocity model that is not JSON', ['--stations', 'S', '--out', 'O', '--model', 'S', 'P'], /--model: .*not valid JSON/],
     ['a StationXML that does not exist', ['--stations', '/no/inv.xml', '--out', 'O', 'P'], /--stations: no such file: "\/no\/inv\.xml"/],
   ];
   for (const [what, args, message] of cases) {

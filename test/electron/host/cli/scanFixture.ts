@@ -7,6 +7,7 @@
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { velocityModelJson } from '../../../../core/location/velocityModel';
 import { writeStationXml } from '../../../../core/stationxml/write';
 import { channelFiles } from '../../../../core/synth/files';
 import { scenarioInventory } from '../../../../core/synth/inventory';
@@ -28,10 +29,11 @@ export function smallNight(): Scenario {
   return { ...tinyScenario(stations, events, NIGHT_SECONDS), start: NIGHT_START, end: NIGHT_START + NIGHT_SECONDS * 1e6 };
 }
 
-/** Writes waveforms/*.mseed, stations.xml and a notes.txt beside them into `dir`; returns the truth arrivals. */
+/** Writes waveforms/*.mseed, stations.xml, model.json (the generator's) and a notes.txt into `dir`; returns the truth arrivals. */
 export function writeSmallNight(dir: string, sc: Scenario = smallNight()): TruthArrival[] {
   mkdirSync(join(dir, 'waveforms'), { recursive: true });
   writeFileSync(join(dir, 'stations.xml'), writeStationXml(scenarioInventory(sc)));
+  writeFileSync(join(dir, 'model.json'), velocityModelJson(sc.model));
   writeFileSync(join(dir, 'waveforms', 'notes.txt'), 'not a waveform file\n');
   const truth: TruthArrival[] = [];
   for (const st of sc.stations) {
