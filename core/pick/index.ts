@@ -6,7 +6,7 @@ export type {
 export { type CharacteristicFunction, CHARACTERISTIC_FUNCTIONS, envelopeWeight } from './characteristic';
 export {
   LOCAL_EARTHQUAKE_STA_LTA, type StaLtaForm, type StaLtaOptions, StaLtaDetector, StaLtaRatio,
-  resolveStaLtaOptions, staLtaRatio, staLtaTriggers, windowSamples,
+  channelTriggers, resolveStaLtaOptions, staLtaRatio, staLtaTriggers, windowSamples,
 } from './staLta';
 export { type AicResult, autocorrelationTime, jointAic, maedaAic } from './aic';
 export {

@@ -41,7 +41,7 @@
  * Continuous data may be fed in chunks ({@link StaLtaDetector.push}); the state carries over, so the
  * ratio and the triggers are bit-for-bit those of one pass over the joined data.
  */
-import type { ChannelId, SampleArray } from '../model';
+import type { ChannelData, ChannelId, SampleArray } from '../model';
 import type { Micros } from '../time';
 import { type CharacteristicFunction, CHARACTERISTIC_FUNCTIONS, characteristicInto, envelopeWeight } from './characteristic';
 import type { StationTrigger, TriggerEnd } from './types';
@@ -560,4 +560,23 @@ export function staLtaTriggers(
 ): StationTrigger[] {
   const d = new StaLtaDetector(id, sampleRate, options);
   return [...d.push(samples, start), ...d.finish()];
+}
+
+/**
+ * Triggers of one channel as read (core/model ChannelData): its segments in time order, each gap
+ * restarting the averages. Sample times within a segment are counted from the segment's start.
+ * Throws RangeError when the segments do not share one sample rate.
+ */
+export function channelTriggers(channel: ChannelData, options: Partial<StaLtaOptions> = {}): StationTrigger[] {
+  const segs = channel.segments;
+  if (segs.length === 0) return [];
+  const rate = segs[0].sampleRate;
+  for (const s of segs) {
+    if (s.sampleRate !== rate) throw new RangeError(`segments of ${channel.id.station}.${channel.id.channel} must share one sample rate, got ${rate} and ${s.sampleRate} Hz`);
+  }
+  const d = new StaLtaDetector(channel.id, rate, options);
+  const out: StationTrigger[] = [];
+  for (const s of segs) out.push(...d.push(s.samples, s.start));
+  out.push(...d.finish());
+  return out;
 }

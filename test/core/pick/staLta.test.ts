@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import {
-  LOCAL_EARTHQUAKE_STA_LTA, StaLtaDetector, staLtaRatio, staLtaTriggers, type StaLtaOptions,
+  channelTriggers, LOCAL_EARTHQUAKE_STA_LTA, StaLtaDetector, staLtaRatio, staLtaTriggers, type StaLtaOptions,
 } from '../../../core/pick/staLta';
+import type { ChannelData, Segment } from '../../../core/model';
 import type { StationTrigger } from '../../../core/pick/types';
 import { numpy, numpyVersions } from './numpy';
 
@@ -297,6 +298,26 @@ describe('STA/LTA triggers', () => {
       on.push(t[0].on);
     }
     expect(Math.abs(on[0] - on[1])).toBeLessThanOrEqual(10_000);
+  });
+
+  it('channelTriggers runs a channel\'s segments in order, a gap between them restarting the averages', () => {
+    const a = noise('openA');
+    addWavelet(a, 2900, 100, 10); // trigger open at the gap
+    const b = noise('openB');
+    addWavelet(b, 1500, 100, 10);
+    const seg = (samples: Float64Array, start: number): Segment => ({
+      id, sampleRate: 100, start, end: start + (samples.length - 1) * 10_000, samples,
+      recordStarts: new Float64Array([start]), recordFirstSample: new Int32Array([0]), encoding: 5, recordLength: 512, quality: 'D',
+      timing: { qualityMin: null, qualityMax: null, clockLockedRecords: 0, questionableTimeRecords: 0, leapSecondRecords: 0, steimMismatchRecords: 0, records: 1 },
+    });
+    const gapStart = T0 + 100_000_000;
+    const ch: ChannelData = { id, segments: [seg(a, T0), seg(b, gapStart)], gaps: [{ start: T0 + 30_000_000, end: gapStart }], overlaps: [], duplicatesDropped: 0 };
+    const got = channelTriggers(ch);
+    expect(got.map((t) => t.endedBy)).toEqual(['gap', 'ratio']);
+    expect(got[0].off).toBe(T0 + 29_990_000);
+    expect(got[1].on).toBeGreaterThanOrEqual(gapStart + 15_000_000);
+    expect(got[1].on).toBeLessThanOrEqual(gapStart + 15_500_000);
+    expect(() => channelTriggers({ ...ch, segments: [seg(a, T0), { ...seg(b, gapStart), sampleRate: 50 }] })).toThrow(/share one sample rate, got 100 and 50 Hz/);
   });
 
   it('FLOAT32 and INT32 samples give the ratio of the same values as float64 (the fused float64 loop does the same arithmetic)', () => {
