@@ -27,7 +27,7 @@ import { butterworth, sosfilt, sosfiltfilt } from '../../core/dsp';
 const here = dirname(fileURLToPath(import.meta.url));
 const SAMPLES = 8_640_000;
 const RATE = 100;
-const ROUNDS = 7;
+const ROUNDS = 11;
 
 /** Present when node runs with --expose-gc (bin/bench.mjs does). */
 const gc = (globalThis as { gc?: () => void }).gc;
