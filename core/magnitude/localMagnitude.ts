@@ -73,8 +73,9 @@ export interface WoodAndersonAmplitude {
 
 /**
  * Simulates the scale's Wood-Anderson on `trace` and measures the peak in `window`. Null when the
- * window holds fewer than 2 samples of the trace. The trace should extend well beyond the window
- * (the taper covers 5 % of it at each end).
+ * window holds fewer than 2 samples of the trace. Pass a stretch around the event, not hours (the
+ * whole trace is transformed); the window and the noise window must lie clear of the tapered ends
+ * (5 % of the trace at each end by default), or a RangeError says so.
  */
 export function measureWoodAndersonAmplitude(trace: HorizontalTrace, window: TimeWindow, opts: AmplitudeOptions): WoodAndersonAmplitude | null {
   const measure = opts.measure ?? 'zeroToPeak';
@@ -84,8 +85,20 @@ export function measureWoodAndersonAmplitude(trace: HorizontalTrace, window: Tim
   if (!(trace.sampleRate > 0) || !Number.isFinite(trace.sampleRate)) throw new RangeError(`${channelKey(trace.channel)}: sample rate must be > 0 Hz, got ${trace.sampleRate}`);
   if (!Number.isFinite(trace.start)) throw new RangeError(`${channelKey(trace.channel)}: start time must be finite µs, got ${trace.start}`);
   if (!(window.end > window.start)) throw new RangeError(`window end must be after its start, got ${window.start} to ${window.end} µs`);
-  const [from, to] = windowIndices(window, trace.start, trace.sampleRate, trace.counts.length);
+  const n = trace.counts.length;
+  const [from, to] = windowIndices(window, trace.start, trace.sampleRate, n);
   if (to - from < 2) return null;
+  // The taper (core/dsp cosineTaperWeights) scales floor(fraction·(n − 1)) samples at each end.
+  const tapered = Math.floor((opts.taperFraction ?? 0.05) * (n - 1));
+  for (const [name, w] of [['window', window], ['noise window', opts.noiseWindow]] as const) {
+    if (!w) continue;
+    const [a, b] = windowIndices(w, trace.start, trace.sampleRate, n);
+    const wantA = Math.ceil(((w.start - trace.start) * trace.sampleRate) / 1e6 - 1e-9);
+    const wantB = Math.floor(((w.end - trace.start) * trace.sampleRate) / 1e6 + 1e-9) + 1;
+    if (a !== wantA || b !== wantB || a < tapered || b > n - tapered) {
+      throw new RangeError(`${channelKey(trace.channel)}: the ${name} (samples ${wantA} to ${wantB}) must lie inside the trace clear of its tapered ends (samples ${tapered} to ${n - tapered}); give a longer trace`);
+    }
+  }
   let clipped = trace.clipped === true;
   if (!clipped && trace.fullScaleCounts !== undefined) {
     clipped = reachesFullScale(trace.counts, trace.fullScaleCounts, from, to, opts.fullScaleFraction ?? 0.98);

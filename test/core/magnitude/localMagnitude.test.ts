@@ -165,13 +165,13 @@ describe('end to end on the synthetic generator (core/synth), whose amplitudes f
   });
 });
 
-describe("the demo scenario's own events (core/synth/demo), each rendered alone over 150 s at the demo's 14 stations", () => {
+describe("the demo scenario's own events (core/synth/demo), each rendered alone over 210 s at the demo's 14 stations", () => {
   const demo = demoScenario();
   for (const id of ['reg-0233', 'eq-2317a', 'eq-0015']) {
     it(`${id}: ML within 0.2 of the scenario's value from at least 4 unclipped stations, SNR ≥ 3`, () => {
       const ev = demo.events.find((e) => e.id === id);
       if (!ev) throw new Error(`demo event ${id} is missing`);
-      const sc: Scenario = { ...demo, start: ev.origin - 30e6, end: ev.origin + 120e6, events: [ev], faults: [] };
+      const sc: Scenario = { ...demo, start: ev.origin - 30e6, end: ev.origin + 180e6, events: [ev], faults: [] };
       const { amps, dist } = measureScenario(sc, sc.stations);
       const r = localMagnitude(amps, dist, { scale: IASPEI_2013, combine: 'max', minSnr: 3 });
       expect(r.stationCount).toBeGreaterThanOrEqual(4);
@@ -185,7 +185,7 @@ describe("the demo scenario's own events (core/synth/demo), each rendered alone 
 });
 
 describe('measureWoodAndersonAmplitude argument checks', () => {
-  it('names the channel and the bad sample rate, and rejects an empty window', () => {
+  it('names the channel and the bad sample rate, rejects an empty window and windows reaching into the taper', () => {
     const meta: ChannelMeta = {
       id: { network: 'XX', station: 'AAA', location: '00', channel: 'HHN' }, start: null, end: null, latitude: 0, longitude: 0, elevation: 0, depth: 0,
       azimuth: 0, dip: 0, sampleRate: 100, stages: [{ number: 1, inputUnits: 'm', outputUnits: 'count', decimation: null, gain: { value: 1e9, frequency: 1 }, filter: null }],
@@ -193,5 +193,11 @@ describe('measureWoodAndersonAmplitude argument checks', () => {
     const trace = { channel: meta.id, counts: new Int32Array(1000), sampleRate: 0, start: T, response: channelResponse(meta) };
     expect(() => measureWoodAndersonAmplitude(trace, W, { scale: IASPEI_2013 })).toThrow(/XX.AAA.00.HHN: sample rate must be > 0 Hz, got 0/);
     expect(() => measureWoodAndersonAmplitude({ ...trace, sampleRate: 100 }, { start: T, end: T }, { scale: IASPEI_2013 })).toThrow(/window end must be after its start/);
+    // 1000 samples at 100 Hz: the taper covers samples 0-48 and 951-999.
+    expect(() => measureWoodAndersonAmplitude({ ...trace, sampleRate: 100 }, { start: T + 0.2e6, end: T + 5e6 }, { scale: IASPEI_2013 }))
+      .toThrow(/XX.AAA.00.HHN: the window \(samples 20 to 501\) must lie inside the trace clear of its tapered ends \(samples 49 to 951\)/);
+    expect(() => measureWoodAndersonAmplitude({ ...trace, sampleRate: 100 }, { start: T + 2e6, end: T + 5e6 }, { scale: IASPEI_2013, noiseWindow: { start: T - 1e6, end: T + 1e6 } }))
+      .toThrow(/the noise window/);
+    expect(measureWoodAndersonAmplitude({ ...trace, sampleRate: 100 }, { start: T + 2e6, end: T + 5e6 }, { scale: IASPEI_2013 })?.amplitudeM).toBe(0);
   });
 });
