@@ -101,7 +101,16 @@ export class Overview {
     return { t, site: this.sites[row]?.site ?? null };
   }
 
+  /** Time the last draw took, ms. */
+  lastDrawMs = 0;
+
   draw(): void {
+    const t0 = performance.now();
+    this.drawInner();
+    this.lastDrawMs = performance.now() - t0;
+  }
+
+  private drawInner(): void {
     const width = Math.max(50, this.root.clientWidth - this.labelWidth);
     const height = Math.max(this.rowHeight, this.sites.length * this.rowHeight);
     const dpr = window.devicePixelRatio || 1;

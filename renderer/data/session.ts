@@ -41,7 +41,11 @@ export class DataSession {
   constructor(private readonly host: HostApi, readonly dataset: Dataset) {}
 
   /** Reads station metadata and indexes every miniSEED file, reporting progress 0-1. */
+  /** Time the last `open` took, ms. */
+  openMs = 0;
+
   async open(onProgress: (fraction: number, note: string) => void): Promise<void> {
+    const t0 = performance.now();
     for (const f of this.dataset.files.filter((x) => x.kind === 'stationxml')) {
       const r = await this.host.call('file.read', { root: this.dataset.root, path: f.path });
       if (!r.ok) { this.problems.push({ file: f.path, reason: r.message }); continue; }
@@ -68,6 +72,7 @@ export class DataSession {
       }
     };
     await Promise.all([worker(), worker()]);
+    this.openMs = performance.now() - t0;
     const metas = this.inventory ? channelsOf(this.inventory) : [];
     for (const ch of this.channels.values()) {
       const [net, sta, loc, cha] = ch.key.split('.');
