@@ -56,6 +56,8 @@ export interface WindowRequest {
   end: Micros;
   filter: FilterRequest | null;
   zeroPhase: boolean;
+  /** Identifies the decoded data; when the worker still holds data under this key, `chunks` is empty and it is reused. */
+  cacheKey: string;
 }
 /** A continuous piece of a channel inside the window. */
 export interface WindowPiece {

@@ -41,6 +41,8 @@ export class DataSession {
   constructor(private readonly host: HostApi, readonly dataset: Dataset) {}
 
   /** Reads station metadata and indexes every miniSEED file, reporting progress 0-1. */
+  private lastWindowKey = '';
+
   /** Time the last `open` took, ms. */
   openMs = 0;
 
@@ -116,6 +118,12 @@ export class DataSession {
   async window(channels: string[], start: Micros, end: Micros, filter: FilterRequest | null, zeroPhase = false, warmup = 20): Promise<WindowReply> {
     const want = new Set(channels);
     const readFrom = start - warmup * 1e6;
+    // Windows always go to worker 0, which keeps the last decoded window: a new filter on the same
+    // window is then filtering only.
+    const cacheKey = `${readFrom}|${end}|${channels.join(',')}`;
+    if (cacheKey === this.lastWindowKey) {
+      return this.pool.request<WindowReply>({ type: 'window', chunks: [], channels, start, end, filter, zeroPhase, cacheKey }, [], 0);
+    }
     const ranges: { path: string; offset: number; length: number }[] = [];
     for (const f of this.files) {
       const keyWanted = f.channelKeys.map((k) => want.has(k));
@@ -138,7 +146,8 @@ export class DataSession {
     }
     const parts = splitRanges(r.value);
     const chunks: WindowChunk[] = ranges.map((rg, i) => ({ path: rg.path, base: rg.offset, bytes: parts[i] }));
-    return this.pool.request<WindowReply>({ type: 'window', chunks, channels, start, end, filter, zeroPhase }, [r.value.buffer]);
+    this.lastWindowKey = cacheKey;
+    return this.pool.request<WindowReply>({ type: 'window', chunks, channels, start, end, filter, zeroPhase, cacheKey }, [r.value.buffer], 0);
   }
 
   close(): void {

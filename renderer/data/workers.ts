@@ -23,10 +23,10 @@ export class WorkerPool {
   }
 
   /** Sends a request to the least busy worker; `transfer` hands buffers over without copying. */
-  request<R extends WorkerReply>(req: Unnumbered<WorkerRequest>, transfer: Transferable[] = []): Promise<R> {
+  request<R extends WorkerReply>(req: Unnumbered<WorkerRequest>, transfer: Transferable[] = [], worker?: number): Promise<R> {
     const id = this.nextId++;
-    let w = 0;
-    for (let i = 1; i < this.workers.length; i++) if (this.load[i] < this.load[w]) w = i;
+    let w = worker ?? 0;
+    if (worker === undefined) for (let i = 1; i < this.workers.length; i++) if (this.load[i] < this.load[w]) w = i;
     this.load[w]++;
     return new Promise<R>((resolve, reject) => {
       this.pending.set(id, { resolve: resolve as (r: WorkerReply) => void, reject, worker: w });
