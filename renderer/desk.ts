@@ -610,6 +610,11 @@ export class Desk {
     return this.saver?.flush() ?? Promise.resolve();
   }
 
+  /** Stops opening the dataset (reading and decoding in progress). */
+  cancelOpen(): void {
+    this.session.cancel();
+  }
+
   close(): void {
     document.removeEventListener('keydown', this.onKey);
     this.traces?.destroy();

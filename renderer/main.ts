@@ -7,6 +7,7 @@ import { connectHost } from './host';
 import type { Dataset, HostApi } from '../electron/contract';
 import { CAUTION } from '../core/caution';
 import { Desk } from './desk';
+import { CancelledError } from './data/session';
 
 const host: HostApi = connectHost();
 const app = document.getElementById('app')!;
@@ -122,13 +123,25 @@ async function showDataset(ds: Dataset): Promise<void> {
   const card = el('div', { className: 'card' }, el('h2', {}, ds.root));
   const bar = el('div', { className: 'progress' }, el('div'));
   const msg = el('p', {}, `Reading ${ds.files.filter((f) => f.kind === 'miniseed').length} miniSEED files\u2026`);
-  card.append(msg, bar);
+  const cancel = el('button', {}, 'Cancel');
+  card.append(msg, bar, cancel);
   mainArea.replaceChildren(card);
-  desk = new Desk(host, ds, (text) => { statusText.textContent = text; });
-  await desk.open((fraction, note) => {
-    (bar.firstChild as HTMLDivElement).style.width = `${Math.round(fraction * 100)}%`;
-    msg.textContent = `Reading ${note}`;
-  });
+  const opening = new Desk(host, ds, (text) => { statusText.textContent = text; });
+  desk = opening;
+  cancel.addEventListener('click', () => opening.cancelOpen());
+  try {
+    await opening.open((fraction, note) => {
+      (bar.firstChild as HTMLDivElement).style.width = `${Math.round(fraction * 100)}%`;
+      msg.textContent = `Reading ${note}`;
+    });
+  } catch (e) {
+    if (e instanceof CancelledError) {
+      desk = null;
+      mainArea.replaceChildren(el('div', { className: 'card' }, el('p', {}, `Stopped reading ${ds.root}. Open a folder with the field above.`)));
+      return;
+    }
+    throw e;
+  }
   mainArea.replaceChildren(desk.root);
   mainArea.classList.add('with-desk');
 }

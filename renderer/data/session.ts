@@ -27,6 +27,13 @@ export interface ChannelInfo {
   meta: ChannelMeta | undefined;
 }
 
+export class CancelledError extends Error {
+  constructor() {
+    super('cancelled');
+    this.name = 'CancelledError';
+  }
+}
+
 export interface Problem { file: string; offset?: number; reason: string }
 
 export class DataSession {
@@ -62,7 +69,7 @@ export class DataSession {
     let done = 0;
     let next = 0;
     const worker = async () => {
-      while (next < mseed.length) {
+      while (next < mseed.length && !this.cancelled) {
         const f = mseed[next++];
         const r = await this.host.call('file.read', { root: this.dataset.root, path: f.path });
         if (!r.ok) { this.problems.push({ file: f.path, reason: r.message }); continue; }
@@ -74,6 +81,7 @@ export class DataSession {
       }
     };
     await Promise.all([worker(), worker()]);
+    if (this.cancelled) throw new CancelledError();
     this.openMs = performance.now() - t0;
     const metas = this.inventory ? channelsOf(this.inventory) : [];
     for (const ch of this.channels.values()) {
@@ -148,6 +156,14 @@ export class DataSession {
     const chunks: WindowChunk[] = ranges.map((rg, i) => ({ path: rg.path, base: rg.offset, bytes: parts[i] }));
     this.lastWindowKey = cacheKey;
     return this.pool.request<WindowReply>({ type: 'window', chunks, channels, start, end, filter, zeroPhase, cacheKey }, [r.value.buffer], 0);
+  }
+
+  private cancelled = false;
+
+  /** Stops an `open` in progress (it rejects with CancelledError) and frees the workers. */
+  cancel(): void {
+    this.cancelled = true;
+    this.pool.terminate();
   }
 
   close(): void {
