@@ -18,6 +18,7 @@
  */
 import type { Micros } from '../time';
 import type { ReviewEvent, ReviewPick } from '../review/types';
+import type { ChannelMeta } from '../stationxml/types';
 import {
   azimuthDeg, locate, type GeigerOptions, type Hypocentre, type LocateFailure, type LocationPick, type LocationStation,
 } from './geiger';
@@ -83,6 +84,20 @@ export type ReviewLocateFailure = LocateFailure | 'unknown-stations';
 export type ReviewLocateResult =
   | { ok: true; value: ReviewLocation }
   | { ok: false; code: ReviewLocateFailure; message: string; skipped: SkippedPick[] };
+
+/**
+ * Site coordinates ("NET.STA" -> latitude, longitude, elevation in m) from StationXML channel
+ * epochs (core/stationxml); the first epoch given for a site wins (undefined entries are skipped).
+ */
+export function siteLocations(metas: Iterable<ChannelMeta | undefined>): Map<string, SiteLocation> {
+  const out = new Map<string, SiteLocation>();
+  for (const m of metas) {
+    if (!m) continue;
+    const key = `${m.id.network}.${m.id.station}`;
+    if (!out.has(key)) out.set(key, { latitude: m.latitude, longitude: m.longitude, elevation: m.elevation });
+  }
+  return out;
+}
 
 /** "NET.STA" of a channel "NET.STA.LOC.CHA". Throws a RangeError naming the value when it has not four fields. */
 export function siteOfChannel(channel: string): string {

@@ -15,7 +15,7 @@ export {
 } from './geiger';
 export { WADATI_MIN_STATIONS, spEpicentralKm, spHypocentralKm, wadati, type WadatiFit, type WadatiPoint, type WadatiResult } from './wadati';
 export {
-  locateReviewEvent, predictedArrivals, siteOfChannel, spCircles, spPairs, verticalAverageSpeeds, wadatiOfEvent,
+  locateReviewEvent, predictedArrivals, siteLocations, siteOfChannel, spCircles, spPairs, verticalAverageSpeeds, wadatiOfEvent,
   type OriginPoint, type PredictedArrival, type ReviewArrival, type ReviewLocateFailure, type ReviewLocateOptions,
   type ReviewLocateResult, type ReviewLocation, type SiteLocation, type SkippedPick, type SpCircle,
 } from './fromReview';

@@ -1,7 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { execFileSync } from 'node:child_process';
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { channelsOf, parseStationXml } from '../../../core/stationxml';
 import {
-  locateReviewEvent, predictedArrivals, siteOfChannel, spCircles, spPairs, verticalAverageSpeeds, wadatiOfEvent,
+  locateReviewEvent, predictedArrivals, siteLocations, siteOfChannel, spCircles, spPairs, verticalAverageSpeeds, wadatiOfEvent,
   type SiteLocation,
 } from '../../../core/location/fromReview';
 import { QUESTIONABLE_FACTOR } from '../../../core/location/geiger';
@@ -259,5 +262,16 @@ describe('spCircles and verticalAverageSpeeds', () => {
     expect(verticalAverageSpeeds(m, 6).vs).toBeCloseTo(6 / (2 / 2 + 4 / 3.5), 12);
     expect(verticalAverageSpeeds(m, -1)).toEqual({ vp: 4, vs: 2 });
     expect(() => verticalAverageSpeeds(m, NaN)).toThrow(/depthKm/);
+  });
+});
+
+describe('siteLocations', () => {
+  it('takes each site\'s coordinates from the real StationXML (12 nodes, elevations in metres)', () => {
+    // ../shared/data/real-microseismic/stations/inv.xml (FDSN StationXML, see its README); values read off the file.
+    const file = join(__dirname, '..', '..', '..', '..', 'shared', 'data', 'real-microseismic', 'stations', 'inv.xml');
+    if (!existsSync(file)) throw new Error(`real data missing: ${file}`);
+    const sites = siteLocations([undefined, ...channelsOf(parseStationXml(readFileSync(file, 'utf8'), file))]);
+    expect(sites.size).toBe(12);
+    expect(sites.get('1.10')).toEqual({ latitude: 47.68296693415016, longitude: -117.40686942299459, elevation: 543.5833333333335 });
   });
 });

@@ -1,0 +1,227 @@
+/**
+ * The event panels beside the traces, stacked in one column (260-300 px wide): plan view, pick
+ * residuals, Wadati diagram. `EventPanels.update` locates the event (core/location/fromReview.ts)
+ * and redraws all three; `guides` gives the predicted P and S times for the pick layer; hovering a
+ * site in any panel highlights it in all three and calls `onHover` so the desk can highlight its row.
+ *
+ *   const panels = new EventPanels(sideColumn, { onHover: (site) => traces.highlight(site) });
+ *   const r = panels.update(event, siteLocations(metas), model);   // after every pick edit
+ *   marks.guides = panels.guides(event, (t) => (t - ref) / 1e6);   // PickMarks.guides
+ *   panels.highlight(site);                                        // a row hovered in the desk
+ */
+import './panels.css';
+import {
+  locateReviewEvent, predictedArrivals, siteLocations, spCircles, verticalAverageSpeeds, wadatiOfEvent, siteOfChannel,
+  type PredictedArrival, type ReviewLocateOptions, type ReviewLocateResult, type SiteLocation,
+} from '../../core/location/fromReview';
+import type { VelocityModel } from '../../core/location/velocityModel';
+import type { WadatiResult } from '../../core/location/wadati';
+import type { ReviewEvent } from '../../core/review/types';
+import { isoFromMicros } from '../../core/time';
+import { PlanView } from './planView';
+import { ResidualPanel } from './residualPanel';
+import { WadatiPanel } from './wadatiPanel';
+
+export { siteLocations };
+export { PlanView, type PlanInput, type PlanStation } from './planView';
+export { ResidualPanel, type ResidualInput, type ResidualItem } from './residualPanel';
+export { WadatiPanel, type WadatiInput } from './wadatiPanel';
+
+export interface EventPanelsOptions {
+  /** A site hovered in any panel (null when none). */
+  onHover?(site: string | null): void;
+  /** Passed to locateReviewEvent (e.g. a fixed depth). */
+  locate?: ReviewLocateOptions;
+}
+
+/** What update() found, for the desk's status line and the QuakeML origin. */
+export interface EventPanelsState {
+  location: ReviewLocateResult | null;
+  wadati: WadatiResult | null;
+  predicted: Map<string, PredictedArrival> | null;
+  /** Time spent locating and drawing, ms. */
+  locateMs: number;
+  drawMs: number;
+}
+
+export class EventPanels {
+  readonly root = document.createElement('div');
+  readonly plan: PlanView;
+  readonly residuals: ResidualPanel;
+  readonly wadati: WadatiPanel;
+  private readonly summary = document.createElement('div');
+  private state: EventPanelsState = { location: null, wadati: null, predicted: null, locateMs: 0, drawMs: 0 };
+  private highlighted: string | null = null;
+
+  constructor(container: HTMLElement, private readonly options: EventPanelsOptions = {}) {
+    this.root.className = 'db-panels';
+    this.summary.className = 'db-panels-summary';
+    this.root.append(this.summary);
+    container.append(this.root);
+    const hover = (site: string | null) => {
+      this.highlight(site);
+      this.options.onHover?.(site);
+    };
+    this.plan = new PlanView(this.root, { onHover: hover });
+    this.residuals = new ResidualPanel(this.root, { onHover: hover });
+    this.wadati = new WadatiPanel(this.root, { onHover: hover });
+  }
+
+  /** The last update's results. */
+  get current(): EventPanelsState {
+    return this.state;
+  }
+
+  /**
+   * Locates `event` with the sites' coordinates and the model, fits its Wadati line, and redraws
+   * the three panels. Call after every pick edit and when another event opens (null: no event).
+   */
+  update(event: ReviewEvent | null, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel): EventPanelsState {
+    const t0 = performance.now();
+    let location: ReviewLocateResult | null = null;
+    let wadati: WadatiResult | null = null;
+    let predicted: Map<string, PredictedArrival> | null = null;
+    if (event) {
+      try {
+        location = locateReviewEvent(event, sites, model, this.options.locate);
+      } catch (e) {
+        location = { ok: false, code: 'did-not-converge', message: e instanceof Error ? e.message : String(e), skipped: [] };
+      }
+      try {
+        wadati = wadatiOfEvent(event);
+      } catch (e) {
+        wadati = { ok: false, code: 'degenerate', message: e instanceof Error ? e.message : String(e) };
+      }
+      if (location.ok) predicted = predictedArrivals(location.value.hypocentre, sites, model);
+    }
+    const t1 = performance.now();
+    const picked = new Set((event?.picks ?? []).map((p) => siteOfChannel(p.channel)));
+    const stations = [...sites].map(([site, s]) => ({ site, latitude: s.latitude, longitude: s.longitude, picked: picked.has(site) }));
+    let circles: { site: string; epicentralKm: number }[] = [];
+    const h = location?.ok ? location.value.hypocentre : null;
+    if (event && h) {
+      const sp = verticalAverageSpeeds(model, h.depthKm);
+      const vpVs = wadati?.ok && wadati.value.vpVs > 1.2 && wadati.value.vpVs < 3 ? wadati.value.vpVs : sp.vp / sp.vs;
+      circles = spCircles(event, sites, { vp: sp.vp, vpVs, depthKm: h.depthKm });
+    }
+    this.plan.set({
+      stations, origin: h ? { latDeg: h.latDeg, lonDeg: h.lonDeg } : null, ellipse: h ? h.ellipse : null, circles, highlight: this.highlighted,
+    });
+    const order = predicted ? [...predicted.values()].sort((a, b) => a.distanceKm - b.distanceKm).map((p) => p.site) : undefined;
+    this.residuals.set({
+      residuals: location?.ok ? location.value.arrivals.map((a) => ({ site: a.site, wave: a.wave, residualS: a.residualS, used: a.used })) : [],
+      order, highlight: this.highlighted, rmsS: h ? h.rmsS : null,
+    });
+    this.wadati.set({ result: wadati, locatedOrigin: h ? h.originTime : null, highlight: this.highlighted });
+    this.summary.replaceChildren(...summaryLines(event, location));
+    this.summary.classList.toggle('failed', !!location && !location.ok);
+    const t2 = performance.now();
+    this.state = { location, wadati, predicted, locateMs: t1 - t0, drawMs: t2 - t1 };
+    return this.state;
+  }
+
+  /** Highlights a site in all three panels (null: none); does not call onHover. */
+  highlight(site: string | null): void {
+    if (site === this.highlighted) return;
+    this.highlighted = site;
+    this.plan.set({ highlight: site });
+    this.residuals.set({ highlight: site });
+    this.wadati.set({ highlight: site });
+  }
+
+  /**
+   * Predicted-arrival guides for the pick layer (PickMarks.guides): for every site, the P and S of
+   * the current solution that the event has no pick of; `toView` turns µs into the view's seconds.
+   */
+  guides(event: ReviewEvent | null, toView: (t: number) => number): Map<string, { phase: 'P' | 'S'; t: number }[]> {
+    const out = new Map<string, { phase: 'P' | 'S'; t: number }[]>();
+    const pred = this.state.predicted;
+    if (!pred) return out;
+    const have = new Set((event?.picks ?? []).filter((p) => p.status !== 'rejected').map((p) => `${siteOfChannel(p.channel)}|${p.phase}`));
+    for (const [site, a] of pred) {
+      const list: { phase: 'P' | 'S'; t: number }[] = [];
+      if (!have.has(`${site}|P`)) list.push({ phase: 'P', t: toView(a.p) });
+      if (!have.has(`${site}|S`)) list.push({ phase: 'S', t: toView(a.s) });
+      if (list.length) out.set(site, list);
+    }
+    return out;
+  }
+
+  destroy(): void {
+    this.plan.destroy();
+    this.residuals.destroy();
+    this.wadati.destroy();
+    this.root.remove();
+  }
+}
+
+function summaryLines(event: ReviewEvent | null, r: ReviewLocateResult | null): HTMLElement[] {
+  const line = (cls: string, text: string) => Object.assign(document.createElement('div'), { className: cls, textContent: text });
+  if (!event || !r) return [line('db-muted', 'No event open')];
+  if (!r.ok) return [line('db-fail', `Not located: ${r.message}`)];
+  const h = r.value.hypocentre;
+  const km = (x: number) => (x >= 1 ? `${x.toFixed(1)} km` : `${Math.round(x * 1000)} m`);
+  const out = [
+    line('db-strong', `${isoFromMicros(h.originTime).slice(0, 23).replace('T', ' ')} \u00b1 ${h.originTimeErrorS.toFixed(3)} s`),
+    line('', `${h.latDeg.toFixed(4)}\u00b0 ${h.lonDeg.toFixed(4)}\u00b0 \u00b7 depth ${h.depthFixed ? `${km(h.depthKm)} (fixed)` : `${km(h.depthKm)} \u00b1 ${km(h.depthErrorKm)}`}`),
+    line('', `RMS ${(h.rmsS * 1000).toFixed(1)} ms \u00b7 ${h.phaseCount} phases, ${h.stationCount} sites \u00b7 gap ${Math.round(h.gapDeg)}\u00b0`),
+  ];
+  if (r.value.skipped.length) out.push(line('db-warn', `${r.value.skipped.length} picks at sites without coordinates`));
+  return out;
+}
+
+// ---- demonstration hook for the end-to-end test (test/e2e/panels.test.ts) ---------------------
+
+/** What the test page passes: plain data (Maps as entry lists). */
+export interface PanelsDemoInput {
+  event: ReviewEvent;
+  sites: [string, SiteLocation][];
+  model: VelocityModel;
+  highlight?: string | null;
+  theme?: 'light' | 'dark';
+}
+
+let demo: { host: HTMLElement; panels: EventPanels; hovered: (string | null)[] } | null = null;
+
+/** Shows the panels in a fixed column at the right of the page with `input`; returns timings and where things are. */
+function panelsDemo(input: PanelsDemoInput) {
+  if (input.theme) document.documentElement.dataset.theme = input.theme;
+  if (!demo) {
+    const host = document.createElement('div');
+    host.className = 'db-panels-demo';
+    document.body.append(host);
+    const hovered: (string | null)[] = [];
+    demo = { host, panels: new EventPanels(host, { onHover: (s) => hovered.push(s) }), hovered };
+  }
+  const sites = new Map(input.sites);
+  const st = demo.panels.update(input.event, sites, input.model);
+  demo.panels.highlight(input.highlight ?? null);
+  // redraw timings of each panel alone, best of 20 (the first draw pays for fonts and layout)
+  const best = (p: { draw(): number }) => Math.min(...Array.from({ length: 20 }, () => p.draw()));
+  const box = (el: HTMLElement) => { const b = el.getBoundingClientRect(); return { x: b.x, y: b.y, width: b.width, height: b.height }; };
+  const spots: Record<string, { x: number; y: number }> = {};
+  const canvas = demo.panels.plan.root.querySelector('canvas') as HTMLCanvasElement;
+  const cb = canvas.getBoundingClientRect();
+  for (const [site] of input.sites) {
+    const s = demo.panels.plan.spotOf(site);
+    if (s) spots[site] = { x: cb.x + s.x, y: cb.y + s.y };
+  }
+  const loc = st.location;
+  return {
+    ok: loc?.ok ?? false,
+    message: loc && !loc.ok ? loc.message : '',
+    hypocentre: loc?.ok ? { ...loc.value.hypocentre, arrivals: undefined, covariance: undefined } : null,
+    vpVs: st.wadati?.ok ? st.wadati.value.vpVs : null,
+    locateMs: st.locateMs,
+    updateDrawMs: st.drawMs,
+    drawMs: { plan: best(demo.panels.plan), residuals: best(demo.panels.residuals), wadati: best(demo.panels.wadati) },
+    guides: [...demo.panels.guides(input.event, (t) => (t - input.event.start) / 1e6)],
+    spots,
+    column: box(demo.panels.root),
+    hovered: demo.hovered,
+  };
+}
+
+export type PanelsDemoOutput = ReturnType<typeof panelsDemo>;
+
+(window as unknown as { daybreakPanelsDemo: typeof panelsDemo }).daybreakPanelsDemo = panelsDemo;
