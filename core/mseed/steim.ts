@@ -6,10 +6,12 @@
  * record refers to the previous record and is not used: sample 0 is X0, sample i = sample i-1 + d_i.
  *
  * Speed: words are read big-endian with byte shifts (no DataView; little-endian data is first copied
- * byte-swapped into a scratch buffer, so there is one inner loop per encoding), differences are integrated as they are
- * unpacked into one scratch buffer that is allocated once and grown only for larger records, and the
- * samples are then copied to the caller's array in one block. The Steim-1 and Steim-2 frame loops
- * look alike but are kept apart on purpose: one loop per encoding keeps each word's dispatch short.
+ * byte-swapped into a scratch buffer, so there is one inner loop per encoding). Differences are
+ * integrated as they are unpacked and written straight into the caller's array (no scratch copy),
+ * so each output page is touched once, while the record's bytes are hot; only the last few samples
+ * of a record, where a word may hold more differences than remain, go through a 16-sample scratch.
+ * The Steim-1 and Steim-2 frame loops look alike but are kept apart on purpose: one loop per
+ * encoding keeps each word's dispatch short.
  */
 
 /** Decoded and the last sample equals the reverse integration constant Xn. */
@@ -26,12 +28,6 @@ export const STEIM_NO_FRAMES = -3;
 /** Most differences one 64-byte frame can hold: Steim-1 15 words x 4, Steim-2 15 words x 7. */
 export const STEIM1_MAX_PER_FRAME = 60;
 export const STEIM2_MAX_PER_FRAME = 105;
-
-let scratch = new Int32Array(16384);
-function scratchFor(n: number): Int32Array {
-  if (scratch.length < n) scratch = new Int32Array(Math.max(n, scratch.length * 2));
-  return scratch;
-}
 
 let swapScratch = new Uint8Array(4096);
 /**
@@ -92,90 +88,196 @@ function firstDifference(b: Uint8Array, p: number, frames: number, steim2: boole
 }
 
 /**
- * Decodes `count` Steim-2 samples from the `length` bytes at `p` (whole frames) into
- * `out[at .. at + count)`. `littleEndian`: blockette 1000 word order 0 (see swapFrames).
- * Returns STEIM_OK, STEIM_MISMATCH or a negative STEIM_* error code; `out` is untouched on error.
+ * Where a frame run stopped: the word to resume at (frame `f`, word `i`; `i` 16 = the next frame)
+ * and the last sample written.
  */
-export function decodeSteim2(
-  b: Uint8Array, p: number, length: number, count: number, littleEndian: boolean, out: Int32Array, at: number,
-): number {
-  const frames = length >>> 6;
-  if (count === 0) return STEIM_OK;
-  if (frames === 0) return STEIM_NO_FRAMES;
-  if (littleEndian) {
-    b = swapFrames(b, p, frames, false);
-    p = 0;
-  }
-  const s = scratchFor(frames * STEIM2_MAX_PER_FRAME + 8);
-  const x0 = wordBE(b, p + 4);
-  const xn = wordBE(b, p + 8);
-  const d0 = firstDifference(b, p, frames, true);
-  if (d0 === undefined) return STEIM_TOO_FEW;
-  let last = (x0 - d0) | 0;
-  let n = 0;
-  for (let f = 0; f < frames && n < count; f++) {
+const run = { f: 0, i: 0, last: 0 };
+
+/** Records where a frame run stopped (see {@link run}) and returns `n`. */
+function pause(f: number, i: number, last: number, n: number): number {
+  run.f = f;
+  run.i = i;
+  run.last = last;
+  return n;
+}
+
+/** A record's last few samples are decoded into this scratch (a word may hold more than are left). */
+const tail = new Int32Array(16);
+
+/**
+ * Steim-2 frames at `p` from frame `run.f`, word `run.i` on, integrated from `run.last` and written
+ * to `o[n ..]`, word after word until more than `stop` samples positions are used (`n > stop`) or the
+ * frames end. A word writes at most 7 samples, so with `stop` = end - 7 nothing is written at or past
+ * `end`. Returns the next `n` (and leaves `run` at the next word), or -1 for an undefined code.
+ */
+function steim2Run(b: Uint8Array, p: number, frames: number, o: Int32Array, n: number, stop: number): number {
+  let last = run.last;
+  const f0 = run.f;
+  const i0 = run.i;
+  for (let f = f0; f < frames; f++) {
     const fp = p + (f << 6);
     const w0 = (b[fp] << 24) | (b[fp + 1] << 16) | (b[fp + 2] << 8) | b[fp + 3];
-    for (let i = f === 0 ? 3 : 1; i < 16; i++) {
+    for (let i = f === f0 ? i0 : 1; i < 16; i++) {
       const c = (w0 >>> (30 - 2 * i)) & 3;
       if (c === 0) continue;
       const wp = fp + (i << 2);
       const w = (b[wp] << 24) | (b[wp + 1] << 16) | (b[wp + 2] << 8) | b[wp + 3];
       if (c === 1) {
-        s[n] = last = (last + (w >> 24)) | 0;
-        s[n + 1] = last = (last + ((w << 8) >> 24)) | 0;
-        s[n + 2] = last = (last + ((w << 16) >> 24)) | 0;
-        s[n + 3] = last = (last + ((w << 24) >> 24)) | 0;
+        o[n] = last = (last + (w >> 24)) | 0;
+        o[n + 1] = last = (last + ((w << 8) >> 24)) | 0;
+        o[n + 2] = last = (last + ((w << 16) >> 24)) | 0;
+        o[n + 3] = last = (last + ((w << 24) >> 24)) | 0;
         n += 4;
       } else if (c === 2) {
         const dnib = w >>> 30;
         if (dnib === 1) {
-          s[n++] = last = (last + ((w << 2) >> 2)) | 0;
+          o[n++] = last = (last + ((w << 2) >> 2)) | 0;
         } else if (dnib === 2) {
-          s[n] = last = (last + ((w << 2) >> 17)) | 0;
-          s[n + 1] = last = (last + ((w << 17) >> 17)) | 0;
+          o[n] = last = (last + ((w << 2) >> 17)) | 0;
+          o[n + 1] = last = (last + ((w << 17) >> 17)) | 0;
           n += 2;
         } else if (dnib === 3) {
-          s[n] = last = (last + ((w << 2) >> 22)) | 0;
-          s[n + 1] = last = (last + ((w << 12) >> 22)) | 0;
-          s[n + 2] = last = (last + ((w << 22) >> 22)) | 0;
+          o[n] = last = (last + ((w << 2) >> 22)) | 0;
+          o[n + 1] = last = (last + ((w << 12) >> 22)) | 0;
+          o[n + 2] = last = (last + ((w << 22) >> 22)) | 0;
           n += 3;
         } else {
-          return STEIM_BAD_CODE;
+          return -1;
         }
       } else {
         const dnib = w >>> 30;
         if (dnib === 0) {
-          s[n] = last = (last + ((w << 2) >> 26)) | 0;
-          s[n + 1] = last = (last + ((w << 8) >> 26)) | 0;
-          s[n + 2] = last = (last + ((w << 14) >> 26)) | 0;
-          s[n + 3] = last = (last + ((w << 20) >> 26)) | 0;
-          s[n + 4] = last = (last + ((w << 26) >> 26)) | 0;
+          o[n] = last = (last + ((w << 2) >> 26)) | 0;
+          o[n + 1] = last = (last + ((w << 8) >> 26)) | 0;
+          o[n + 2] = last = (last + ((w << 14) >> 26)) | 0;
+          o[n + 3] = last = (last + ((w << 20) >> 26)) | 0;
+          o[n + 4] = last = (last + ((w << 26) >> 26)) | 0;
           n += 5;
         } else if (dnib === 1) {
-          s[n] = last = (last + ((w << 2) >> 27)) | 0;
-          s[n + 1] = last = (last + ((w << 7) >> 27)) | 0;
-          s[n + 2] = last = (last + ((w << 12) >> 27)) | 0;
-          s[n + 3] = last = (last + ((w << 17) >> 27)) | 0;
-          s[n + 4] = last = (last + ((w << 22) >> 27)) | 0;
-          s[n + 5] = last = (last + ((w << 27) >> 27)) | 0;
+          o[n] = last = (last + ((w << 2) >> 27)) | 0;
+          o[n + 1] = last = (last + ((w << 7) >> 27)) | 0;
+          o[n + 2] = last = (last + ((w << 12) >> 27)) | 0;
+          o[n + 3] = last = (last + ((w << 17) >> 27)) | 0;
+          o[n + 4] = last = (last + ((w << 22) >> 27)) | 0;
+          o[n + 5] = last = (last + ((w << 27) >> 27)) | 0;
           n += 6;
         } else if (dnib === 2) {
-          s[n] = last = (last + ((w << 4) >> 28)) | 0;
-          s[n + 1] = last = (last + ((w << 8) >> 28)) | 0;
-          s[n + 2] = last = (last + ((w << 12) >> 28)) | 0;
-          s[n + 3] = last = (last + ((w << 16) >> 28)) | 0;
-          s[n + 4] = last = (last + ((w << 20) >> 28)) | 0;
-          s[n + 5] = last = (last + ((w << 24) >> 28)) | 0;
-          s[n + 6] = last = (last + ((w << 28) >> 28)) | 0;
+          o[n] = last = (last + ((w << 4) >> 28)) | 0;
+          o[n + 1] = last = (last + ((w << 8) >> 28)) | 0;
+          o[n + 2] = last = (last + ((w << 12) >> 28)) | 0;
+          o[n + 3] = last = (last + ((w << 16) >> 28)) | 0;
+          o[n + 4] = last = (last + ((w << 20) >> 28)) | 0;
+          o[n + 5] = last = (last + ((w << 24) >> 28)) | 0;
+          o[n + 6] = last = (last + ((w << 28) >> 28)) | 0;
           n += 7;
         } else {
-          return STEIM_BAD_CODE;
+          return -1;
         }
       }
+      if (n > stop) return pause(f, i + 1, last, n);
     }
   }
-  return finish(s, n, count, x0, xn, out, at);
+  return pause(frames, 1, last, n);
+}
+
+/** Steim-1 frames, as {@link steim2Run} (a word writes at most 4 samples; no undefined codes). */
+function steim1Run(b: Uint8Array, p: number, frames: number, o: Int32Array, n: number, stop: number): number {
+  let last = run.last;
+  const f0 = run.f;
+  const i0 = run.i;
+  for (let f = f0; f < frames; f++) {
+    const fp = p + (f << 6);
+    const w0 = (b[fp] << 24) | (b[fp + 1] << 16) | (b[fp + 2] << 8) | b[fp + 3];
+    for (let i = f === f0 ? i0 : 1; i < 16; i++) {
+      const c = (w0 >>> (30 - 2 * i)) & 3;
+      if (c === 0) continue;
+      const wp = fp + (i << 2);
+      const w = (b[wp] << 24) | (b[wp + 1] << 16) | (b[wp + 2] << 8) | b[wp + 3];
+      if (c === 1) {
+        o[n] = last = (last + (w >> 24)) | 0;
+        o[n + 1] = last = (last + ((w << 8) >> 24)) | 0;
+        o[n + 2] = last = (last + ((w << 16) >> 24)) | 0;
+        o[n + 3] = last = (last + ((w << 24) >> 24)) | 0;
+        n += 4;
+      } else if (c === 2) {
+        o[n] = last = (last + (w >> 16)) | 0;
+        o[n + 1] = last = (last + ((w << 16) >> 16)) | 0;
+        n += 2;
+      } else {
+        o[n++] = last = (last + w) | 0;
+      }
+      if (n > stop) return pause(f, i + 1, last, n);
+    }
+  }
+  return pause(frames, 1, last, n);
+}
+
+/**
+ * Decodes `count` samples from the frames in the `length` bytes at `p` into `out[at .. at + count)`:
+ * straight into `out` while a whole word still fits before the end, the last few samples through
+ * {@link tail}.
+ */
+function decodeFrames(
+  steim2: boolean, b: Uint8Array, p: number, length: number, count: number, littleEndian: boolean,
+  out: Int32Array, at: number,
+): number {
+  const frames = length >>> 6;
+  if (count === 0) return STEIM_OK;
+  if (frames === 0) return STEIM_NO_FRAMES;
+  if (littleEndian) {
+    b = swapFrames(b, p, frames, !steim2);
+    p = 0;
+  }
+  const x0 = wordBE(b, p + 4);
+  const xn = wordBE(b, p + 8);
+  steimLast.x0 = x0;
+  steimLast.xn = xn;
+  steimLast.decoded = 0;
+  const d0 = firstDifference(b, p, frames, steim2);
+  if (d0 === undefined) return STEIM_TOO_FEW;
+  const end = at + count;
+  run.f = 0;
+  run.i = 3;
+  run.last = (x0 - d0) | 0;
+  // A word writes at most 7 (Steim-1: 4) samples: straight into `out` while that many still fit.
+  const stop = end - (steim2 ? 7 : 4);
+  let n = at;
+  if (stop >= at) n = steim2 ? steim2Run(b, p, frames, out, at, stop) : steim1Run(b, p, frames, out, at, stop);
+  if (n >= 0 && n < end) {
+    // Fewer than a word's worth left: decode the rest into the scratch, copy what belongs here.
+    const need = end - n;
+    const m = steim2 ? steim2Run(b, p, frames, tail, 0, need - 1) : steim1Run(b, p, frames, tail, 0, need - 1);
+    if (m < 0) {
+      n = -1;
+    } else {
+      for (let k = 0; k < need && k < m; k++) out[n + k] = tail[k];
+      n += m;
+    }
+  }
+  if (n < 0) {
+    out.fill(0, at, end);
+    return STEIM_BAD_CODE;
+  }
+  steimLast.decoded = n - at;
+  if (n < end) {
+    out.fill(0, at, end);
+    return STEIM_TOO_FEW;
+  }
+  const lastSample = out[end - 1];
+  steimLast.last = lastSample;
+  return lastSample === xn ? STEIM_OK : STEIM_MISMATCH;
+}
+
+/**
+ * Decodes `count` Steim-2 samples from the `length` bytes at `p` (whole frames) into
+ * `out[at .. at + count)`, writing nothing outside that range. `littleEndian`: blockette 1000 word
+ * order 0 (see swapFrames). Returns STEIM_OK, STEIM_MISMATCH or a negative STEIM_* error code; on an
+ * error `out[at .. at + count)` is set to 0 (no partly decoded samples are left behind).
+ */
+export function decodeSteim2(
+  b: Uint8Array, p: number, length: number, count: number, littleEndian: boolean, out: Int32Array, at: number,
+): number {
+  return decodeFrames(true, b, p, length, count, littleEndian, out, at);
 }
 
 /**
@@ -185,55 +287,7 @@ export function decodeSteim2(
 export function decodeSteim1(
   b: Uint8Array, p: number, length: number, count: number, littleEndian: boolean, out: Int32Array, at: number,
 ): number {
-  const frames = length >>> 6;
-  if (count === 0) return STEIM_OK;
-  if (frames === 0) return STEIM_NO_FRAMES;
-  if (littleEndian) {
-    b = swapFrames(b, p, frames, true);
-    p = 0;
-  }
-  const s = scratchFor(frames * STEIM1_MAX_PER_FRAME + 8);
-  const x0 = wordBE(b, p + 4);
-  const xn = wordBE(b, p + 8);
-  const d0 = firstDifference(b, p, frames, false);
-  if (d0 === undefined) return STEIM_TOO_FEW;
-  let last = (x0 - d0) | 0;
-  let n = 0;
-  for (let f = 0; f < frames && n < count; f++) {
-    const fp = p + (f << 6);
-    const w0 = (b[fp] << 24) | (b[fp + 1] << 16) | (b[fp + 2] << 8) | b[fp + 3];
-    for (let i = f === 0 ? 3 : 1; i < 16; i++) {
-      const c = (w0 >>> (30 - 2 * i)) & 3;
-      if (c === 0) continue;
-      const wp = fp + (i << 2);
-      const w = (b[wp] << 24) | (b[wp + 1] << 16) | (b[wp + 2] << 8) | b[wp + 3];
-      if (c === 1) {
-        s[n] = last = (last + (w >> 24)) | 0;
-        s[n + 1] = last = (last + ((w << 8) >> 24)) | 0;
-        s[n + 2] = last = (last + ((w << 16) >> 24)) | 0;
-        s[n + 3] = last = (last + ((w << 24) >> 24)) | 0;
-        n += 4;
-      } else if (c === 2) {
-        s[n] = last = (last + (w >> 16)) | 0;
-        s[n + 1] = last = (last + ((w << 16) >> 16)) | 0;
-        n += 2;
-      } else {
-        s[n++] = last = (last + w) | 0;
-      }
-    }
-  }
-  return finish(s, n, count, x0, xn, out, at);
-}
-
-function finish(s: Int32Array, n: number, count: number, x0: number, xn: number, out: Int32Array, at: number): number {
-  steimLast.x0 = x0;
-  steimLast.xn = xn;
-  steimLast.decoded = n;
-  if (n < count) return STEIM_TOO_FEW;
-  out.set(n === count ? s.subarray(0, n) : s.subarray(0, count), at);
-  const lastSample = s[count - 1];
-  steimLast.last = lastSample;
-  return lastSample === xn ? STEIM_OK : STEIM_MISMATCH;
+  return decodeFrames(false, b, p, length, count, littleEndian, out, at);
 }
 
 /** Words in order of reasons for the negative return codes. */
