@@ -176,15 +176,17 @@ export function firstMotion(x: SampleArray, k: number, noiseRms: number, factor:
   let lo = ref;
   for (let j = k; j < end; j++) {
     const v = x[j];
-    if (v > hi) hi = v;
-    if (v < lo) lo = v;
     // The swing has turned once the trace comes back by more than the noise RMS from its extreme.
+    // The extremes are those before this sample: a record sampled coarsely can swing from the top
+    // of the first motion past the reference in one step, and that step must end the first swing.
     if (hi - v > noiseRms && hi > ref && (hi - ref) >= (ref - lo)) {
       return hi - ref >= factor * noiseRms ? 'positive' : 'undecidable';
     }
     if (v - lo > noiseRms && lo < ref && (ref - lo) > (hi - ref)) {
       return ref - lo >= factor * noiseRms ? 'negative' : 'undecidable';
     }
+    if (v > hi) hi = v;
+    if (v < lo) lo = v;
   }
   return 'undecidable';
 }
