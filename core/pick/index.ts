@@ -18,4 +18,5 @@ export {
   coincidence, type CoincidenceOptions, DEFAULT_COINCIDENCE, idTime, siteDistanceKm, type SitePosition,
 } from './coincidence';
 export { chooseSiteStreams, type SiteStream } from './streams';
-export { LOCAL_EARTHQUAKE, NEAR_FIELD_MICROSEISMIC, type PickingPreset } from './presets';
+export { LOCAL_EARTHQUAKE, LOCAL_EARTHQUAKE_BUSY, NEAR_FIELD_MICROSEISMIC, type PickingPreset } from './presets';
+export { type EventPickOptions, type EventSite, horizontalShare, LOCAL_EVENT_PICKING, pickEventSites } from './eventSites';

@@ -3,7 +3,9 @@
  * (core/pick) and the textbook floor on the same nights, scored against the generator's truth.
  *
  * Seeds fixed before any tuning of core/pick (2026-12-02): 101, 202, 303, 404. Each night is one hour
- * on the demo network with 24 local earthquakes of ML 0.5-2.5.
+ * on the demo network with 24 local earthquakes of ML 0.5-2.5. The tuning (20 s LTA, the phase check
+ * and the re-trigger of core/pick/eventSites.ts, the polarity fix) was looked at on 101 and 202 only;
+ * 505 and 606, fixed after that and before any further change, are reported apart as held-out nights.
  * `node --import tsx test/bench/accuracy.bench.ts [SEED...]`
  */
 import {
@@ -11,19 +13,31 @@ import {
 } from '../support/pickingAccuracy';
 
 export const ACCURACY_SEEDS = [101, 202, 303, 404];
+export const HELD_OUT_SEEDS = [505, 606];
 
-const seeds = process.argv.slice(2).map(Number).filter((x) => Number.isFinite(x));
-const use = seeds.length ? seeds : ACCURACY_SEEDS;
-const project: Score[] = [];
-const floor: Score[] = [];
-for (const seed of use) {
-  const t0 = performance.now();
-  const night = renderNight(accuracyNight(seed, { minutes: 60, events: 24, magnitudes: [0.5, 2.5] }));
-  const t1 = performance.now();
-  project.push(scoreChain(night, projectChain(night)));
-  const t2 = performance.now();
-  floor.push(scoreChain(night, textbookChain(night)));
-  console.log(`night ${seed}: rendered in ${((t1 - t0) / 1000).toFixed(1)} s, project chain ${((t2 - t1) / 1000).toFixed(1)} s`);
+const NIGHT = { minutes: 60, events: 24, magnitudes: [0.5, 2.5] as [number, number] };
+
+function run(seeds: readonly number[]): { project: Score; floor: Score } {
+  const project: Score[] = [];
+  const floor: Score[] = [];
+  for (const seed of seeds) {
+    const t0 = performance.now();
+    const night = renderNight(accuracyNight(seed, NIGHT));
+    const t1 = performance.now();
+    project.push(scoreChain(night, projectChain(night)));
+    const t2 = performance.now();
+    floor.push(scoreChain(night, textbookChain(night)));
+    console.log(`night ${seed}: rendered in ${((t1 - t0) / 1000).toFixed(1)} s, project chain ${((t2 - t1) / 1000).toFixed(1)} s`);
+  }
+  return { project: mergeScores(project), floor: mergeScores(floor) };
 }
-console.log(`\nnights: seeds ${use.join(', ')}; 60 min each, 24 events of ML 0.5-2.5, demo network\n`);
-console.log(scoreTable([{ name: 'project', score: mergeScores(project) }, { name: 'textbook', score: mergeScores(floor) }]));
+
+const given = process.argv.slice(2).map(Number).filter((x) => Number.isFinite(x));
+const groups: [string, readonly number[]][] = given.length
+  ? [['given nights', given]]
+  : [['nights fixed before tuning', ACCURACY_SEEDS], ['held-out nights', HELD_OUT_SEEDS]];
+for (const [name, seeds] of groups) {
+  const r = run(seeds);
+  console.log(`\n${name}: seeds ${seeds.join(', ')}; ${NIGHT.minutes} min each, ${NIGHT.events} events of ML ${NIGHT.magnitudes.join('-')}, demo network\n`);
+  console.log(scoreTable([{ name: 'project', score: r.project }, { name: 'textbook', score: r.floor }]));
+}

@@ -5,9 +5,10 @@
  * RMS of 1 s after over RMS of 5 s before, 1-20 Hz).
  *
  * Two chains run on the same samples:
- * - `projectChain`: core/pick as the scan uses it (band-pass 2-15 Hz causal, recursive STA/LTA,
- *   network coincidence, pickP on the vertical, pickS on the rotated horizontals with the S window
- *   bounded by the network's first P).
+ * - `projectChain`: core/pick (band-pass 2-15 Hz causal, recursive STA/LTA with a 20 s LTA, network
+ *   coincidence, then pickEventSites: pickP on the vertical, a particle-motion check that the onset
+ *   is not S, a lower re-trigger at sites without a trigger, pickS on the rotated horizontals with
+ *   the S window bounded by the network's first P).
  * - `textbookChain`: the plain floor written here in a few lines (band-pass, recursive STA/LTA after
  *   Withers et al. 1998, trigger coincidence on 3 sites, Maeda's (1985) AIC on the vertical, the same
  *   AIC on the horizontal energy N^2 + E^2 in a fixed window after P, polarity from the sign of the
@@ -26,7 +27,7 @@ import { sosfilt } from '../../core/dsp/sosfilt';
 import type { ChannelId } from '../../core/model';
 import { stationKey } from '../../core/model';
 import {
-  coincidence, LOCAL_EARTHQUAKE_STA_LTA, pickP, pickS, staLtaTriggers, type CandidateEvent, type Pick,
+  coincidence, type EventSite, LOCAL_EARTHQUAKE_BUSY, pickEventSites, staLtaTriggers, type CandidateEvent, type Pick,
   type SitePosition, type StationTrigger,
 } from '../../core/pick';
 import { demoScenario } from '../../core/synth/demo';
@@ -152,35 +153,31 @@ function filterSites(night: RenderedNight): FilteredSite[] {
 /** Longest P travel time to the first site of an event, s (the scan's `firstTravelMax`). */
 const FIRST_TRAVEL_MAX = 10;
 
-/** The project's chain (core/pick with its local-earthquake defaults, as the scan runs it). */
+/**
+ * The project's chain: core/pick's LOCAL_EARTHQUAKE_BUSY trigger (20 s LTA), coincidence with its
+ * defaults, and pickEventSites (phase check, sites without a trigger, S bounded by the network's P).
+ */
 export function projectChain(night: RenderedNight): ChainResult {
   const fsites = filterSites(night);
-  const bySite = new Map(fsites.map((f) => [f.site.code, f]));
   const triggers: StationTrigger[] = [];
-  for (const f of fsites) triggers.push(...staLtaTriggers(f.site.vertical.id, f.z, f.site.sampleRate, f.site.start, LOCAL_EARTHQUAKE_STA_LTA));
+  for (const f of fsites) triggers.push(...staLtaTriggers(f.site.vertical.id, f.z, f.site.sampleRate, f.site.start, LOCAL_EARTHQUAKE_BUSY.staLta));
   const positions = new Map(night.sites.map((s) => [s.code, s.position]));
   const events = coincidence(triggers, positions, { network: night.scenario.network.code });
   const picks: Pick[] = [];
   for (const ev of events) {
-    const ps: { f: FilteredSite; p: Pick }[] = [];
-    for (const trig of ev.triggers) {
-      const f = bySite.get(stationKey(trig.id))!;
-      const p = pickP({ id: f.site.vertical.id, samples: f.z, sampleRate: f.site.sampleRate, start: f.site.start }, trig.on);
-      if (p) ps.push({ f, p });
-    }
-    if (ps.length === 0) continue;
-    const first = Math.min(...ps.map((x) => x.p.time));
-    for (const { f, p } of ps) {
-      picks.push(p);
-      if (!f.n || !f.e || !f.site.horizontals) continue;
-      const tp = (p.time - first) / 1e6;
-      const s = pickS(
-        { id: f.site.horizontals.north.id, samples: f.n, sampleRate: f.site.sampleRate, start: f.site.start },
-        { id: f.site.horizontals.east.id, samples: f.e, sampleRate: f.site.sampleRate, start: f.site.start },
-        p.time, { pTravelTime: { min: tp, max: tp + FIRST_TRAVEL_MAX } },
-      );
-      if (s) picks.push(s);
-    }
+    const on = new Map(ev.triggers.map((t) => [stationKey(t.id), t.on]));
+    const sites: EventSite[] = fsites.map((f) => ({
+      vertical: { id: f.site.vertical.id, samples: f.z, sampleRate: f.site.sampleRate, start: f.site.start },
+      horizontals: f.n && f.e && f.site.horizontals
+        ? [
+          { id: f.site.horizontals.north.id, samples: f.n, sampleRate: f.site.sampleRate, start: f.site.start },
+          { id: f.site.horizontals.east.id, samples: f.e, sampleRate: f.site.sampleRate, start: f.site.start },
+        ]
+        : null,
+      position: f.site.position,
+      trigger: on.get(f.site.code) ?? null,
+    }));
+    picks.push(...pickEventSites(sites, { firstTravelMax: FIRST_TRAVEL_MAX, staLta: LOCAL_EARTHQUAKE_BUSY.staLta }));
   }
   return { picks, events };
 }

@@ -1,0 +1,201 @@
+/**
+ * Picks of one candidate event over its sites, using what the network knows as a whole.
+ *
+ * The per-site pickers (onset.ts) look near one trigger. Two things go wrong there on local events
+ * with weak P: the trigger (and so the "P" pick) comes on S when P is below the trigger level, and
+ * a site whose P never reached the trigger level gets no pick at all. This module adds three steps
+ * (Daybreak's rules, measured on the synthetic nights of test/bench/accuracy.bench.ts):
+ *
+ * 1. Phase check by particle motion: P arrives near-vertically at the surface (low-velocity ground
+ *    bends rays towards the vertical), so its energy is mostly on the vertical; S energy is mostly
+ *    horizontal. The horizontal share of the energy in the `shareSeconds` after an onset, each
+ *    channel's pre-onset noise energy removed (`horizontalShare`), tells them apart; above
+ *    `sShare` the onset is taken as S. (Three-component polarization to tell P from S is a published
+ *    idea: e.g. Cichowicz, 1993, BSSA 83(1), 180-189 - from memory.)
+ * 2. An onset taken as S is picked as S (joint AIC of the horizontals around it), and P is sought
+ *    before it: AIC on the vertical from `maxSMinusP` seconds before S (but not before the
+ *    network's first P less 1 s) to `0.2` s before S.
+ * 3. Sites of the event without a trigger: the network's first P bounds where their first arrival
+ *    can be (no later than distance / vMin after it, Fermat as in coincidence.ts); a lower trigger
+ *    level (`retrigger`) on the STA/LTA ratio of that window, run from `lta` seconds before it,
+ *    finds the onset, and the same steps 1-2 apply. A pick whose SNR is below `minSnr` is dropped.
+ *
+ * S at every site with horizontals then uses pickS with the S window bounded by the network's first
+ * P (P travel time at site i in [tP_i - tP_first, tP_i - tP_first + firstTravelMax]), as the scan does.
+ */
+import type { Micros } from '../time';
+import { pickP, pickS, type OnsetOptions, type SWindowOptions } from './onset';
+import { siteDistanceKm, type SitePosition } from './coincidence';
+import { staLtaRatio, type StaLtaOptions, LOCAL_EARTHQUAKE_STA_LTA } from './staLta';
+import type { Pick, Trace } from './types';
+
+/** One site's traces for an event (filtered causally; horizontals rotated to north and east). */
+export interface EventSite {
+  readonly vertical: Trace;
+  readonly horizontals: readonly [Trace, Trace] | null;
+  readonly position: SitePosition;
+  /** The site's trigger-on time for this event (µs), or null when it did not trigger. */
+  readonly trigger: Micros | null;
+}
+
+export interface EventPickOptions {
+  readonly onset: Partial<OnsetOptions>;
+  readonly sWindow: Partial<SWindowOptions>;
+  readonly staLta: Partial<StaLtaOptions>;
+  /** Horizontal energy share above which an onset is taken as S (0-1). */
+  readonly sShare: number;
+  /** Window after an onset for the energy share, s. */
+  readonly shareSeconds: number;
+  /** Longest S minus P time sought before an onset taken as S, s. */
+  readonly maxSMinusP: number;
+  /** Longest P travel time to the first site, s (bounds S as in the scan). */
+  readonly firstTravelMax: number;
+  /** Slowest P speed between sites, km/s, and slack, s (as coincidence.ts). */
+  readonly vMin: number;
+  readonly slack: number;
+  /** STA/LTA level that finds the onset at sites without a trigger. */
+  readonly retrigger: number;
+  /** Picks below this SNR at sites without a trigger are dropped. */
+  readonly minSnr: number;
+}
+
+/** Daybreak's defaults for local events (see the module comment). */
+export const LOCAL_EVENT_PICKING: EventPickOptions = Object.freeze({
+  onset: {},
+  sWindow: {},
+  staLta: LOCAL_EARTHQUAKE_STA_LTA,
+  sShare: 0.6,
+  shareSeconds: 0.5,
+  maxSMinusP: 10,
+  firstTravelMax: 10,
+  vMin: 3,
+  slack: 1,
+  retrigger: 2.5,
+  minSnr: 2,
+});
+
+function indexAt(t: Trace, time: Micros): number {
+  return Math.round(((time - t.start) * t.sampleRate) / 1e6);
+}
+
+/** Energy of x over [from, to) less its noise energy per sample over [noiseFrom, from), clamped at 0. */
+function excessEnergy(x: Trace, time: Micros, seconds: number): number {
+  const fs = x.sampleRate;
+  const k = indexAt(x, time);
+  const n = Math.max(1, Math.round(seconds * fs));
+  const nn = Math.max(1, Math.round(2 * fs));
+  const s = x.samples;
+  const a = Math.max(0, k - nn);
+  let noise = 0;
+  for (let i = a; i < k && i < s.length; i++) noise += s[i] * s[i];
+  noise = k > a ? noise / (k - a) : 0;
+  let sig = 0;
+  const b = Math.min(s.length, k + n);
+  for (let i = Math.max(0, k); i < b; i++) sig += s[i] * s[i];
+  const m = b - Math.max(0, k);
+  return m > 0 ? Math.max(0, sig / m - noise) : 0;
+}
+
+/**
+ * Share of the energy on the horizontals in `seconds` after `time` (µs), each channel's noise energy
+ * (2 s before) removed: near 0 for a P arriving steeply, near 1 for S. NaN when no energy rose.
+ */
+export function horizontalShare(vertical: Trace, north: Trace, east: Trace, time: Micros, seconds = 0.5): number {
+  if (!(seconds > 0)) throw new RangeError(`seconds must be > 0, got ${seconds}`);
+  const v = excessEnergy(vertical, time, seconds);
+  const h = excessEnergy(north, time, seconds) + excessEnergy(east, time, seconds);
+  return v + h > 0 ? h / (v + h) : NaN;
+}
+
+interface SiteState {
+  readonly site: EventSite;
+  onset: Micros;
+  p: Pick | null;
+  /** The onset was taken as S. */
+  sLike: boolean;
+}
+
+function resolve(options: Partial<EventPickOptions>): EventPickOptions {
+  const o = { ...LOCAL_EVENT_PICKING, ...options };
+  for (const k of ['shareSeconds', 'maxSMinusP', 'firstTravelMax', 'vMin', 'retrigger'] as const) {
+    if (!(o[k] > 0 && Number.isFinite(o[k]))) throw new RangeError(`${k} must be a finite number > 0, got ${o[k]}`);
+  }
+  if (!(o.sShare > 0 && o.sShare <= 1)) throw new RangeError(`sShare must be in (0, 1], got ${o.sShare}`);
+  if (!(o.slack >= 0) || !(o.minSnr >= 0)) throw new RangeError(`slack and minSnr must be >= 0, got ${o.slack}, ${o.minSnr}`);
+  return o;
+}
+
+/** First sample time at or after `from` where the STA/LTA ratio of the vertical reaches `level`, or null. */
+function firstRise(t: Trace, from: Micros, to: Micros, o: EventPickOptions): Micros | null {
+  const fs = t.sampleRate;
+  const lta = (o.staLta.lta ?? LOCAL_EARTHQUAKE_STA_LTA.lta);
+  const a = Math.max(0, indexAt(t, from - Math.round(lta * 1e6)));
+  const i0 = indexAt(t, from);
+  const b = Math.min(t.samples.length, indexAt(t, to) + 1);
+  if (i0 < a + fs || b - i0 < 16) return null;
+  const r = staLtaRatio(t.samples.subarray(a, b), fs, { ...o.staLta, warmUp: Math.min((i0 - a) / fs, o.staLta.warmUp ?? 1) });
+  for (let i = i0 - a; i < r.length; i++) if (r[i] >= o.retrigger) return t.start + Math.round(((a + i) * 1e6) / fs);
+  return null;
+}
+
+/**
+ * P and S picks of one event at its sites (see the module comment). Returns the picks, P before S
+ * per site, sites in the order given.
+ */
+export function pickEventSites(sites: readonly EventSite[], options: Partial<EventPickOptions> = {}): Pick[] {
+  const o = resolve(options);
+  const states: SiteState[] = [];
+  for (const site of sites) {
+    if (site.trigger === null) continue;
+    const p = pickP(site.vertical, site.trigger, o.onset);
+    if (!p) continue;
+    states.push({ site, onset: p.time, p, sLike: isSLike(site, p.time, o) });
+  }
+  const trusted = states.filter((s) => !s.sLike);
+  if (trusted.length === 0 && states.length === 0) return [];
+  let first = Math.min(...(trusted.length ? trusted : states).map((s) => s.onset));
+  // Sites without a trigger: look for a first arrival where the network allows one.
+  const triggered = sites.filter((s) => s.trigger !== null);
+  for (const site of sites) {
+    if (site.trigger !== null) continue;
+    const near = Math.min(...triggered.map((t) => siteDistanceKm(t.position, site.position)));
+    const to = first + Math.round((near / o.vMin + o.slack + 2) * 1e6);
+    const rise = firstRise(site.vertical, first - Math.round(o.slack * 1e6), to, o);
+    if (rise === null) continue;
+    const p = pickP(site.vertical, rise, o.onset);
+    if (!p || p.snr < o.minSnr) continue;
+    states.push({ site, onset: p.time, p, sLike: isSLike(site, p.time, o) });
+  }
+  // Onsets taken as S: P is sought before them.
+  for (const s of states) {
+    if (!s.sLike) continue;
+    const lead = Math.min(o.maxSMinusP, Math.max(0.5, (s.onset - first) / 1e6 + 1));
+    const p = pickP(s.site.vertical, s.onset - 200_000, { ...o.onset, before: lead, after: 0.05 });
+    s.p = p && p.snr >= o.minSnr ? p : null;
+  }
+  const ps = states.filter((s) => s.p !== null);
+  if (ps.length) first = Math.min(first, ...ps.map((s) => s.p!.time));
+  const out: Pick[] = [];
+  for (const s of states) {
+    if (s.p) out.push(s.p);
+    const h = s.site.horizontals;
+    if (!h) continue;
+    let sp: Pick | null;
+    if (s.p) {
+      const tp = Math.max(0, (s.p.time - first) / 1e6);
+      sp = pickS(h[0], h[1], s.p.time, { ...o.sWindow, pTravelTime: { min: tp, max: tp + o.firstTravelMax } }, o.onset);
+    } else {
+      // S only: the joint AIC of the horizontals within 1 s around the onset taken as S.
+      sp = pickS(h[0], h[1], s.onset - 1_000_000, { ...o.sWindow, pTravelTime: { min: 0, max: 2 / ((o.sWindow.vpVsMax ?? 2) - 1) } }, o.onset);
+    }
+    if (sp) out.push(sp);
+  }
+  return out;
+}
+
+function isSLike(site: EventSite, time: Micros, o: EventPickOptions): boolean {
+  const h = site.horizontals;
+  if (!h) return false;
+  const share = horizontalShare(site.vertical, h[0], h[1], time, o.shareSeconds);
+  return share > o.sShare;
+}
