@@ -41,8 +41,12 @@ export abstract class CanvasPanel {
   /** Milliseconds the last draw took. */
   lastDrawMs = 0;
   private readonly resize: ResizeObserver;
+  /** The site under the pointer, drawn highlighted. */
+  protected hover: string | null = null;
+  /** Where sites were last drawn (CSS px of the canvas), for hit tests. */
+  protected spots: { site: string; x: number; y: number }[] = [];
 
-  constructor(container: HTMLElement, title: string, className: string) {
+  constructor(container: HTMLElement, title: string, className: string, private readonly onHover?: (site: string | null) => void) {
     this.root = document.createElement('section');
     this.root.className = `db-panel ${className}`;
     const h = document.createElement('h3');
@@ -59,6 +63,26 @@ export abstract class CanvasPanel {
       if (w !== lastW) { lastW = w; this.draw(); }
     });
     this.resize.observe(this.root);
+  }
+
+  /** The drawn site nearest to a point (CSS px of the canvas) within `radius` px, or null. */
+  protected nearestSpot(x: number, y: number, radius: number): string | null {
+    let best: string | null = null;
+    let bestD = radius;
+    for (const s of this.spots) {
+      const d = Math.hypot(s.x - x, s.y - y);
+      if (d <= bestD) { bestD = d; best = s.site; }
+    }
+    return best;
+  }
+
+  /** Sets the hovered site, redraws and tells the listener (only when it changed). */
+  protected setHover(site: string | null): void {
+    if (site === this.hover) return;
+    this.hover = site;
+    this.canvas.style.cursor = site ? 'pointer' : '';
+    this.draw();
+    this.onHover?.(site);
   }
 
   /** Height in CSS pixels the panel wants for a given width. */

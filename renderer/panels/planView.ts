@@ -1,7 +1,8 @@
 /**
  * Plan view of an event, drawn by the app (no map tiles): the sites as labelled triangles (filled
  * when the event has picks there), the epicentre, its 68 % error ellipse, and the S-P distance
- * circles. Positions are km east and north in the location code's local projection, centred on the
+ * circles. The frame holds the sites with picks (all sites when none has) and the epicentre with
+ * its ellipse; other sites outside it are left out of the picture. Positions are km east and north in the location code's local projection, centred on the
  * middle of what is shown, with one scale for both axes (north up). A scale bar and a north arrow
  * say how big and which way. Hovering a site highlights it and calls `onHover(site)` (null when the
  * pointer leaves every site), so the desk can highlight the same site elsewhere.
@@ -42,13 +43,10 @@ const HIT_PX = 10;
 
 export class PlanView extends CanvasPanel {
   private input: PlanInput = EMPTY;
-  private hover: string | null = null;
-  /** Screen positions of the sites as last drawn (CSS px). */
-  private spots: { site: string; x: number; y: number }[] = [];
 
-  constructor(container: HTMLElement, private readonly options: PlanViewOptions = {}) {
-    super(container, 'Plan view', 'db-plan');
-    this.canvas.addEventListener('pointermove', (e) => this.pointer(e.offsetX, e.offsetY));
+  constructor(container: HTMLElement, options: PlanViewOptions = {}) {
+    super(container, 'Plan view', 'db-plan', options.onHover);
+    this.canvas.addEventListener('pointermove', (e) => this.setHover(this.siteAt(e.offsetX, e.offsetY)));
     this.canvas.addEventListener('pointerleave', () => this.setHover(null));
   }
 
@@ -60,31 +58,13 @@ export class PlanView extends CanvasPanel {
 
   /** The site under a point (CSS px of the canvas), or null. */
   siteAt(x: number, y: number): string | null {
-    let best: string | null = null;
-    let bestD = HIT_PX;
-    for (const s of this.spots) {
-      const d = Math.hypot(s.x - x, s.y - y);
-      if (d <= bestD) { bestD = d; best = s.site; }
-    }
-    return best;
+    return this.nearestSpot(x, y, HIT_PX);
   }
 
   /** Where a site was drawn (CSS px of the canvas), for tests and tooltips. */
   spotOf(site: string): { x: number; y: number } | null {
     const s = this.spots.find((p) => p.site === site);
     return s ? { x: s.x, y: s.y } : null;
-  }
-
-  private pointer(x: number, y: number): void {
-    this.setHover(this.siteAt(x, y));
-  }
-
-  private setHover(site: string | null): void {
-    if (site === this.hover) return;
-    this.hover = site;
-    this.canvas.style.cursor = site ? 'pointer' : '';
-    this.draw();
-    this.options.onHover?.(site);
   }
 
   protected heightFor(width: number): number {
@@ -108,7 +88,7 @@ export class PlanView extends CanvasPanel {
     // Frame: the sites, the epicentre and the ellipse's extent (circles may reach far: they are clipped).
     let lat0 = 0;
     let lon0 = 0;
-    const pts = stations.map((s) => [s.latitude, s.longitude]);
+    const pts = (stations.some((s) => s.picked) ? stations.filter((s) => s.picked) : stations).map((s) => [s.latitude, s.longitude]);
     if (origin) pts.push([origin.latDeg, origin.lonDeg]);
     let la0 = Infinity; let la1 = -Infinity; let lo0 = Infinity; let lo1 = -Infinity;
     for (const [la, lo] of pts) { la0 = Math.min(la0, la); la1 = Math.max(la1, la); lo0 = Math.min(lo0, lo); lo1 = Math.max(lo1, lo); }
@@ -121,7 +101,10 @@ export class PlanView extends CanvasPanel {
     if (origin) { toLocalKm(proj, origin.latDeg, origin.lonDeg, xy); oe = xy[0]; on = xy[1]; }
     let e0 = Infinity; let e1 = -Infinity; let n0 = Infinity; let n1 = -Infinity;
     const grow = (e: number, n: number, r = 0) => { e0 = Math.min(e0, e - r); e1 = Math.max(e1, e + r); n0 = Math.min(n0, n - r); n1 = Math.max(n1, n + r); };
-    for (const p of st) grow(p.e, p.n);
+    // Frame the sites with picks (and the epicentre): an outlying site without picks should not
+    // shrink the network the analyst is working on; sites outside the frame are clipped.
+    const framed = st.some((p) => p.s.picked) ? st.filter((p) => p.s.picked) : st;
+    for (const p of framed) grow(p.e, p.n);
     if (origin) grow(oe, on, ellipse && Number.isFinite(ellipse.semiMajorKm) ? Math.min(ellipse.semiMajorKm, 3 * Math.max(e1 - e0, n1 - n0, 0.01)) : 0);
     const span = Math.max(e1 - e0, n1 - n0, 0.02);
     const pad = { l: 14, r: 14, t: 14, b: 30 };
@@ -249,7 +232,7 @@ export class PlanView extends CanvasPanel {
 }
 
 function fmtKm(km: number): string {
-  return km >= 1 ? `${km.toFixed(1)} km` : `${Math.round(km * 1000)} m`;
+  return km >= 1 ? `${km.toFixed(1)}\u00a0km` : `${Math.round(km * 1000)}\u00a0m`;
 }
 
 function star(ctx: CanvasRenderingContext2D, x: number, y: number, r: number, fill: string, edge: string): void {

@@ -40,10 +40,9 @@ const LABEL = 46;
 export class ResidualPanel extends CanvasPanel {
   private input: ResidualInput = { residuals: [], highlight: null };
   private rows: string[] = [];
-  private hover: string | null = null;
 
-  constructor(container: HTMLElement, private readonly options: ResidualPanelOptions = {}) {
-    super(container, 'Residuals (observed \u2212 computed)', 'db-residuals');
+  constructor(container: HTMLElement, options: ResidualPanelOptions = {}) {
+    super(container, 'Residuals (observed \u2212 computed)', 'db-residuals', options.onHover);
     this.canvas.addEventListener('pointermove', (e) => this.setHover(this.siteAt(e.offsetY)));
     this.canvas.addEventListener('pointerleave', () => this.setHover(null));
   }
@@ -62,13 +61,6 @@ export class ResidualPanel extends CanvasPanel {
   siteAt(y: number): string | null {
     const i = Math.floor((y - HEAD) / ROW);
     return i >= 0 && i < this.rows.length ? this.rows[i] : null;
-  }
-
-  private setHover(site: string | null): void {
-    if (site === this.hover) return;
-    this.hover = site;
-    this.draw();
-    this.options.onHover?.(site);
   }
 
   protected heightFor(): number {
@@ -113,9 +105,15 @@ export class ResidualPanel extends CanvasPanel {
       ctx.moveTo(x, HEAD - 2);
       ctx.lineTo(x, H - FOOT + 2);
       ctx.stroke();
-      ctx.fillStyle = th.muted;
-      ctx.fillText(Math.abs(v) < 1e-12 ? '0' : formatSeconds(v), x, H - 4);
     }
+    // labels at the ends and at zero only (a narrow column has no room for more)
+    ctx.fillStyle = th.muted;
+    ctx.textAlign = 'left';
+    ctx.fillText(formatSeconds(-range), x0 - 4, H - 4);
+    ctx.textAlign = 'center';
+    ctx.fillText('0', xz, H - 4);
+    ctx.textAlign = 'right';
+    ctx.fillText(formatSeconds(range), x1 + 4, H - 4);
     // legend
     ctx.textAlign = 'left';
     phaseMarker(ctx, 'P', 8, 8, 3.5, true, th.P);

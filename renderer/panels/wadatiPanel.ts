@@ -28,11 +28,9 @@ const HIT_PX = 9;
 
 export class WadatiPanel extends CanvasPanel {
   private input: WadatiInput = { result: null, highlight: null };
-  private hover: string | null = null;
-  private spots: { site: string; x: number; y: number }[] = [];
 
-  constructor(container: HTMLElement, private readonly options: WadatiPanelOptions = {}) {
-    super(container, 'Wadati diagram', 'db-wadati');
+  constructor(container: HTMLElement, options: WadatiPanelOptions = {}) {
+    super(container, 'Wadati diagram', 'db-wadati', options.onHover);
     this.canvas.addEventListener('pointermove', (e) => this.setHover(this.siteAt(e.offsetX, e.offsetY)));
     this.canvas.addEventListener('pointerleave', () => this.setHover(null));
   }
@@ -43,20 +41,7 @@ export class WadatiPanel extends CanvasPanel {
   }
 
   siteAt(x: number, y: number): string | null {
-    let best: string | null = null;
-    let bestD = HIT_PX;
-    for (const s of this.spots) {
-      const d = Math.hypot(s.x - x, s.y - y);
-      if (d <= bestD) { bestD = d; best = s.site; }
-    }
-    return best;
-  }
-
-  private setHover(site: string | null): void {
-    if (site === this.hover) return;
-    this.hover = site;
-    this.draw();
-    this.options.onHover?.(site);
+    return this.nearestSpot(x, y, HIT_PX);
   }
 
   protected heightFor(width: number): number {

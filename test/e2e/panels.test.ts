@@ -1,0 +1,153 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { cpSync, existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { build } from 'vite';
+import { buildRenderer, openApp, screenshotPath, type RunningApp } from '../support/browserApp';
+import { DEMO_COMPLETE_MARKER } from '../../electron/host/service';
+import { locateReviewEvent, predictedArrivals, siteLocations, type SiteLocation } from '../../core/location/fromReview';
+import { firstArrival } from '../../core/location/travelTime';
+import { checkVelocityModel, DEFAULT_MODEL, type VelocityModel } from '../../core/location/velocityModel';
+import { fromLocalKm, localProjection } from '../../core/location/projection';
+import { channelsOf, parseStationXml } from '../../core/stationxml';
+import { microsFromIso } from '../../core/time';
+import type { ReviewEvent, ReviewPick } from '../../core/review/types';
+import type { PanelsDemoInput, PanelsDemoOutput } from '../../renderer/panels';
+
+// The real records (../shared/data/real-microseismic): the app opens on a copy of them, and the first
+// panel input is one of their events with the analyst's own (manual) P and S picks.
+const REAL = resolve(__dirname, '..', '..', '..', 'shared', 'data', 'real-microseismic');
+const repoRoot = resolve(__dirname, '..', '..');
+
+/** The event's manual picks from picks.csv, as review picks (uncertainty from the file both ways). */
+function realEvent(file: string): ReviewEvent {
+  const iso = (t: string): string => t.replace(/(\.\d{6})\d*Z$/, '$1Z').replace(/:(\d\d)Z$/, ':$1.000000Z');
+  const rows = readFileSync(join(REAL, 'picks.csv'), 'utf8').trim().split('\n').slice(1).map((l) => l.split(','));
+  const picks: ReviewPick[] = rows.filter((r) => r[0] === file && r[10] === 'manual').map((r, i) => ({
+    id: `r${i}`, phase: r[7] as 'P' | 'S', channel: `${r[3]}.${r[4]}.${r[5]}.${r[6]}`, time: microsFromIso(iso(r[8])),
+    lower: Number(r[9]), upper: Number(r[9]), onset: 'impulsive', polarity: null, mode: 'manual', status: 'confirmed', snr: null, questionableTiming: false,
+  }));
+  const t = Math.min(...picks.map((p) => p.time));
+  return { id: 'real', source: 'analyst', start: t - 2_000_000, end: t + 8_000_000, state: 'started', type: null, typeCertainty: null, note: '', picks };
+}
+
+describe('event panels: plan view, residuals and Wadati diagram (Chromium, browser mode)', () => {
+  let app: RunningApp;
+  let sites: Map<string, SiteLocation>;
+
+  async function show(input: PanelsDemoInput): Promise<PanelsDemoOutput> {
+    return app.page.evaluate((arg) => (window as unknown as { daybreakPanelsDemo: (i: unknown) => PanelsDemoOutput }).daybreakPanelsDemo(arg), input);
+  }
+
+  beforeAll(async () => {
+    if (!existsSync(REAL)) throw new Error(`real test data missing: ${REAL}`);
+    const data = mkdtempSync(join(tmpdir(), 'daybreak-paneldata-'));
+    cpSync(REAL, data, { recursive: true, filter: (src) => !src.endsWith('.lock') });
+    const file = join(REAL, 'stations', 'inv.xml');
+    sites = siteLocations(channelsOf(parseStationXml(readFileSync(file, 'utf8'), file)));
+    // The panels as a module of their own, served beside the app (script-src 'self' allows it).
+    const staticDir = await buildRenderer();
+    await build({
+      configFile: false, root: repoRoot, logLevel: 'warn',
+      build: {
+        outDir: join(staticDir, 'panels-demo'), emptyOutDir: true, sourcemap: false, target: 'es2022',
+        lib: { entry: join(repoRoot, 'renderer', 'panels', 'index.ts'), formats: ['es'], fileName: () => 'panels.js', cssFileName: 'panels' },
+      },
+    });
+    const demoDir = mkdtempSync(join(tmpdir(), 'daybreak-demo-'));
+    writeFileSync(join(demoDir, DEMO_COMPLETE_MARKER), '{}');
+    app = await openApp({ demoDir, width: 1400, height: 1000 });
+    await app.page.goto(app.server.url.replace('/#', `/?dataset=${encodeURIComponent(data)}#`));
+    await app.page.locator('.trace-row').first().waitFor({ timeout: 60_000 });
+    const css = readdirSync(join(staticDir, 'panels-demo')).find((f) => f.endsWith('.css'));
+    if (!css) throw new Error('the panels build wrote no stylesheet');
+    const base = new URL(app.server.url).origin;
+    await app.page.addStyleTag({ url: `${base}/panels-demo/${css}` });
+    await app.page.addScriptTag({ url: `${base}/panels-demo/panels.js`, type: 'module' });
+    for (let i = 0; i < 100 && !(await app.page.evaluate(() => 'daybreakPanelsDemo' in window)); i++) await app.page.waitForTimeout(50);
+  }, 180_000);
+  afterAll(async () => { await app?.close(); });
+
+  it('locates a real event from its manual picks as the core does, draws each panel in under 5 ms, and shows it', async () => {
+    // Half-space at 4.2 km/s, the median speed the catalogue's own origins imply (geiger.test.ts), Vp/Vs 1.73.
+    const model = checkVelocityModel([{ topKm: 0, vp: 4.2, vs: 4.2 / 1.73 }], 'mine half-space');
+    const event = realEvent('2019-01-21T11-50-32-914c4.xml');
+    expect(event.picks.filter((p) => p.phase === 'S')).toHaveLength(4);
+    const out = await show({ event, sites: [...sites], model, highlight: null, theme: 'dark' });
+    const node = locateReviewEvent(event, sites, model);
+    if (!node.ok) throw new Error(node.message);
+    expect(out.ok).toBe(true);
+    const h = out.hypocentre!;
+    // the page's bundle and the core in Node give the same solution
+    expect(h.originTime).toBe(node.value.hypocentre.originTime);
+    expect(h.latDeg).toBeCloseTo(node.value.hypocentre.latDeg, 9);
+    expect(h.depthKm).toBeCloseTo(node.value.hypocentre.depthKm, 6);
+    expect(out.vpVs).not.toBeNull();
+    // 12 sites, picks at most: the sites without P or S get guides at the predicted times
+    const pred = predictedArrivals(node.value.hypocentre, sites, model);
+    const picked = new Set(event.picks.map((p) => `${p.channel.split('.').slice(0, 2).join('.')}|${p.phase}`));
+    const expectedGuides = [...pred.keys()].filter((s) => !picked.has(`${s}|S`) || !picked.has(`${s}|P`)).sort();
+    expect(out.guides.map(([s]) => s).sort()).toEqual(expectedGuides);
+    for (const [site, gs] of out.guides) {
+      for (const g of gs) {
+        const t = g.phase === 'P' ? pred.get(site)!.p : pred.get(site)!.s;
+        expect(g.t).toBeCloseTo((t - event.start) / 1e6, 6);
+      }
+    }
+    expect(out.column.width).toBeGreaterThanOrEqual(260);
+    expect(out.column.width).toBeLessThanOrEqual(300);
+    console.log(`real event: locate ${out.locateMs.toFixed(2)} ms (warm ${out.locateWarmMs.toFixed(2)} ms), update draw ${out.updateDrawMs.toFixed(2)} ms, redraw plan ${out.drawMs.plan.toFixed(2)} / residuals ${out.drawMs.residuals.toFixed(2)} / Wadati ${out.drawMs.wadati.toFixed(2)} ms`);
+    for (const ms of Object.values(out.drawMs)) expect(ms).toBeLessThan(5);
+    await app.page.locator('.db-panels-demo').screenshot({ path: screenshotPath('panels-real-event') });
+  });
+
+  it('hovering a site on the plan view highlights it in all panels and reports it once', async () => {
+    const model = checkVelocityModel([{ topKm: 0, vp: 4.2, vs: 4.2 / 1.73 }], 'mine half-space');
+    const event = realEvent('2019-01-21T11-50-32-914c4.xml');
+    const out = await show({ event, sites: [...sites], model, highlight: null });
+    const spot = out.spots['1.8'];
+    expect(spot).toBeDefined();
+    await app.page.mouse.move(spot.x + 1, spot.y + 1);
+    await app.page.waitForTimeout(50);
+    await app.page.locator('.db-panels-demo').screenshot({ path: screenshotPath('panels-hover') });
+    const after = await show({ event, sites: [...sites], model, highlight: null });
+    expect(after.hovered.filter((s) => s === '1.8')).toHaveLength(1);
+    await app.page.mouse.move(5, 5);
+    const left = await show({ event, sites: [...sites], model, highlight: null });
+    expect(left.hovered[left.hovered.length - 1]).toBeNull();
+  });
+
+  it('draws a km-scale network in the light theme with S-P circles through the epicentre and a late pick showing', async () => {
+    // Geometry invented for the picture only; times from the layered travel times.
+    const proj = localProjection(46, 8);
+    const km: [string, number, number][] = [['A1', -18, 12], ['B2', 14, 20], ['C3', 22, -9], ['D4', -6, -21], ['E5', 3, 4], ['F6', -25, -4], ['G7', 30, 8], ['H8', 9, -30]];
+    const net = new Map<string, SiteLocation>(km.map(([code, e, n]) => {
+      const [lat, lon] = fromLocalKm(proj, e, n);
+      return [`XX.${code}`, { latitude: lat, longitude: lon, elevation: 300 }];
+    }));
+    const model: VelocityModel = DEFAULT_MODEL;
+    const T0 = microsFromIso('2025-12-02T03:14:15.000000Z');
+    const [elat, elon] = fromLocalKm(proj, 4, -3);
+    const pred = predictedArrivals({ originTime: T0, latDeg: elat, lonDeg: elon, depthKm: 9 }, net, model);
+    const picks: ReviewPick[] = [];
+    let i = 0;
+    for (const [site, a] of pred) {
+      if (site === 'XX.H8') continue; // no picks here: guides only
+      const late = site === 'XX.C3' ? 250_000 : 0;
+      picks.push({ id: `k${i++}`, phase: 'P', channel: `${site}.00.HHZ`, time: a.p + late, lower: 0.03, upper: 0.03, onset: 'impulsive', polarity: 'positive', mode: 'manual', status: 'confirmed', snr: null, questionableTiming: false });
+      if (site !== 'XX.G7') picks.push({ id: `k${i++}`, phase: 'S', channel: `${site}.00.HHN`, time: a.s, lower: 0.06, upper: 0.06, onset: 'emergent', polarity: null, mode: 'manual', status: site === 'XX.F6' ? 'rejected' : 'confirmed', snr: null, questionableTiming: false });
+    }
+    const event: ReviewEvent = { id: 'km', source: 'analyst', start: T0, end: T0 + 60e6, state: 'started', type: null, typeCertainty: null, note: '', picks };
+    const out = await show({ event, sites: [...net], model, highlight: 'XX.C3', theme: 'light' });
+    expect(out.ok).toBe(true);
+    expect(out.hypocentre!.phaseCount).toBe(12); // 7 P + 6 S, one of them rejected
+    expect(out.guides.find(([s]) => s === 'XX.H8')?.[1].map((g) => g.phase)).toEqual(['P', 'S']);
+    expect(out.guides.find(([s]) => s === 'XX.G7')?.[1].map((g) => g.phase)).toEqual(['S']);
+    // firstArrival is what the guides come from: H8's P guide at the model's time (within the 0.25 s late pick's pull)
+    const dH8 = pred.get('XX.H8')!.distanceKm;
+    expect(pred.get('XX.H8')!.p - T0).toBe(Math.round(firstArrival(model, 'P', dH8, 9, 0.3).time * 1e6));
+    for (const ms of Object.values(out.drawMs)) expect(ms).toBeLessThan(5);
+    console.log(`km network: locate ${out.locateMs.toFixed(2)} ms (warm ${out.locateWarmMs.toFixed(2)} ms), redraw plan ${out.drawMs.plan.toFixed(2)} / residuals ${out.drawMs.residuals.toFixed(2)} / Wadati ${out.drawMs.wadati.toFixed(2)} ms`);
+    await app.page.locator('.db-panels-demo').screenshot({ path: screenshotPath('panels-km-network-light') });
+  });
+});
