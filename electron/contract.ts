@@ -61,6 +61,14 @@ export interface Settings {
 
 export const DEFAULT_SETTINGS: Settings = { analyst: '', agency: '', authority: 'daybreak.local' };
 
+export interface ScanStatus {
+  state: 'idle' | 'running' | 'done' | 'failed';
+  message: string;
+  startedAt: string | null;
+  /** Seconds since it started (or that it took). */
+  seconds: number;
+}
+
 export interface ReviewFileState {
   path: string;
   content: string | null;
@@ -86,6 +94,11 @@ export interface HostRequests {
   'review.save': [{ root: string; content: string }, { path: string; bytes: number }];
   /** Writes an export (QuakeML, CSV) atomically into the exports folder beside the review file. */
   'export.write': [{ root: string; name: string; content: string }, { path: string }];
+  /** Starts the overnight scan of an opened dataset in the background (no-op while one runs). */
+  'scan.start': [{ root: string }, ScanStatus];
+  'scan.status': [{ root: string }, ScanStatus];
+  /** The finished scan's QuakeML text, or null when there is none. */
+  'scan.result': [{ root: string }, string | null];
   'settings.get': [Record<string, never>, Settings];
   'settings.set': [Partial<Settings>, Settings];
   /** Bytes [offset, offset + length) of a file (fewer at its end). */
@@ -105,7 +118,7 @@ export type ResponseOf<N extends HostRequestName> = HostRequests[N][1];
 /** Names the host answers, for validation on both sides. */
 export const HOST_REQUEST_NAMES: readonly HostRequestName[] = [
   'app.info', 'demo.status', 'demo.ensure', 'dataset.open', 'file.read', 'file.readRange', 'file.readRanges', 'review.open', 'review.save',
-  'export.write', 'settings.get', 'settings.set',
+  'export.write', 'settings.get', 'settings.set', 'scan.start', 'scan.status', 'scan.result',
 ];
 
 /** Requests whose response is raw bytes (sent as application/octet-stream over HTTP). */

@@ -53,7 +53,10 @@ async function start(): Promise<void> {
     userDir: app.getPath('userData'),
     generateDemo: generateDemoScenario,
   });
-  app.on('will-quit', () => void service.locks.releaseAll());
+  app.on('will-quit', () => {
+    service.scans.stopAll();
+    void service.locks.releaseAll();
+  });
   for (const name of HOST_REQUEST_NAMES) {
     ipcMain.handle(`daybreak:${name}`, (event, request: unknown) => {
       if (!isTrustedSender(event)) return { ok: false, code: 'forbidden', message: 'untrusted sender' };

@@ -181,8 +181,14 @@ export class Desk {
       load.addEventListener('click', () => void this.loadCandidates(pickFile.value));
       foot.append(el('div', { className: 'load-row' }, pickFile, load));
     }
-    foot.append(exportButton);
+    const rescan = el('button', { title: 'Run the detector and picker over the whole dataset again (events already worked on are kept as they are)' }, 'Scan the night');
+    rescan.addEventListener('click', () => void this.runScan());
+    foot.append(this.scanState, rescan, exportButton);
     this.eventList.root.append(foot);
+    // First opening of a dataset: scan it in the background so candidate events appear.
+    if (!(this.doc?.events ?? []).some((e) => e.source === 'detector') && this.session.dataset.files.some((f) => f.kind === 'stationxml')) {
+      void this.runScan();
+    }
     const work = el('div', { className: 'desk-work' }, this.eventList.root, this.sheetHost);
     this.root.replaceChildren(overviewHost, this.banner, work, this.status);
     this.sheetHost.insertBefore(this.eventBar, this.sheetHost.children[1]);
@@ -563,6 +569,38 @@ export class Desk {
     }
     if (this.helpDialog.open) this.helpDialog.close();
     else this.helpDialog.showModal();
+  }
+
+  private readonly scanState = el('div', { className: 'scan-state muted' });
+
+  /** Starts the host's background scan and merges its candidates when it is done. */
+  async runScan(): Promise<void> {
+    const root = this.session.dataset.root;
+    let st = await this.host.call('scan.start', { root });
+    while (st.ok && st.value.state === 'running') {
+      this.scanState.textContent = `Scanning the night\u2026 ${Math.round(st.value.seconds)} s`;
+      await new Promise((r) => setTimeout(r, 1000));
+      st = await this.host.call('scan.status', { root });
+    }
+    if (!st.ok || st.value.state !== 'done') {
+      this.scanState.textContent = `Scan failed: ${st.ok ? st.value.message : st.message}`;
+      return;
+    }
+    const r = await this.host.call('scan.result', { root });
+    if (!r.ok || r.value === null) { this.scanState.textContent = 'Scan gave no result'; return; }
+    try {
+      const events = readQuakeMl(r.value, 'daybreak-scan.xml').events;
+      let summary = '';
+      if (this.apply((d) => { const m = mergeCandidates(d, events); summary = `${m.added} new, ${m.refreshed} refreshed, ${m.keptAsReviewed} kept`; return m.doc; })) {
+        this.scanState.textContent = `Scan: ${events.length} candidates in ${Math.round(st.value.seconds)} s (${summary})`;
+        if (!this.currentEvent) {
+          const first = this.doc?.events.find((e) => e.state === 'todo');
+          if (first) void this.openEvent(first.id);
+        }
+      }
+    } catch (e) {
+      this.scanState.textContent = `Scan result unreadable: ${e instanceof Error ? e.message : e}`;
+    }
   }
 
   /** Merges the events of a QuakeML file of the dataset into the review. */

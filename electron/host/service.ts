@@ -12,6 +12,7 @@ import type {
 } from '../contract';
 import { DEFAULT_SETTINGS, HOST_REQUEST_NAMES, type ReviewFileState, type Settings } from '../contract';
 import { ReviewLocks, reviewPathFor, writeAtomically } from './reviewStore';
+import { ScanJobs } from './scanJob';
 
 export class HostError extends Error {
   constructor(readonly code: HostErrorCode, message: string) {
@@ -63,6 +64,9 @@ export class HostService {
       'review.open': async (req) => this.openReview(req.root, req.force === true),
       'review.save': async (req) => this.saveReview(req.root, req.content),
       'export.write': async (req) => this.writeExport(req.root, req.name, req.content),
+      'scan.start': async (req) => this.startScan(req.root),
+      'scan.status': async (req) => this.scans.status(this.checkOpened(req.root)),
+      'scan.result': async (req) => this.scans.result(this.checkOpened(req.root)),
       'settings.get': async () => this.readSettings(),
       'settings.set': async (req) => this.writeSettings(req),
     };
@@ -129,6 +133,18 @@ export class HostService {
     const path = join(dirname(await reviewPathFor(root, this.opts.userDir)), 'daybreak-exports', name);
     await writeAtomically(path, content);
     return { path };
+  }
+
+  readonly scans = new ScanJobs();
+
+  private async startScan(rootArg: unknown) {
+    const root = this.checkOpened(rootArg);
+    const files: DatasetFile[] = [];
+    await listFiles(root, root, files);
+    const stations = files.find((f) => f.kind === 'stationxml');
+    if (!stations) throw new HostError('bad-request', `no StationXML file in ${root}: the scan needs station coordinates`);
+    const model = files.find((f) => f.kind === 'model');
+    return this.scans.start(root, join(root, stations.path), dirname(await reviewPathFor(root, this.opts.userDir)), model ? join(root, model.path) : null);
   }
 
   private settingsPath(): string {

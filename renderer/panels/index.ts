@@ -6,7 +6,7 @@
  *
  *   const panels = new EventPanels(sideColumn, { onHover: (site) => traces.highlight(site) });
  *   const r = panels.update(event, siteLocations(metas), model);   // after every pick edit
- *   marks.guides = panels.guides(event, (t) => (t - ref) / 1e6);   // PickMarks.guides
+ *   marks.guides = panels.guidesAt(event, ref);                     // PickMarks.guides (memoised)
  *   panels.highlight(site);                                        // a row hovered in the desk
  */
 import './panels.css';
@@ -17,7 +17,7 @@ import {
 import type { VelocityModel } from '../../core/location/velocityModel';
 import type { WadatiResult } from '../../core/location/wadati';
 import type { ReviewEvent } from '../../core/review/types';
-import { isoFromMicros } from '../../core/time';
+import { isoFromMicros, type Micros } from '../../core/time';
 import { PlanView } from './planView';
 import { ResidualPanel } from './residualPanel';
 import { WadatiPanel } from './wadatiPanel';
@@ -150,6 +150,20 @@ export class EventPanels {
     return out;
   }
 
+  /**
+   * guides() with view seconds from `ref` (µs), kept until the solution, the event or `ref` changes:
+   * cheap enough to call from the pick layer's draw of every row.
+   */
+  guidesAt(event: ReviewEvent | null, ref: Micros): Map<string, { phase: 'P' | 'S'; t: number }[]> {
+    const m = this.guideMemo;
+    if (m && m.state === this.state && m.event === event && m.ref === ref) return m.guides;
+    const guides = this.guides(event, (t) => (t - ref) / 1e6);
+    this.guideMemo = { state: this.state, event, ref, guides };
+    return guides;
+  }
+
+  private guideMemo: { state: EventPanelsState; event: ReviewEvent | null; ref: Micros; guides: Map<string, { phase: 'P' | 'S'; t: number }[]> } | null = null;
+
   destroy(): void {
     this.plan.destroy();
     this.residuals.destroy();
@@ -225,7 +239,8 @@ function panelsDemo(input: PanelsDemoInput) {
     locateWarmMs,
     updateDrawMs: st.drawMs,
     drawMs: { plan: best(demo.panels.plan), residuals: best(demo.panels.residuals), wadati: best(demo.panels.wadati) },
-    guides: [...demo.panels.guides(input.event, (t) => (t - input.event.start) / 1e6)],
+    guides: [...demo.panels.guidesAt(input.event, input.event.start)],
+    guidesMemoised: demo.panels.guidesAt(input.event, input.event.start) === demo.panels.guidesAt(input.event, input.event.start),
     spots,
     column: box(demo.panels.root),
     hovered: demo.hovered,

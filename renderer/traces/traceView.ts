@@ -61,6 +61,7 @@ interface PlotSlot {
   plot: uPlot | null;
   series: number;
   rowIndex: number;
+  row: SiteRow | null;
 }
 
 const TRACE_COLOURS = ['var(--trace)', 'var(--trace)', 'var(--trace)'];
@@ -280,9 +281,13 @@ export class TraceView {
       if (!slot) {
         slot = free.pop() ?? this.newSlot();
         slot.rowIndex = i;
+        rebuild = true;
+      }
+      // A slot shows whatever row now sits at its index: relabel when that row changed.
+      if (slot.row !== row) {
+        slot.row = row;
         slot.label.replaceChildren(labelContent(row));
         slot.el.title = row.flags?.join('\n') ?? '';
-        rebuild = true;
       }
       slot.el.style.display = '';
       slot.el.style.top = `${this.rowTop(i)}px`;
@@ -324,7 +329,7 @@ export class TraceView {
     plotHost.className = 'trace-plot';
     el.append(label, plotHost);
     this.spacer.append(el);
-    const slot: PlotSlot = { el, label, plotHost, plot: null, series: 0, rowIndex: -1 };
+    const slot: PlotSlot = { el, label, plotHost, plot: null, series: 0, rowIndex: -1, row: null };
     this.slots.push(slot);
     return slot;
   }

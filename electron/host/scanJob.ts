@@ -1,0 +1,71 @@
+/**
+ * The overnight scan run for the review desk: the host starts `daybreak scan` on the opened dataset
+ * as a child process (so the interface never waits on it), keeps its state, and hands its QuakeML to
+ * the renderer when it is done. The output goes beside the review file as `daybreak-scan.xml`.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { readFile } from 'node:fs/promises';
+import { existsSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { ScanStatus } from '../contract';
+
+export const SCAN_OUTPUT_NAME = 'daybreak-scan.xml';
+
+interface Job { status: ScanStatus; child: ChildProcess | null; output: string }
+
+function cliPath(): string {
+  // bin/daybreak.mjs from this file (electron/host) or from the bundled shell (dist/electron).
+  const here = typeof __dirname === 'string' ? __dirname : dirname(fileURLToPath(import.meta.url));
+  for (const up of [['..', '..'], ['..', '..', '..']]) {
+    const p = resolve(here, ...up, 'bin', 'daybreak.mjs');
+    if (existsSync(p)) return p;
+  }
+  throw new Error('bin/daybreak.mjs not found beside the app');
+}
+
+export class ScanJobs {
+  private readonly jobs = new Map<string, Job>();
+
+  status(root: string): ScanStatus {
+    return { ...(this.jobs.get(root)?.status ?? { state: 'idle', message: '', startedAt: null, seconds: 0 }) };
+  }
+
+  /** Starts a scan of `root` unless one is running; `stations` is the StationXML, `outDir` where the QuakeML goes. */
+  start(root: string, stations: string, outDir: string, model: string | null): ScanStatus {
+    const running = this.jobs.get(root);
+    if (running?.status.state === 'running') return this.status(root);
+    const output = join(outDir, SCAN_OUTPUT_NAME);
+    const args = [cliPath(), 'scan', '--stations', stations, '--out', output, ...(model ? ['--model', model] : []), root];
+    const started = Date.now();
+    const job: Job = { status: { state: 'running', message: 'scanning the night', startedAt: new Date(started).toISOString(), seconds: 0 }, child: null, output };
+    // Under Electron, process.execPath is Electron itself: ask it to behave as plain Node.
+    const child = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, ELECTRON_RUN_AS_NODE: '1' } });
+    job.child = child;
+    let out = '';
+    child.stdout?.on('data', (b: Buffer) => { out = (out + b.toString()).slice(-4000); });
+    child.stderr?.on('data', (b: Buffer) => { out = (out + b.toString()).slice(-4000); });
+    const tick = setInterval(() => { job.status = { ...job.status, seconds: (Date.now() - started) / 1000 }; }, 500);
+    child.on('exit', (code) => {
+      clearInterval(tick);
+      const seconds = (Date.now() - started) / 1000;
+      const last = out.trim().split('\n').slice(-3).join(' \u00b7 ');
+      job.status = code === 0 || code === 1
+        ? { state: 'done', message: code === 1 ? `done; some input was reported: ${last}` : `done: ${last}`, startedAt: job.status.startedAt, seconds }
+        : { state: 'failed', message: `scan stopped (exit ${code}): ${last}`, startedAt: job.status.startedAt, seconds };
+      job.child = null;
+    });
+    this.jobs.set(root, job);
+    return this.status(root);
+  }
+
+  async result(root: string): Promise<string | null> {
+    const job = this.jobs.get(root);
+    if (!job || job.status.state !== 'done') return null;
+    return readFile(job.output, 'utf8');
+  }
+
+  stopAll(): void {
+    for (const j of this.jobs.values()) j.child?.kill();
+  }
+}
