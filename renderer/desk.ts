@@ -69,7 +69,11 @@ export class Desk {
   private readonly eventBar = el('div', { className: 'event-bar' });
   private readonly banner = el('div', { className: 'banner', hidden: true });
 
-  constructor(private readonly host: HostApi, dataset: Dataset, private readonly setStatus: (text: string) => void) {
+  constructor(
+    private readonly host: HostApi, dataset: Dataset, private readonly setStatus: (text: string) => void,
+    /** Scan the night in the background on first opening (when the review has no detector events). */
+    private readonly autoScan = true,
+  ) {
     this.session = new DataSession(host, dataset);
   }
 
@@ -186,7 +190,7 @@ export class Desk {
     foot.append(this.scanState, rescan, exportButton);
     this.eventList.root.append(foot);
     // First opening of a dataset: scan it in the background so candidate events appear.
-    if (!(this.doc?.events ?? []).some((e) => e.source === 'detector') && this.session.dataset.files.some((f) => f.kind === 'stationxml')) {
+    if (this.autoScan && !(this.doc?.events ?? []).some((e) => e.source === 'detector') && this.session.dataset.files.some((f) => f.kind === 'stationxml')) {
       void this.runScan();
     }
     const work = el('div', { className: 'desk-work' }, this.eventList.root, this.sheetHost);

@@ -126,7 +126,8 @@ async function showDataset(ds: Dataset): Promise<void> {
   const cancel = el('button', {}, 'Cancel');
   card.append(msg, bar, cancel);
   mainArea.replaceChildren(card);
-  const opening = new Desk(host, ds, (text) => { statusText.textContent = text; });
+  const autoScan = new URLSearchParams(location.search).get('scan') !== 'off';
+  const opening = new Desk(host, ds, (text) => { statusText.textContent = text; }, autoScan);
   desk = opening;
   cancel.addEventListener('click', () => opening.cancelOpen());
   try {

@@ -200,7 +200,8 @@ export class TraceView {
   }
 
   private rowHeight(row: SiteRow): number {
-    return Math.max(1, row.components.length) * this.opts.bandHeight + 4;
+    // At least tall enough for the three label lines of a vertical-only site.
+    return Math.max(Math.max(1, row.components.length) * this.opts.bandHeight, 46) + 4;
   }
 
   private rowTop(index: number): number {

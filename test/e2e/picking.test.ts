@@ -52,7 +52,8 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     const demoDir = mkdtempSync(join(tmpdir(), 'daybreak-demo-'));
     writeFileSync(join(demoDir, DEMO_COMPLETE_MARKER), '{}');
     app = await openApp({ demoDir, height: 900 });
-    await app.page.goto(app.server.url.replace('/#', `/?dataset=${encodeURIComponent(data)}#`));
+    // scan=off: these tests edit by hand; the background scan has its own test.
+    await app.page.goto(app.server.url.replace('/#', `/?scan=off&dataset=${encodeURIComponent(data)}#`));
     await app.page.locator('.trace-row').first().waitFor({ timeout: 60_000 });
     await app.page.waitForTimeout(300);
   }, 120_000);
