@@ -13,8 +13,9 @@
  *    `sShare` the onset is taken as S. (Three-component polarization to tell P from S is a published
  *    idea: e.g. Cichowicz, 1993, BSSA 83(1), 180-189 - from memory.)
  * 2. An onset taken as S is picked as S (joint AIC of the horizontals around it), and P is sought
- *    before it: AIC on the vertical from `maxSMinusP` seconds before S (but not before the
- *    network's first P less 1 s) to `0.2` s before S.
+ *    before it: AIC on the vertical from `maxSMinusP` seconds before S (but not before the time the
+ *    sites whose onsets were taken as P allow: their P less distance / vMin less slack) to 0.2 s
+ *    before S. A P found there with SNR below `minSnr` is dropped (the S pick stays).
  * 3. Sites of the event without a trigger: the network's first P bounds where their first arrival
  *    can be (no later than distance / vMin after it, Fermat as in coincidence.ts); a lower trigger
  *    level (`retrigger`) on the STA/LTA ratio of that window, run from `lta` seconds before it,
@@ -167,9 +168,16 @@ export function pickEventSites(sites: readonly EventSite[], options: Partial<Eve
     states.push({ site, onset: p.time, p, sLike: isSLike(site, p.time, o) });
   }
   // Onsets taken as S: P is sought before them.
+  const anchors = states.filter((s) => !s.sLike);
   for (const s of states) {
     if (!s.sLike) continue;
-    const lead = Math.min(o.maxSMinusP, Math.max(0.5, (s.onset - first) / 1e6 + 1));
+    // P here is no earlier than an anchor's P less the straight-path time at vMin (Fermat) and slack.
+    let earliest = -Infinity;
+    for (const a of anchors) {
+      const t = a.onset - Math.round((siteDistanceKm(a.site.position, s.site.position) / o.vMin + o.slack) * 1e6);
+      if (t > earliest) earliest = t;
+    }
+    const lead = Math.min(o.maxSMinusP, Math.max(0.5, (s.onset - 200_000 - earliest) / 1e6));
     const p = pickP(s.site.vertical, s.onset - 200_000, { ...o.onset, before: lead, after: 0.05 });
     s.p = p && p.snr >= o.minSnr ? p : null;
   }
