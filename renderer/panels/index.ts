@@ -52,6 +52,7 @@ export class EventPanels {
   private readonly summary = document.createElement('div');
   private state: EventPanelsState = { location: null, wadati: null, predicted: null, locateMs: 0, drawMs: 0 };
   private highlighted: string | null = null;
+  private lastInput: { event: ReviewEvent | null; sites: ReadonlyMap<string, SiteLocation>; model: VelocityModel } | null = null;
 
   constructor(container: HTMLElement, private readonly options: EventPanelsOptions = {}) {
     this.root.className = 'db-panels';
@@ -77,6 +78,11 @@ export class EventPanels {
    * the three panels. Call after every pick edit and when another event opens (null: no event).
    */
   update(event: ReviewEvent | null, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel): EventPanelsState {
+    // Review events are immutable values (an edit makes a new one): the same event, sites and model
+    // need no new solution (a click that only selects a pick costs nothing).
+    const last = this.lastInput;
+    if (last && last.event === event && last.sites === sites && last.model === model) return this.state;
+    this.lastInput = { event, sites, model };
     const t0 = performance.now();
     let location: ReviewLocateResult | null = null;
     let wadati: WadatiResult | null = null;
@@ -212,6 +218,7 @@ function panelsDemo(input: PanelsDemoInput) {
   }
   const sites = new Map(input.sites);
   const st = demo.panels.update(input.event, sites, input.model);
+  const memoised = demo.panels.update(input.event, sites, input.model) === st;
   demo.panels.highlight(input.highlight ?? null);
   // redraw timings of each panel alone, best of 20 (the first draw pays for fonts and layout)
   const best = (p: { draw(): number }) => Math.min(...Array.from({ length: 20 }, () => p.draw()));
@@ -240,6 +247,7 @@ function panelsDemo(input: PanelsDemoInput) {
     updateDrawMs: st.drawMs,
     drawMs: { plan: best(demo.panels.plan), residuals: best(demo.panels.residuals), wadati: best(demo.panels.wadati) },
     guides: [...demo.panels.guidesAt(input.event, input.event.start)],
+    updateMemoised: memoised,
     guidesMemoised: demo.panels.guidesAt(input.event, input.event.start) === demo.panels.guidesAt(input.event, input.event.start),
     spots,
     column: box(demo.panels.root),

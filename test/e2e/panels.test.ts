@@ -95,6 +95,7 @@ describe('event panels: plan view, residuals and Wadati diagram (Chromium, brows
       }
     }
     expect(out.guidesMemoised).toBe(true);
+    expect(out.updateMemoised).toBe(true);
     expect(out.column.width).toBeGreaterThanOrEqual(260);
     expect(out.column.width).toBeLessThanOrEqual(300);
     console.log(`real event: locate ${out.locateMs.toFixed(2)} ms (warm ${out.locateWarmMs.toFixed(2)} ms), update draw ${out.updateDrawMs.toFixed(2)} ms, redraw plan ${out.drawMs.plan.toFixed(2)} / residuals ${out.drawMs.residuals.toFixed(2)} / Wadati ${out.drawMs.wadati.toFixed(2)} ms`);
