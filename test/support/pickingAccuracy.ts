@@ -14,7 +14,9 @@
  *   AIC on the horizontal energy N^2 + E^2 in a fixed window after P, polarity from the sign of the
  *   first sample after the pick).
  *
- * Scoring: every truth arrival with a measured SNR is one trial. A pick of the same phase at the same
+ * Scoring: every truth arrival with a measured SNR is one trial, at its true time (the rendered
+ * samples carry no clock fault) and with the polarity the vertical records (reversed on a channel
+ * wired the wrong way round, which the metadata do not say). A pick of the same phase at the same
  * station counts for the arrival nearest to it; an arrival without a pick within MATCH_SECONDS is a
  * miss and counts as a failure in every share. Events found: every event whose P has SNR > 5 at 4 or
  * more stations must have a candidate event with a trigger within 3 s of one of its P arrivals. False
@@ -97,6 +99,14 @@ export interface RenderedNight {
   /** Event id of each truth arrival (same order). */
   readonly truthEvent: string[];
   readonly hours: number;
+}
+
+/**
+ * One hour-long piece of a scenario (its stations, events and faults; arrivals within 35 s of the
+ * piece's start have no SNR in the truth and are not scored).
+ */
+export function scenarioPiece(sc: Scenario, start: Micros, minutes: number): Scenario {
+  return { ...sc, start, end: Math.min(sc.end, start + Math.round(minutes * 60e6)) };
 }
 
 export function renderNight(sc: Scenario): RenderedNight {
@@ -323,6 +333,20 @@ function emptyClasses(): Record<SnrClass, ClassScore> {
   return { '>=10': { arrivals: 0, within: [0, 0], errors: [] }, '4-10': { arrivals: 0, within: [0, 0], errors: [] }, '<4': { arrivals: 0, within: [0, 0], errors: [] } };
 }
 
+/**
+ * The arrival's time in the samples the harness reads: the true time. (The rendered samples run on
+ * true time; a clock fault lives only in the written files' time tags, which the harness does not read.)
+ */
+function recordedMicros(a: TruthArrival): Micros {
+  return a.timeMicros;
+}
+
+/** The P polarity the vertical records: the ground's, reversed on a channel wired the wrong way round. */
+function recordedPolarity(a: TruthArrival): 'positive' | 'negative' {
+  const zReversed = a.reversedChannels.some((k) => /Z$/.test(k));
+  return zReversed ? (a.polarity === 'positive' ? 'negative' : 'positive') : a.polarity;
+}
+
 export function scoreChain(night: RenderedNight, result: ChainResult): Score {
   const p = emptyClasses(), s = emptyClasses();
   const polarity = { arrivals: 0, given: 0, right: 0 };
@@ -335,15 +359,16 @@ export function scoreChain(night: RenderedNight, result: ChainResult): Score {
   }
   for (const a of night.truth) {
     if (a.snr === null) continue;
+    const at = recordedMicros(a);
     const cls = snrClass(a.snr);
     const target = a.wave === 'P' ? p[cls] : s[cls];
     const tol = a.wave === 'P' ? P_TOLERANCES : S_TOLERANCES;
     target.arrivals++;
     let best: Pick | null = null;
     for (const pk of picksAt.get(`${a.station}.${a.wave}`) ?? []) {
-      if (!best || Math.abs(pk.time - a.timeMicros) < Math.abs(best.time - a.timeMicros)) best = pk;
+      if (!best || Math.abs(pk.time - at) < Math.abs(best.time - at)) best = pk;
     }
-    const err = best ? (best.time - a.timeMicros) / 1e6 : Infinity;
+    const err = best ? (best.time - at) / 1e6 : Infinity;
     const matched = Math.abs(err) <= MATCH_SECONDS;
     if (matched) {
       target.errors.push(err);
@@ -354,7 +379,7 @@ export function scoreChain(night: RenderedNight, result: ChainResult): Score {
       polarity.arrivals++;
       if (matched && best && best.polarity && best.polarity !== 'undecidable') {
         polarity.given++;
-        if (best.polarity === a.polarity) polarity.right++;
+        if (best.polarity === recordedPolarity(a)) polarity.right++;
       }
     }
   }
@@ -370,12 +395,12 @@ export function scoreChain(night: RenderedNight, result: ChainResult): Score {
     const strong = arr.filter((a) => a.wave === 'P' && a.snr !== null && a.snr > 5);
     if (strong.length < 4) continue;
     eventsToFind++;
-    const found = result.events.some((ev) => ev.triggers.some((t) => strong.some((a) => a.station === t.id.station && Math.abs(t.on - a.timeMicros) <= 3e6)));
+    const found = result.events.some((ev) => ev.triggers.some((t) => strong.some((a) => a.station === t.id.station && Math.abs(t.on - recordedMicros(a)) <= 3e6)));
     if (found) eventsFound++;
   }
   let falseEvents = 0;
   for (const ev of result.events) {
-    const real = [...ev.triggers, ...ev.secondary].some((t) => night.truth.some((a) => a.station === t.id.station && Math.abs(t.on - a.timeMicros) <= 3e6));
+    const real = [...ev.triggers, ...ev.secondary].some((t) => night.truth.some((a) => a.station === t.id.station && Math.abs(t.on - recordedMicros(a)) <= 3e6));
     if (!real) falseEvents++;
   }
   return { p, s, polarity, eventsToFind, eventsFound, falseEvents, hours: night.hours };
