@@ -21,7 +21,7 @@
  * any, continue the segment.
  */
 import { type ChannelData, type ChannelId, type LogChannel, type Overlap, type SampleArray, type Segment, type TimeSpan, channelKey } from '../model';
-import type { Micros } from '../time';
+import { microsFromYearDay, type Micros } from '../time';
 import { decodeAscii, decodeSamples, SampleKind, sampleKindOf, capacityProblem } from './decode';
 import { MiniSeedError, MSEED3_REASON } from './errors';
 import {
@@ -117,6 +117,139 @@ interface FileState {
   ms3Start: number;
   ms3Count: number;
   lastRecordLength: number;
+  /** Headers of the last streams read in full, for reading their next records quickly (newest last). */
+  templates: HeaderTemplate[];
+}
+
+/** The header fields the collector uses (a {@link RecordHeader} has them all). */
+interface HeaderFields {
+  id: ChannelId;
+  start: Micros;
+  sampleRate: number;
+  sampleRateFactor: number;
+  sampleRateMultiplier: number;
+  sampleCount: number;
+  encoding: number;
+  littleEndian: boolean;
+  recordLength: number;
+  dataOffset: number;
+  quality: string;
+  timingQuality: number | null;
+  clockLocked: boolean;
+  questionableTime: boolean;
+  leapSecond: boolean;
+}
+
+/**
+ * A record header read in full by parseRecordHeader, kept to read the following records of the same
+ * stream without allocating. Consecutive records of a stream differ only in the sequence number,
+ * start time, sample count, flags, time correction and blockette 1001's fields; a record whose other
+ * header bytes (quality, reserved byte, codes, rate factor and multiplier, data and blockette offsets,
+ * every blockette's type and next offset, blockettes 1000 and 100 whole) equal the template's is read
+ * from the changing fields alone, with the same range checks parseRecordHeader makes. Anything else
+ * (a failed check included) goes to parseRecordHeader, so errors and their wording stay its own.
+ */
+class HeaderTemplate {
+  /** The template record's first bytes (up to its last compared byte). */
+  private readonly bytes: Uint8Array;
+  /** Offsets (from the record start) of the bytes that must be equal. */
+  private readonly same: Int32Array;
+  private readonly le: boolean;
+  /** Offset of the (last) blockette 1001, -1 without one. */
+  private readonly b1001: number;
+  /** What {@link read} returns, refilled per record. */
+  private readonly out: HeaderFields;
+
+  private constructor(bytes: Uint8Array, same: Int32Array, le: boolean, b1001: number, h: RecordHeader) {
+    this.bytes = bytes;
+    this.same = same;
+    this.le = le;
+    this.b1001 = b1001;
+    this.out = {
+      id: h.id, start: 0, sampleRate: h.sampleRate, sampleRateFactor: h.sampleRateFactor, sampleRateMultiplier: h.sampleRateMultiplier,
+      sampleCount: 0, encoding: h.encoding, littleEndian: h.littleEndian, recordLength: h.recordLength, dataOffset: h.dataOffset,
+      quality: h.quality, timingQuality: null, clockLocked: false, questionableTime: false, leapSecond: false,
+    };
+  }
+
+  /** A template from a record parseRecordHeader read at `p`, or null when its kind is not worth one. */
+  static from(b: Uint8Array, p: number, h: RecordHeader): HeaderTemplate | null {
+    const kind = sampleKindOf(h.encoding);
+    if (!h.hasBlockette1000 || kind === SampleKind.Text || kind === SampleKind.Unsupported) return null;
+    if (!(h.sampleRate > 0 && Number.isFinite(h.sampleRate))) return null;
+    if (h.dataOffset < FIXED_HEADER_LENGTH || h.dataOffset >= h.recordLength) return null;
+    const le = h.headerLittleEndian;
+    const same: number[] = [];
+    const range = (from: number, to: number) => { for (let k = from; k < to; k++) same.push(k); };
+    range(6, 20);
+    range(32, 36);
+    range(44, 48);
+    let b1001 = -1;
+    for (let blk = u16(b, p + 46, le); blk !== 0; blk = u16(b, p + blk + 2, le)) {
+      const type = u16(b, p + blk, le);
+      range(blk, blk + 4);
+      if (type === 1000 || type === 100) range(blk + 4, blk + 8);
+      else if (type === 1001) b1001 = blk;
+    }
+    const span = Math.max(...same) + 1;
+    return new HeaderTemplate(b.slice(p, p + span), Int32Array.from(same), le, b1001, h);
+  }
+
+  /**
+   * The header of the record at `p` (with `avail` bytes from `p` to the end of the chunk) when it
+   * matches the template and passes the checks, else null. The result is reused by the next call.
+   */
+  read(b: Uint8Array, p: number, avail: number): HeaderFields | null {
+    const out = this.out;
+    if (avail < out.recordLength) return null;
+    const t = this.bytes;
+    const same = this.same;
+    for (let k = 0; k < same.length; k++) {
+      const o = same[k];
+      if (b[p + o] !== t[o]) return null;
+    }
+    for (let k = 0; k < 6; k++) {
+      const c = b[p + k];
+      if (!((c >= 0x30 && c <= 0x39) || c === 0x20 || c === 0)) return null;
+    }
+    const le = this.le;
+    // parseRecordHeader takes the header as big-endian when the year and day are valid so.
+    const yearBE = (b[p + 20] << 8) | b[p + 21];
+    const dayBE = (b[p + 22] << 8) | b[p + 23];
+    const validBE = yearBE >= 1900 && yearBE <= 2100 && dayBE >= 1 && dayBE <= 366;
+    if (validBE === le) return null;
+    const year = le ? u16(b, p + 20, true) : yearBE;
+    const day = le ? u16(b, p + 22, true) : dayBE;
+    if (le && !(year >= 1900 && year <= 2100 && day >= 1 && day <= 366)) return null;
+    const hour = b[p + 24];
+    const minute = b[p + 25];
+    const second = b[p + 26];
+    const fract = u16(b, p + 28, le);
+    if (hour > 23 || minute > 59 || second > 60 || fract > 9999) return null;
+    const activity = b[p + 36];
+    const correction = 100 * (le
+      ? b[p + 40] | (b[p + 41] << 8) | (b[p + 42] << 16) | (b[p + 43] << 24)
+      : (b[p + 40] << 24) | (b[p + 41] << 16) | (b[p + 42] << 8) | b[p + 43]);
+    let micros = 0;
+    if (this.b1001 >= 0) {
+      out.timingQuality = b[p + this.b1001 + 4];
+      micros = (b[p + this.b1001 + 5] << 24) >> 24;
+    }
+    out.start = microsFromYearDay(year, day, hour, minute, second, fract * 100) + micros
+      + ((activity & 0x02) === 0 ? correction : 0);
+    out.sampleCount = u16(b, p + 30, le);
+    out.leapSecond = second === 60 || (activity & 0x30) !== 0;
+    out.clockLocked = (b[p + 37] & 0x20) !== 0;
+    out.questionableTime = (b[p + 38] & 0x80) !== 0;
+    return out;
+  }
+}
+
+/** Streams per file whose header templates are kept. */
+const MAX_TEMPLATES = 8;
+
+function u16(b: Uint8Array, p: number, le: boolean): number {
+  return le ? b[p] | (b[p + 1] << 8) : (b[p] << 8) | b[p + 1];
 }
 
 function makeArray(kind: SampleKind, n: number): SampleArray {
@@ -139,12 +272,15 @@ export class MiniSeedCollector {
   private readonly logs = new Map<string, { id: ChannelId; entries: { time: Micros; text: string }[] }>();
   private order = 0;
   private planned = false;
+  /** The channel the last record went to, and the id object it was found by (header templates reuse theirs). */
+  private lastId: ChannelId | null = null;
+  private lastChannel: ChannelBuild | null = null;
 
   /** Registers a file (or an in-memory buffer under a name); returns its index. */
   addFile(path: string): number {
     this.files.push({
       path, records: 0, errors: [], queue: [], cursor: 0, badStart: -1, badReason: '', ms3Start: -1, ms3Count: 0,
-      lastRecordLength: 0,
+      lastRecordLength: 0, templates: [],
     });
     return this.files.length - 1;
   }
@@ -168,34 +304,43 @@ export class MiniSeedCollector {
         p = len;
         break;
       }
-      if (isMiniSeed3(bytes, p)) {
-        this.endBad(fs, base + p);
-        const l = miniSeed3RecordLength(bytes, p);
-        if (fs.ms3Start < 0) { fs.ms3Start = base + p; fs.ms3Count = 0; }
-        fs.ms3Count++;
-        if (l >= 40 && p + l <= len) { p += l; continue; }
+      // Records of a stream already seen are read from the fields that change (no allocation).
+      let h: HeaderFields | null = null;
+      if (fs.badStart < 0 && fs.ms3Start < 0) {
+        for (let k = 0; k < fs.templates.length && h === null; k++) h = fs.templates[k].read(bytes, p, len - p);
+      }
+      if (h === null) {
+        if (isMiniSeed3(bytes, p)) {
+          this.endBad(fs, base + p);
+          const l = miniSeed3RecordLength(bytes, p);
+          if (fs.ms3Start < 0) { fs.ms3Start = base + p; fs.ms3Count = 0; }
+          fs.ms3Count++;
+          if (l >= 40 && p + l <= len) { p += l; continue; }
+          this.endMs3(fs);
+          this.beginBad(fs, base + p, `${MSEED3_REASON} (record length unreadable or truncated)`);
+          p = this.resync(fs, bytes, p + 1, stopAt);
+          continue;
+        }
+        if (fs.badStart >= 0 && !looksLikeRecordStart(bytes, p)) {
+          p = this.resync(fs, bytes, p + 1, stopAt);
+          continue;
+        }
+        let parsed: RecordHeader;
+        try {
+          parsed = parseRecordHeader(bytes, p, fs.path);
+        } catch (e) {
+          if (!(e instanceof MiniSeedError)) throw e;
+          this.endMs3(fs);
+          this.endBad(fs, base + p);
+          this.beginBad(fs, base + p, e.reason);
+          p = this.resync(fs, bytes, p + 1, stopAt);
+          continue;
+        }
         this.endMs3(fs);
-        this.beginBad(fs, base + p, `${MSEED3_REASON} (record length unreadable or truncated)`);
-        p = this.resync(fs, bytes, p + 1, stopAt);
-        continue;
-      }
-      if (fs.badStart >= 0 && !looksLikeRecordStart(bytes, p)) {
-        p = this.resync(fs, bytes, p + 1, stopAt);
-        continue;
-      }
-      let h: RecordHeader;
-      try {
-        h = parseRecordHeader(bytes, p, fs.path);
-      } catch (e) {
-        if (!(e instanceof MiniSeedError)) throw e;
-        this.endMs3(fs);
         this.endBad(fs, base + p);
-        this.beginBad(fs, base + p, e.reason);
-        p = this.resync(fs, bytes, p + 1, stopAt);
-        continue;
+        this.remember(fs, HeaderTemplate.from(bytes, p, parsed));
+        h = parsed;
       }
-      this.endMs3(fs);
-      this.endBad(fs, base + p);
       // A record length field that a bit flip made too long shows as a record header inside it
       // (looked for when the length differs from the previous record's).
       const inner = h.recordLength === fs.lastRecordLength ? 0 : this.innerHeader(bytes, p, h.recordLength);
@@ -227,6 +372,13 @@ export class MiniSeedCollector {
     return base + p;
   }
 
+  /** Keeps `t` among the file's header templates (a few streams: multiplexed files interleave them). */
+  private remember(fs: FileState, t: HeaderTemplate | null): void {
+    if (t === null) return;
+    if (fs.templates.length >= MAX_TEMPLATES) fs.templates.shift();
+    fs.templates.push(t);
+  }
+
   /** Offset (from the record start) of a record header found inside a record of length `len`, or 0. */
   private innerHeader(bytes: Uint8Array, p: number, len: number): number {
     for (let d = MIN_RECORD_LENGTH; d < len; d *= 2) {
@@ -241,7 +393,7 @@ export class MiniSeedCollector {
     return 0;
   }
 
-  private addRecord(fs: FileState, file: number, bytes: Uint8Array, p: number, base: number, h: RecordHeader): void {
+  private addRecord(fs: FileState, file: number, bytes: Uint8Array, p: number, base: number, h: HeaderFields): void {
     const kind = sampleKindOf(h.encoding);
     const problem = h.sampleCount > 0 ? capacityProblem(h.encoding, h.sampleCount, h.recordLength - h.dataOffset) : null;
     if (problem) {
@@ -267,9 +419,14 @@ export class MiniSeedCollector {
       file, base + p, h.start, h.sampleRate, h.sampleCount, h.encoding, h.littleEndian, h.recordLength, h.dataOffset,
       flags, h.timingQuality ?? -1, h.quality, this.order++,
     );
-    const key = channelKey(h.id);
-    let ch = this.channels.get(key);
-    if (!ch) this.channels.set(key, (ch = { id: h.id, records: [], plans: [], overlapping: [] }));
+    let ch = this.lastChannel;
+    if (ch === null || h.id !== this.lastId) {
+      const key = channelKey(h.id);
+      ch = this.channels.get(key) ?? null;
+      if (ch === null) this.channels.set(key, (ch = { id: h.id, records: [], plans: [], overlapping: [] }));
+      this.lastId = h.id;
+      this.lastChannel = ch;
+    }
     r.plans = ch.plans;
     ch.records.push(r);
     fs.queue.push(r);
