@@ -5,7 +5,7 @@
  * to disk and renames it over the old one, so a crash at any moment leaves either the old or the new
  * file whole. A lock file beside it tells a second copy of the app that the file is in use.
  */
-import { access, constants, mkdir, open, readFile, rename, unlink, writeFile } from 'node:fs/promises';
+import { access, constants, mkdir, open, readFile, rename, stat, unlink, writeFile } from 'node:fs/promises';
 import { createHash, randomUUID } from 'node:crypto';
 import { hostname } from 'node:os';
 import { basename, dirname, join } from 'node:path';
@@ -14,8 +14,19 @@ export const REVIEW_FILE_NAME = 'daybreak.review.json';
 
 export interface LockInfo { pid: number; host: string; instance: string; since: string }
 
+/**
+ * Whether Daybreak may write into `dir`: the operating system must allow it AND the folder must carry
+ * a write permission bit (so a folder marked read-only is respected even by a root user, whom the
+ * system would let write anyway).
+ */
+export async function folderWritable(dir: string): Promise<boolean> {
+  const st = await stat(dir).catch(() => null);
+  if (!st || (st.mode & 0o222) === 0) return false;
+  return access(dir, constants.W_OK).then(() => true, () => false);
+}
+
 export async function reviewPathFor(datasetRoot: string, userDir: string): Promise<string> {
-  const writable = await access(datasetRoot, constants.W_OK).then(() => true, () => false);
+  const writable = await folderWritable(datasetRoot);
   if (writable) return join(datasetRoot, REVIEW_FILE_NAME);
   const tag = createHash('sha256').update(datasetRoot).digest('hex').slice(0, 16);
   return join(userDir, 'reviews', `${basename(datasetRoot) || 'dataset'}-${tag}.review.json`);

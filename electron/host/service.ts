@@ -3,7 +3,7 @@
  * desktop shell (over IPC) and the browser mode (over HTTP). Every request is validated here, once,
  * whatever carried it; paths are confined to the folders the user opened and the demo folder.
  */
-import { readdir, readFile, stat, access, constants, open } from 'node:fs/promises';
+import { readdir, readFile, stat, open } from 'node:fs/promises';
 import { existsSync } from 'node:fs';
 import { dirname, join, relative, resolve, sep } from 'node:path';
 import type {
@@ -11,7 +11,7 @@ import type {
   HostResult, RequestOf, ResponseOf,
 } from '../contract';
 import { DEFAULT_SETTINGS, HOST_REQUEST_NAMES, type ReviewFileState, type Settings } from '../contract';
-import { ReviewLocks, reviewPathFor, writeAtomically } from './reviewStore';
+import { ReviewLocks, folderWritable, reviewPathFor, writeAtomically } from './reviewStore';
 import { ScanJobs } from './scanJob';
 
 export class HostError extends Error {
@@ -183,7 +183,7 @@ export class HostService {
     const files: DatasetFile[] = [];
     await listFiles(root, root, files);
     files.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
-    const writable = await access(root, constants.W_OK).then(() => true, () => false);
+    const writable = await folderWritable(root);
     this.openRoots.add(root);
     return { root, files, writable };
   }

@@ -40,7 +40,9 @@ export interface RunningApp {
 
 export async function openApp(opts: { demoDir: string; width?: number; height?: number }): Promise<RunningApp> {
   const staticDir = await buildRenderer();
-  const server = await runBrowserMode({ port: 0, demoDir: opts.demoDir, staticDir });
+  // A fresh user folder per run: review files of read-only datasets and settings go there, never into ~.
+  const userDir = mkdtempSync(join(tmpdir(), 'daybreak-user-'));
+  const server = await runBrowserMode({ port: 0, demoDir: opts.demoDir, staticDir, userDir });
   // playwright-core gives every launch a new, empty user-data-dir of its own.
   const browser = await chromium.launch({
     executablePath: CHROMIUM,

@@ -161,7 +161,7 @@ function filterSites(night: RenderedNight): FilteredSite[] {
 }
 
 /** Longest P travel time to the first site of an event, s (the scan's `firstTravelMax`). */
-const FIRST_TRAVEL_MAX = 10;
+const FIRST_TRAVEL_MAX = Number(process.env.FTM ?? 10);
 
 /**
  * The project's chain: core/pick's LOCAL_EARTHQUAKE_BUSY trigger (20 s LTA), coincidence with its
