@@ -21,6 +21,8 @@ import {
 } from '../core/review';
 import { microsFromIso } from '../core/time';
 import { readQuakeMl } from '../core/quakeml';
+import { EventPanels } from './panels';
+import { DEFAULT_MODEL, parseVelocityModel, siteLocations, type SiteLocation, type VelocityModel } from '../core/location';
 import { KEY_MAP, actionForKey, type KeyAction } from './keys';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
@@ -60,6 +62,9 @@ export class Desk {
   private ref: Micros = 0;
   private loadSeq = 0;
   private history: History | null = null;
+  private panels: EventPanels | null = null;
+  private siteCoords = new Map<string, SiteLocation>();
+  private model: VelocityModel = DEFAULT_MODEL;
   private saver: ReviewSaver | null = null;
   private readOnly = false;
   private currentEvent: string | null = null;
@@ -89,6 +94,16 @@ export class Desk {
       return;
     }
     await this.openReviewFile(false);
+    this.siteCoords = siteLocations([...this.session.channels.values()].map((c) => c.meta));
+    const mf = this.session.dataset.files.find((f) => f.kind === 'model');
+    const mr = mf ? await this.host.call('file.read', { root: this.session.dataset.root, path: mf.path }) : null;
+    if (mf && mr?.ok) {
+      try {
+        this.model = parseVelocityModel(new TextDecoder().decode(mr.value), mf.path);
+      } catch (e) {
+        this.setStatus(`${e instanceof Error ? e.message : e}; using the default model`);
+      }
+    }
     this.build();
   }
 
@@ -160,7 +175,11 @@ export class Desk {
       el('label', {}, 'Scale ', amp),
       reset);
     const traceHost = el('div', { className: 'trace-host' });
-    this.sheetHost.replaceChildren(toolbar, traceHost);
+    const side = el('aside', { className: 'event-side' });
+    this.sheetHost.replaceChildren(toolbar, el('div', { className: 'sheet-body' }, traceHost, side));
+    this.panels = new EventPanels(side, { onHover: (site) => this.traces?.highlightRow(site) });
+    traceHost.addEventListener('pointermove', () => this.panels?.highlight(this.traces?.pointer()?.row.key ?? null));
+    traceHost.addEventListener('pointerleave', () => this.panels?.highlight(null));
     this.sheetHost.dataset.filter = String(this.filterIndex);
     this.filterSelect = filterSelect;
     this.traces = new TraceView(traceHost, {
@@ -320,7 +339,7 @@ export class Desk {
         return { ...p, upper: Math.max(0, d.preview - tp) };
       });
     }
-    return { picks, selected: this.selected, toView: (t) => (t - this.ref) / 1e6 };
+    return { picks, selected: this.selected, guides: ev ? this.panels?.guidesAt(ev, this.ref) : undefined, toView: (t) => (t - this.ref) / 1e6 };
   }
 
   /** Applies an edit (unless the review is read-only here), saves, redraws. */
@@ -350,6 +369,8 @@ export class Desk {
     this.eventList.set(doc.events, this.currentEvent);
     this.overview?.setMarks(doc.events.map((e) => ({ t: e.start, label: e.id })));
     this.renderEventBar();
+    const located = this.panels?.update(this.currentEv(), this.siteCoords, this.model);
+    if (located?.location && !located.location.ok && ev && ev.picks.length > 0) this.setStatus(`not located: ${located.location.message}`);
     this.traces?.redrawMarks();
   }
 

@@ -165,6 +165,14 @@ export class TraceView {
     return r.left + ((t - this.win[0]) / (this.win[1] - this.win[0])) * r.width;
   }
 
+  private highlighted: string | null = null;
+
+  /** Marks the row of site `key` (e.g. hovered in a linked panel); null clears it. */
+  highlightRow(key: string | null): void {
+    this.highlighted = key;
+    for (const s of this.slots) s.el.classList.toggle('hovered', s.row !== null && s.rowIndex >= 0 && s.row.key === key);
+  }
+
   /** The row, band and time under the pointer, or null when it is not over the traces. */
   pointer(): PointerSpot | null {
     if (!this.lastPointer) return null;
@@ -291,6 +299,7 @@ export class TraceView {
         slot.el.title = row.flags?.join('\n') ?? '';
       }
       slot.el.style.display = '';
+      slot.el.classList.toggle('hovered', row.key === this.highlighted);
       slot.el.style.top = `${this.rowTop(i)}px`;
       const h = this.rowHeight(row);
       slot.el.style.height = `${h}px`;
