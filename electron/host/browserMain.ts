@@ -1,6 +1,7 @@
 /**
  * Browser mode: `npm run browser` serves the built renderer and the host on 127.0.0.1 and prints the
- * address (with its per-run token) to open in a browser. Options: --port N, --demo-dir DIR.
+ * address (with its per-run token) to open in a browser. Options: --port N, --demo-dir DIR,
+ * --static-dir DIR (the built renderer), --user-dir DIR (settings and reviews of read-only data).
  */
 import { join, dirname, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -38,7 +39,10 @@ function argValue(args: string[], name: string): string | undefined {
 if (process.argv[1] && resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
   const args = process.argv.slice(2);
   const port = argValue(args, '--port');
-  runBrowserMode({ port: port ? Number(port) : undefined, demoDir: argValue(args, '--demo-dir') }).then(
+  runBrowserMode({
+    port: port ? Number(port) : undefined, demoDir: argValue(args, '--demo-dir'),
+    staticDir: argValue(args, '--static-dir'), userDir: argValue(args, '--user-dir'),
+  }).then(
     (s) => {
       console.log(`Daybreak (browser mode) is at:\n  ${s.url}\nOpen that address; it works only on this computer. Ctrl+C stops it.`);
     },
