@@ -13,7 +13,7 @@
  */
 import { demoScenario, DEMO_SEED } from '../../core/synth/demo';
 import {
-  accuracyNight, mergeScores, projectChain, renderNight, scenarioPiece, scoreChain, scoreTable, textbookChain, type Score,
+  accuracyNight, mergeScores, projectChain, regionalEvents, renderNight, scenarioPiece, scoreChain, scoreTable, textbookChain, type Score,
 } from '../support/pickingAccuracy';
 
 export const ACCURACY_SEEDS = [101, 202, 303, 404];
@@ -50,11 +50,20 @@ if (given.length === 0) {
   const demo = demoScenario(DEMO_SEED);
   const project: Score[] = [];
   const floor: Score[] = [];
+  const projectLocal: Score[] = [];
+  const floorLocal: Score[] = [];
   for (let t = demo.start; t < demo.end; t += 3600e6) {
     const night = renderNight(scenarioPiece(demo, t, 60));
-    project.push(scoreChain(night, projectChain(night)));
-    floor.push(scoreChain(night, textbookChain(night)));
+    const regional = regionalEvents(night);
+    const pr = projectChain(night);
+    const fl = textbookChain(night);
+    project.push(scoreChain(night, pr));
+    floor.push(scoreChain(night, fl));
+    projectLocal.push(scoreChain(night, pr, regional));
+    floorLocal.push(scoreChain(night, fl, regional));
   }
   console.log(`\ndemo night: seed ${DEMO_SEED}, 10 h in one-hour pieces, with its faults\n`);
   console.log(scoreTable([{ name: 'project', score: mergeScores(project) }, { name: 'textbook', score: mergeScores(floor) }]));
+  console.log('\ndemo night without its regional event (epicentre over 100 km from every station)\n');
+  console.log(scoreTable([{ name: 'project', score: mergeScores(projectLocal) }, { name: 'textbook', score: mergeScores(floorLocal) }]));
 }

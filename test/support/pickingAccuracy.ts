@@ -161,7 +161,7 @@ function filterSites(night: RenderedNight): FilteredSite[] {
 }
 
 /** Longest P travel time to the first site of an event, s (the scan's `firstTravelMax`). */
-const FIRST_TRAVEL_MAX = Number(process.env.FTM ?? 10);
+const FIRST_TRAVEL_MAX = 10;
 
 /**
  * The project's chain: core/pick's LOCAL_EARTHQUAKE_BUSY trigger (20 s LTA), coincidence with its
@@ -347,7 +347,17 @@ function recordedPolarity(a: TruthArrival): 'positive' | 'negative' {
   return zReversed ? (a.polarity === 'positive' ? 'negative' : 'positive') : a.polarity;
 }
 
-export function scoreChain(night: RenderedNight, result: ChainResult): Score {
+/** Events whose epicentre lies over 100 km from every station of the night (regional, not local). */
+export function regionalEvents(night: RenderedNight): Set<string> {
+  const near = new Set<string>();
+  night.truth.forEach((a, i) => {
+    if (a.epicentralKm <= 100) near.add(night.truthEvent[i]);
+  });
+  return new Set(night.truthEvent.filter((e) => !near.has(e)));
+}
+
+/** Scores a chain's picks; arrivals of the events in `leaveOut` are not scored. */
+export function scoreChain(night: RenderedNight, result: ChainResult, leaveOut: ReadonlySet<string> = new Set()): Score {
   const p = emptyClasses(), s = emptyClasses();
   const polarity = { arrivals: 0, given: 0, right: 0 };
   const picksAt = new Map<string, Pick[]>();
@@ -357,8 +367,8 @@ export function scoreChain(night: RenderedNight, result: ChainResult): Score {
     l.push(pk);
     picksAt.set(key, l);
   }
-  for (const a of night.truth) {
-    if (a.snr === null) continue;
+  for (const [i, a] of night.truth.entries()) {
+    if (a.snr === null || leaveOut.has(night.truthEvent[i])) continue;
     const at = recordedMicros(a);
     const cls = snrClass(a.snr);
     const target = a.wave === 'P' ? p[cls] : s[cls];
@@ -391,7 +401,8 @@ export function scoreChain(night: RenderedNight, result: ChainResult): Score {
     byEvent.set(night.truthEvent[i], l);
   });
   let eventsToFind = 0, eventsFound = 0;
-  for (const arr of byEvent.values()) {
+  for (const [id, arr] of byEvent) {
+    if (leaveOut.has(id)) continue;
     const strong = arr.filter((a) => a.wave === 'P' && a.snr !== null && a.snr > 5);
     if (strong.length < 4) continue;
     eventsToFind++;
