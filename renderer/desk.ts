@@ -22,7 +22,9 @@ import {
 import { microsFromIso } from '../core/time';
 import { readQuakeMl } from '../core/quakeml';
 import { EventPanels } from './panels';
-import { DEFAULT_MODEL, parseVelocityModel, siteLocations, type SiteLocation, type VelocityModel } from '../core/location';
+import {
+  DEFAULT_MODEL, locateReviewEvent, parseVelocityModel, siteLocations, type ReviewLocation, type SiteLocation, type VelocityModel,
+} from '../core/location';
 import { KEY_MAP, actionForKey, type KeyAction } from './keys';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
@@ -65,6 +67,7 @@ export class Desk {
   private panels: EventPanels | null = null;
   private siteCoords = new Map<string, SiteLocation>();
   private model: VelocityModel = DEFAULT_MODEL;
+  private modelName = 'default-model';
   private saver: ReviewSaver | null = null;
   private readOnly = false;
   private currentEvent: string | null = null;
@@ -100,6 +103,7 @@ export class Desk {
     if (mf && mr?.ok) {
       try {
         this.model = parseVelocityModel(new TextDecoder().decode(mr.value), mf.path);
+        this.modelName = mf.path.replace(/[^\w.\-]/g, '_');
       } catch (e) {
         this.setStatus(`${e instanceof Error ? e.message : e}; using the default model`);
       }
@@ -654,10 +658,17 @@ export class Desk {
     const s = settings.ok ? settings.value : { analyst: '', agency: '', authority: 'daybreak.local' };
     const now = new Date().toISOString();
     const stamp = now.slice(0, 19).replace(/[-:]/g, '');
+    // Every event with enough picks gets its location as the preferred origin.
+    const locations = new Map<string, ReviewLocation>();
+    for (const ev of doc.events) {
+      if (ev.state === 'discarded' || ev.picks.length < 4) continue;
+      const r = locateReviewEvent(ev, this.siteCoords, this.model);
+      if (r.ok) locations.set(ev.id, r.value);
+    }
     const xml = reviewToQuakeMl(doc, {
       authority: s.authority, agencyId: s.agency || 'unknown', author: s.analyst || 'unknown',
       creationTime: microsFromIso(now), version: 'Daybreak',
-    });
+    }, locations, this.modelName);
     const written: string[] = [];
     for (const [name, content] of [[`review-${stamp}.quakeml.xml`, xml], [`picks-${stamp}.csv`, reviewToCsv(doc)]] as const) {
       const r = await this.host.call('export.write', { root: this.session.dataset.root, name, content });

@@ -10,7 +10,10 @@ import { CAUTION } from '../caution';
 import { parseChannelKey } from '../model';
 import { isoFromMicros } from '../time';
 import { writeQuakeMl, type QuakeMlWriteOptions } from '../quakeml/write';
-import type { QmlEvent } from '../quakeml/types';
+import type { QmlEvent, QmlOrigin } from '../quakeml/types';
+import { originFromHypocentre } from '../quakeml/fromHypocentre';
+import type { ReviewLocation } from '../location/fromReview';
+import { quakemlStatus } from './types';
 import type { EvaluationStatus } from '../pick/types';
 import type { ReviewDocument, ReviewEvent, ReviewPick } from './types';
 
@@ -20,32 +23,55 @@ function pickStatus(ev: ReviewEvent, p: ReviewPick): EvaluationStatus {
   return p.status;
 }
 
-export function reviewEventsToQuakeMl(doc: ReviewDocument): QmlEvent[] {
-  return doc.events.map((ev) => ({
-    id: ev.id,
-    type: ev.type ?? (ev.state === 'discarded' ? 'not existing' : null),
-    typeCertainty: ev.type ? ev.typeCertainty : ev.state === 'discarded' ? 'known' : null,
-    comment: ev.note || undefined,
-    picks: ev.picks.map((p) => ({
-      id: `${ev.id}.${p.id}`,
-      waveformId: parseChannelKey(p.channel),
-      time: p.time,
-      lowerUncertainty: p.lower,
-      upperUncertainty: p.upper,
-      phaseHint: p.phase,
-      onset: p.onset,
-      polarity: p.polarity,
-      evaluationMode: p.mode,
-      evaluationStatus: pickStatus(ev, p),
-      comment: p.snr !== null ? `snr ${p.snr.toFixed(1)}${p.questionableTiming ? '; record timing questionable' : ''}` : p.questionableTiming ? 'record timing questionable' : undefined,
-    })),
-    origins: [],
-    preferredOriginId: null,
-  }));
+/**
+ * The origin of a located review event: manual when the analyst has set any pick or finished the
+ * event, with the event's review state as its evaluationStatus; its arrivals point at the event's
+ * exported picks.
+ */
+export function reviewOrigin(ev: ReviewEvent, loc: ReviewLocation, earthModelId?: string): QmlOrigin | null {
+  const byIndex = new Map<number, string>();
+  loc.hypocentre.arrivals.forEach((a, k) => byIndex.set(a.pickIndex, loc.arrivals[k].pickId));
+  const manual = ev.state === 'done' || ev.picks.some((p) => p.mode === 'manual');
+  return originFromHypocentre(loc.hypocentre, {
+    id: `${ev.id}.origin`,
+    pickIdOf: (i) => `${ev.id}.${byIndex.get(i) ?? `unknown-${i}`}`,
+    evaluationMode: manual ? 'manual' : 'automatic',
+    evaluationStatus: quakemlStatus(ev.state),
+    earthModelId,
+  });
 }
 
-export function reviewToQuakeMl(doc: ReviewDocument, opts: QuakeMlWriteOptions): string {
-  return writeQuakeMl({ events: reviewEventsToQuakeMl(doc) }, opts);
+/** Review events as QuakeML events; `locations` (by event id) adds each located event's preferred origin. */
+export function reviewEventsToQuakeMl(doc: ReviewDocument, locations?: ReadonlyMap<string, ReviewLocation>, earthModelId?: string): QmlEvent[] {
+  return doc.events.map((ev) => {
+    const loc = locations?.get(ev.id);
+    const origin = loc ? reviewOrigin(ev, loc, earthModelId) : null;
+    return {
+      id: ev.id,
+      type: ev.type ?? (ev.state === 'discarded' ? 'not existing' : null),
+      typeCertainty: ev.type ? ev.typeCertainty : ev.state === 'discarded' ? 'known' : null,
+      comment: ev.note || undefined,
+      picks: ev.picks.map((p) => ({
+        id: `${ev.id}.${p.id}`,
+        waveformId: parseChannelKey(p.channel),
+        time: p.time,
+        lowerUncertainty: p.lower,
+        upperUncertainty: p.upper,
+        phaseHint: p.phase,
+        onset: p.onset,
+        polarity: p.polarity,
+        evaluationMode: p.mode,
+        evaluationStatus: pickStatus(ev, p),
+        comment: p.snr !== null ? `snr ${p.snr.toFixed(1)}${p.questionableTiming ? '; record timing questionable' : ''}` : p.questionableTiming ? 'record timing questionable' : undefined,
+      })),
+      origins: origin ? [origin] : [],
+      preferredOriginId: origin ? origin.id : null,
+    };
+  });
+}
+
+export function reviewToQuakeMl(doc: ReviewDocument, opts: QuakeMlWriteOptions, locations?: ReadonlyMap<string, ReviewLocation>, earthModelId?: string): string {
+  return writeQuakeMl({ events: reviewEventsToQuakeMl(doc, locations, earthModelId) }, opts);
 }
 
 function csvField(v: string | number | null): string {

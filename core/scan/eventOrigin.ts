@@ -9,7 +9,7 @@
  */
 import { locate, type LocationPick, type LocationStation, type VelocityModel } from '../location';
 import type { Pick } from '../pick';
-import type { QmlArrival, QmlOrigin } from '../quakeml';
+import { originFromHypocentre, type QmlOrigin } from '../quakeml';
 
 /** Where a site is: degrees north and east, metres above the model's datum (sea level). */
 export interface SiteCoordinates {
@@ -19,8 +19,6 @@ export interface SiteCoordinates {
 }
 
 export type OriginOutcome = { ok: true; origin: QmlOrigin } | { ok: false; message: string };
-
-const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 /**
  * Locates `picks` (with their QuakeML ids `pickIds`, same order) of event `eventId`. `sites` maps
@@ -53,38 +51,8 @@ export function eventOrigin(
     return { ok: false, message: (e as Error).message };
   }
   if (!r.ok) return { ok: false, message: r.message };
-  const h = r.value;
-  const values = [h.latDeg, h.lonDeg, h.depthKm, h.rmsS];
-  if (!values.every(Number.isFinite)) return { ok: false, message: 'the solution has a coordinate that is not a number' };
-  const arrivals: QmlArrival[] = h.arrivals.map((a) => ({
-    pickId: pickIds[index[a.pickIndex]],
-    phase: a.phase,
-    distanceDeg: finiteOrNull(a.distanceDeg),
-    azimuth: finiteOrNull(a.azimuthDeg),
-    timeResidual: finiteOrNull(a.residualS),
-    timeWeight: finiteOrNull(a.weight),
-  }));
-  const e = h.ellipse;
-  const ellipseOk = Number.isFinite(e.semiMajorKm) && Number.isFinite(e.semiMinorKm) && Number.isFinite(e.majorAzimuthDeg);
-  return {
-    ok: true,
-    origin: {
-      id: `${eventId}.origin`,
-      time: h.originTime,
-      timeUncertainty: finiteOrNull(h.originTimeErrorS),
-      latitude: h.latDeg,
-      longitude: h.lonDeg,
-      depthM: h.depthKm * 1000,
-      depthUncertaintyM: h.depthFixed ? null : finiteOrNull(h.depthErrorKm * 1000),
-      depthType: h.depthFixed ? 'operator assigned' : 'from location',
-      ellipse: ellipseOk ? { semiMajorM: e.semiMajorKm * 1000, semiMinorM: e.semiMinorKm * 1000, azimuthMajor: e.majorAzimuthDeg } : null,
-      horizontalUncertaintyM: ellipseOk ? e.semiMajorKm * 1000 : null,
-      quality: { usedPhaseCount: h.phaseCount, usedStationCount: h.stationCount, standardError: h.rmsS, azimuthalGap: finiteOrNull(h.gapDeg) },
-      arrivals,
-      evaluationMode: 'automatic',
-      evaluationStatus: 'preliminary',
-      methodId: 'geiger',
-      earthModelId: modelId,
-    },
-  };
+  const origin = originFromHypocentre(r.value, {
+    id: `${eventId}.origin`, pickIdOf: (i) => pickIds[index[i]], evaluationMode: 'automatic', evaluationStatus: 'preliminary', earthModelId: modelId,
+  });
+  return origin ? { ok: true, origin } : { ok: false, message: 'the solution has a coordinate that is not a number' };
 }

@@ -42,3 +42,46 @@ print(json.dumps([[r['station'], r['phase'], r['time'], r['upper_uncertainty_s']
     ]);
   });
 });
+
+describe('review export with locations', () => {
+  it('adds each located event\'s origin as the preferred one, its arrivals pointing at the exported picks', async () => {
+    const { DEFAULT_MODEL, firstArrival, locateReviewEvent } = await import('../../../core/location');
+    const { toLocalKm, localProjection } = await import('../../../core/location/projection');
+    // Sites on a 20 km ring; times from the textbook-checked travel times (travelTime.test.ts) over the
+    // project's local projection (checked against Vincenty in projection.test.ts).
+    const centre = { latitude: 45, longitude: 7 };
+    const proj = localProjection(centre.latitude, centre.longitude);
+    const sites = new Map<string, { latitude: number; longitude: number; elevation: number }>();
+    for (let i = 0; i < 6; i++) {
+      const a = (i * Math.PI) / 3;
+      sites.set(`XX.R${i}`, { latitude: 45 + (0.18 * Math.cos(a)), longitude: 7 + (0.25 * Math.sin(a)), elevation: 0 });
+    }
+    const t0 = microsFromIso('2026-11-14T21:00:00Z');
+    let r = addEvent(EMPTY_REVIEW, t0 - 10e6, t0 + 60e6);
+    let d = r.doc;
+    for (const [key, s] of sites) {
+      const [e, n] = toLocalKm(proj, s.latitude, s.longitude);
+      const dist = Math.hypot(e, n);
+      for (const w of ['P', 'S'] as const) {
+        const tt = firstArrival(DEFAULT_MODEL, w, dist, 10, 0).time;
+        d = placePick(d, r.eventId, { phase: w, channel: `${key}.00.${w === 'P' ? 'HHZ' : 'HHN'}`, time: t0 + Math.round(tt * 1e6) }).doc;
+      }
+    }
+    d = setState(d, r.eventId, 'done');
+    const ev = d.events[0];
+    const loc = locateReviewEvent(ev, sites, DEFAULT_MODEL);
+    if (!loc.ok) throw new Error(loc.message);
+    const q = readQuakeMl(reviewToQuakeMl(d, opts, new Map([[ev.id, loc.value]]), 'iasp91-crust'), 'x.xml');
+    const qe = q.events[0];
+    expect(qe.preferredOriginId).toBe(`${ev.id}.origin`);
+    const o = qe.origins[0];
+    expect(o).toMatchObject({ evaluationMode: 'manual', evaluationStatus: 'reviewed', depthType: 'from location' });
+    expect(o.latitude).toBeCloseTo(loc.value.hypocentre.latDeg, 9);
+    expect(Math.abs(o.time - t0)).toBeLessThan(5_000);
+    const pickIds = new Set(qe.picks.map((p) => p.id));
+    expect(o.arrivals).toHaveLength(12);
+    for (const a of o.arrivals) expect(pickIds.has(a.pickId)).toBe(true);
+    r = addEvent(d, t0 + 100e6, t0 + 160e6);
+    expect(readQuakeMl(reviewToQuakeMl(r.doc, opts), 'y.xml').events.every((e) => e.origins.length === 0)).toBe(true);
+  });
+});
