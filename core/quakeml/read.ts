@@ -1,12 +1,16 @@
 /**
  * QuakeML 1.2 reader for what Daybreak uses: events, their picks (waveform id, time with
  * uncertainties, phase hint, onset, polarity, evaluation mode and status) and origins (time,
- * position, depth, arrivals). Other content is skipped. Errors name the file and the element.
+ * position, depth, arrivals), magnitudes with their station contributions, station magnitudes and
+ * amplitudes. Other content is skipped. Errors name the file and the element.
  */
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
 import { microsFromIso } from '../time';
 import type { EvaluationMode, EvaluationStatus, PickOnset, PickPolarity } from '../pick/types';
-import type { QmlArrival, QmlDocument, QmlEvent, QmlOrigin, QmlPick } from './types';
+import type { ChannelId } from '../model';
+import type {
+  QmlAmplitude, QmlArrival, QmlDocument, QmlEvent, QmlMagnitude, QmlOrigin, QmlPick, QmlStationMagnitude,
+} from './types';
 
 export class QuakeMlError extends Error {
   constructor(readonly file: string, readonly where: string, readonly reason: string) {
@@ -15,7 +19,7 @@ export class QuakeMlError extends Error {
   }
 }
 
-const REPEATED = new Set(['event', 'pick', 'origin', 'arrival', 'comment', 'magnitude', 'amplitude', 'stationMagnitude']);
+const REPEATED = new Set(['event', 'pick', 'origin', 'arrival', 'comment', 'magnitude', 'amplitude', 'stationMagnitude', 'stationMagnitudeContribution']);
 const parser = new XMLParser({
   ignoreAttributes: false,
   attributeNamePrefix: '@_',
@@ -140,7 +144,76 @@ function readEvent(e: Node, where: string, file: string): QmlEvent {
       evaluationStatus: oneOf<EvaluationStatus>(o.evaluationStatus, STATUSES, `${w}/evaluationStatus`) ?? 'preliminary',
     };
   });
+  const waveform = (wf: Node | undefined): ChannelId | null => wf ? {
+    network: String(wf['@_networkCode'] ?? ''), station: String(wf['@_stationCode'] ?? ''),
+    location: String(wf['@_locationCode'] ?? ''), channel: String(wf['@_channelCode'] ?? ''),
+  } : null;
+  const ref = (v: unknown): string | null => { const t = text(v); return t ? localId(t) : null; };
+  const method = (v: unknown): { methodId?: string } => { const t = ref(v); return t ? { methodId: t } : {}; };
+  const magnitudes: QmlMagnitude[] = ((e.magnitude as Node[] | undefined) ?? []).map((m, j) => {
+    const w = `${where}/magnitude[${j + 1}]`;
+    const mag = m.mag as Node | undefined;
+    return {
+      id: localId(String(m['@_publicID'] ?? fail(w, 'magnitude has no publicID'))),
+      mag: num(mag?.value, `${w}/mag`) ?? fail(w, 'magnitude has no mag value'),
+      uncertainty: num(mag?.uncertainty, `${w}/mag/uncertainty`),
+      type: text(m.type) ?? '',
+      originId: ref(m.originID),
+      ...method(m.methodID),
+      stationCount: num(m.stationCount, `${w}/stationCount`),
+      azimuthalGap: num(m.azimuthalGap, `${w}/azimuthalGap`),
+      contributions: ((m.stationMagnitudeContribution as Node[] | undefined) ?? []).map((c, k) => ({
+        stationMagnitudeId: ref(c.stationMagnitudeID) ?? fail(`${w}/stationMagnitudeContribution[${k + 1}]`, 'contribution has no stationMagnitudeID'),
+        residual: num(c.residual, `${w}/stationMagnitudeContribution[${k + 1}]/residual`),
+        weight: num(c.weight, `${w}/stationMagnitudeContribution[${k + 1}]/weight`),
+      })),
+      evaluationMode: oneOf<EvaluationMode>(m.evaluationMode, MODES, `${w}/evaluationMode`),
+      evaluationStatus: oneOf<EvaluationStatus>(m.evaluationStatus, STATUSES, `${w}/evaluationStatus`),
+      comment: text((m.comment as Node[] | undefined)?.[0]?.text) ?? undefined,
+    };
+  });
+  const stationMagnitudes: QmlStationMagnitude[] = ((e.stationMagnitude as Node[] | undefined) ?? []).map((m, j) => {
+    const w = `${where}/stationMagnitude[${j + 1}]`;
+    return {
+      id: localId(String(m['@_publicID'] ?? fail(w, 'station magnitude has no publicID'))),
+      originId: ref(m.originID),
+      mag: num((m.mag as Node | undefined)?.value, `${w}/mag`) ?? fail(w, 'station magnitude has no mag value'),
+      type: text(m.type) ?? '',
+      amplitudeId: ref(m.amplitudeID),
+      ...method(m.methodID),
+      waveformId: waveform(m.waveformID as Node | undefined),
+    };
+  });
+  const UNITS = ['m', 's', 'm/s', 'm/(s*s)', 'm*s', 'dimensionless', 'other'];
+  const amplitudes: QmlAmplitude[] = ((e.amplitude as Node[] | undefined) ?? []).map((a, j) => {
+    const w = `${where}/amplitude[${j + 1}]`;
+    const tw = a.timeWindow as Node | undefined;
+    const twRef = text(tw?.reference);
+    let reference = 0;
+    if (twRef) {
+      try { reference = microsFromIso(twRef); } catch (err) { fail(`${w}/timeWindow/reference`, err instanceof Error ? err.message : String(err)); }
+    }
+    return {
+      id: localId(String(a['@_publicID'] ?? fail(w, 'amplitude has no publicID'))),
+      value: num((a.genericAmplitude as Node | undefined)?.value, `${w}/genericAmplitude`) ?? fail(w, 'amplitude has no genericAmplitude value'),
+      type: text(a.type) ?? '',
+      unit: oneOf<QmlAmplitude['unit']>(a.unit, UNITS, `${w}/unit`) ?? 'other',
+      periodS: num((a.period as Node | undefined)?.value, `${w}/period`),
+      snr: num(a.snr, `${w}/snr`),
+      timeWindow: tw && twRef ? {
+        reference, beginS: num(tw.begin, `${w}/timeWindow/begin`) ?? 0, endS: num(tw.end, `${w}/timeWindow/end`) ?? 0,
+      } : null,
+      time: a.scalingTime ? time(a.scalingTime, `${w}/scalingTime`) : null,
+      waveformId: waveform(a.waveformID as Node | undefined),
+      pickId: ref(a.pickID),
+      magnitudeHint: text(a.magnitudeHint),
+      ...method(a.methodID),
+      evaluationMode: oneOf<EvaluationMode>(a.evaluationMode, MODES, `${w}/evaluationMode`) ?? 'manual',
+      evaluationStatus: oneOf<EvaluationStatus>(a.evaluationStatus, STATUSES, `${w}/evaluationStatus`) ?? 'preliminary',
+    };
+  });
   const preferred = text(e.preferredOriginID);
+  const preferredMag = text(e.preferredMagnitudeID);
   return {
     id: localId(String(e['@_publicID'] ?? fail(where, 'event has no publicID'))),
     type: text(e.type),
@@ -149,5 +222,10 @@ function readEvent(e: Node, where: string, file: string): QmlEvent {
     picks,
     origins,
     preferredOriginId: preferred ? localId(preferred) : null,
+    // Absent (not empty) when the file has none, like a document written without them.
+    ...(magnitudes.length ? { magnitudes } : {}),
+    ...(stationMagnitudes.length ? { stationMagnitudes } : {}),
+    ...(amplitudes.length ? { amplitudes } : {}),
+    ...(preferredMag ? { preferredMagnitudeId: localId(preferredMag) } : {}),
   };
 }

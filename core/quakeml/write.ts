@@ -4,11 +4,15 @@
  * resource identifier syntax). Element order inside pick and origin follows the BED schema's
  * sequences as used by established writers (e.g. the real event files under
  * ../shared/data/real-microseismic/events). Every document carries the preliminary-results caution
- * as a comment of eventParameters.
+ * as a comment of eventParameters. Inside an event: preferredOriginID, preferredMagnitudeID, type,
+ * description, comment, creationInfo, origins, magnitudes, station magnitudes, picks, amplitudes (the
+ * order of the real files). Amplitude, StationMagnitude and Magnitude children follow the BED's
+ * sequences (QuakeML 1.2 BED schema; order checked against the real files' amplitudes and magnitudes).
  */
 import { CAUTION } from '../caution';
 import { isoFromMicros, type Micros } from '../time';
-import type { QmlDocument, QmlEvent, QmlOrigin, QmlPick } from './types';
+import type { ChannelId } from '../model';
+import type { QmlAmplitude, QmlDocument, QmlEvent, QmlMagnitude, QmlOrigin, QmlPick, QmlStationMagnitude } from './types';
 
 export const QUAKEML_BED_NS = 'http://quakeml.org/xmlns/bed/1.2';
 export const QUAKEML_NS = 'http://quakeml.org/xmlns/quakeml/1.2';
@@ -51,6 +55,18 @@ export function writeQuakeMl(doc: QmlDocument, opts: QuakeMlWriteOptions): strin
     return String(x);
   };
 
+  const waveform = (d: number, w: ChannelId) =>
+    line(d, `<waveformID networkCode="${xmlEscape(w.network)}" stationCode="${xmlEscape(w.station)}" locationCode="${xmlEscape(w.location)}" channelCode="${xmlEscape(w.channel)}"/>`);
+  const quantity = (d: number, name: string, value: number, uncertainty: number | null = null) => {
+    line(d, `<${name}>`);
+    leaf(d + 1, 'value', num(value));
+    if (uncertainty !== null) leaf(d + 1, 'uncertainty', num(uncertainty));
+    line(d, `</${name}>`);
+  };
+  const commentXml = (d: number, text: string | undefined) => {
+    if (text) { line(d, '<comment>'); leaf(d + 1, 'text', text); line(d, '</comment>'); }
+  };
+
   const pickXml = (p: QmlPick, d: number) => {
     line(d, `<pick publicID="${xmlEscape(rid('pick', p.id))}">`);
     line(d + 1, '<time>');
@@ -58,8 +74,7 @@ export function writeQuakeMl(doc: QmlDocument, opts: QuakeMlWriteOptions): strin
     if (p.lowerUncertainty !== null) leaf(d + 2, 'lowerUncertainty', num(p.lowerUncertainty));
     if (p.upperUncertainty !== null) leaf(d + 2, 'upperUncertainty', num(p.upperUncertainty));
     line(d + 1, '</time>');
-    const w = p.waveformId;
-    line(d + 1, `<waveformID networkCode="${xmlEscape(w.network)}" stationCode="${xmlEscape(w.station)}" locationCode="${xmlEscape(w.location)}" channelCode="${xmlEscape(w.channel)}"/>`);
+    waveform(d + 1, p.waveformId);
     if (p.onset) leaf(d + 1, 'onset', p.onset);
     leaf(d + 1, 'phaseHint', p.phaseHint);
     if (p.polarity) leaf(d + 1, 'polarity', p.polarity);
@@ -121,16 +136,79 @@ export function writeQuakeMl(doc: QmlDocument, opts: QuakeMlWriteOptions): strin
     line(d, '</origin>');
   };
 
+  const amplitudeXml = (a: QmlAmplitude, d: number) => {
+    line(d, `<amplitude publicID="${xmlEscape(rid('amplitude', a.id))}">`);
+    quantity(d + 1, 'genericAmplitude', a.value);
+    leaf(d + 1, 'type', a.type);
+    leaf(d + 1, 'unit', a.unit);
+    if (a.methodId) leaf(d + 1, 'methodID', rid('method', a.methodId));
+    if (a.periodS !== null) quantity(d + 1, 'period', a.periodS);
+    if (a.snr !== null) leaf(d + 1, 'snr', num(a.snr));
+    if (a.timeWindow) {
+      line(d + 1, '<timeWindow>');
+      leaf(d + 2, 'reference', isoFromMicros(a.timeWindow.reference));
+      leaf(d + 2, 'begin', num(a.timeWindow.beginS));
+      leaf(d + 2, 'end', num(a.timeWindow.endS));
+      line(d + 1, '</timeWindow>');
+    }
+    if (a.pickId) leaf(d + 1, 'pickID', rid('pick', a.pickId));
+    if (a.waveformId) waveform(d + 1, a.waveformId);
+    if (a.time !== null) { line(d + 1, '<scalingTime>'); leaf(d + 2, 'value', isoFromMicros(a.time)); line(d + 1, '</scalingTime>'); }
+    if (a.magnitudeHint) leaf(d + 1, 'magnitudeHint', a.magnitudeHint);
+    leaf(d + 1, 'evaluationMode', a.evaluationMode);
+    leaf(d + 1, 'evaluationStatus', a.evaluationStatus);
+    creation(d + 1);
+    line(d, '</amplitude>');
+  };
+
+  const stationMagnitudeXml = (m: QmlStationMagnitude, d: number) => {
+    line(d, `<stationMagnitude publicID="${xmlEscape(rid('stationMagnitude', m.id))}">`);
+    if (m.originId) leaf(d + 1, 'originID', rid('origin', m.originId));
+    quantity(d + 1, 'mag', m.mag);
+    leaf(d + 1, 'type', m.type);
+    if (m.amplitudeId) leaf(d + 1, 'amplitudeID', rid('amplitude', m.amplitudeId));
+    if (m.methodId) leaf(d + 1, 'methodID', rid('method', m.methodId));
+    if (m.waveformId) waveform(d + 1, m.waveformId);
+    creation(d + 1);
+    line(d, '</stationMagnitude>');
+  };
+
+  const magnitudeXml = (m: QmlMagnitude, d: number) => {
+    line(d, `<magnitude publicID="${xmlEscape(rid('magnitude', m.id))}">`);
+    quantity(d + 1, 'mag', m.mag, m.uncertainty);
+    leaf(d + 1, 'type', m.type);
+    if (m.originId) leaf(d + 1, 'originID', rid('origin', m.originId));
+    if (m.methodId) leaf(d + 1, 'methodID', rid('method', m.methodId));
+    if (m.stationCount !== null) leaf(d + 1, 'stationCount', m.stationCount);
+    if (m.azimuthalGap !== null) leaf(d + 1, 'azimuthalGap', num(m.azimuthalGap));
+    if (m.evaluationMode) leaf(d + 1, 'evaluationMode', m.evaluationMode);
+    if (m.evaluationStatus) leaf(d + 1, 'evaluationStatus', m.evaluationStatus);
+    for (const c of m.contributions) {
+      line(d + 1, '<stationMagnitudeContribution>');
+      leaf(d + 2, 'stationMagnitudeID', rid('stationMagnitude', c.stationMagnitudeId));
+      if (c.weight !== null) leaf(d + 2, 'weight', num(c.weight));
+      if (c.residual !== null) leaf(d + 2, 'residual', num(c.residual));
+      line(d + 1, '</stationMagnitudeContribution>');
+    }
+    commentXml(d + 1, m.comment);
+    creation(d + 1);
+    line(d, '</magnitude>');
+  };
+
   const eventXml = (e: QmlEvent, d: number) => {
     line(d, `<event publicID="${xmlEscape(rid('event', e.id))}">`);
     if (e.preferredOriginId) leaf(d + 1, 'preferredOriginID', rid('origin', e.preferredOriginId));
+    if (e.preferredMagnitudeId) leaf(d + 1, 'preferredMagnitudeID', rid('magnitude', e.preferredMagnitudeId));
     if (e.type) leaf(d + 1, 'type', e.type);
     if (e.type && e.typeCertainty) leaf(d + 1, 'typeCertainty', e.typeCertainty);
     if (e.description) { line(d + 1, '<description>'); leaf(d + 2, 'text', e.description); line(d + 1, '</description>'); }
     if (e.comment) { line(d + 1, '<comment>'); leaf(d + 2, 'text', e.comment); line(d + 1, '</comment>'); }
     creation(d + 1);
     for (const o of e.origins) originXml(o, d + 1);
+    for (const m of e.magnitudes ?? []) magnitudeXml(m, d + 1);
+    for (const m of e.stationMagnitudes ?? []) stationMagnitudeXml(m, d + 1);
     for (const p of e.picks) pickXml(p, d + 1);
+    for (const a of e.amplitudes ?? []) amplitudeXml(a, d + 1);
     line(d, '</event>');
   };
 
