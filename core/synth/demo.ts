@@ -55,8 +55,8 @@ interface StationPlan {
 }
 
 const BB = broadbandSensor();
-/** KIRN's digitizer runs at 8 times the usual gain (a 5 V peak-to-peak range): it clips first. */
-const BB_HIGH_GAIN = broadbandSensor(DIGITIZER_GAIN_40VPP * 8, FULL_SCALE_24BIT);
+/** KIRN's digitizer runs at 32 times the usual gain (a 1.25 V peak-to-peak range): it clips first, and the largest local event holds it at full scale for many samples. */
+const BB_HIGH_GAIN = broadbandSensor(DIGITIZER_GAIN_40VPP * 32, FULL_SCALE_24BIT);
 
 const STATIONS: StationPlan[] = [
   { code: 'BRAE', site: 'Braemor ridge', north: 22, east: -18, elevationM: 640, channels: threeComponent('HH', '00', 100, BB), siteMs: 4e-9, eveningWeight: 0.3, siteTopHz: 15 },
