@@ -25,3 +25,6 @@ export {
   type DurationCoefficients, type CodaOptions, type CodaDuration, LEE_BENNETT_MEAGHER_1972, durationMagnitude, codaDuration,
 } from './durationMagnitude';
 export { type EventPosition, type StationPosition, stationDistance } from './distance';
+export {
+  type MagnitudeOrigin, type MagnitudeStation, type EventMagnitudeOptions, type EventMagnitude, eventMagnitude, magnitudeOrigin,
+} from './eventMagnitude';
