@@ -303,6 +303,7 @@ export class Desk {
         comps.push({ key, label: key.split('.')[3], pieces });
       }
       const flags = this.siteFlags(s);
+      for (const key of s.channels) if ((byKey.get(key) ?? []).some((p) => p.clipped)) flags.push(`${key.split('.')[3]} clipped in this window`);
       rows.push({ key: s.site, label: s.site.split('.')[1], detail: s.stream.split('.').slice(2).join('.') || undefined, components: comps, flags });
     }
     // Sites with picks in the open event first, in order of their first pick; then the others.

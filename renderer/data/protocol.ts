@@ -68,6 +68,8 @@ export interface WindowPiece {
   samples: Float32Array;
   /** Largest absolute raw count in the piece (to spot clipping against the digitiser's range). */
   rawPeak: number;
+  /** The raw samples sit flat at their peak for 4 samples or more: clipped. */
+  clipped: boolean;
 }
 export interface WindowReply {
   type: 'window'; id: number;

@@ -131,5 +131,21 @@ function trim(key: string, seg: Segment, values: Float64Array | null, start: num
     const r = Math.abs(seg.samples[i]);
     if (r > rawPeak) rawPeak = r;
   }
-  return { key, start: sampleTime(seg, i0), sampleRate: rate, samples: out, rawPeak };
+  return { key, start: sampleTime(seg, i0), sampleRate: rate, samples: out, rawPeak, clipped: flatTopped(seg.samples, i0, i1, rawPeak) };
+}
+
+/**
+ * Clipping as it shows in the data (common practice when the digitiser's full scale is not known):
+ * at least 4 consecutive samples sitting at the window's largest absolute value, on a trace whose
+ * peak is well above quantisation (over 1000 counts).
+ */
+function flatTopped(x: ArrayLike<number>, i0: number, i1: number, peak: number): boolean {
+  if (peak <= 1000) return false;
+  let run = 0;
+  for (let i = i0; i < i1; i++) {
+    if (Math.abs(x[i]) === peak) {
+      if (++run >= 4) return true;
+    } else run = 0;
+  }
+  return false;
 }

@@ -347,7 +347,9 @@ export class TraceView {
   private newPlot(slot: PlotSlot, nComp: number, width: number, height: number, data: uPlot.AlignedData): uPlot {
     const series: uPlot.Series[] = [{}];
     for (let c = 0; c < nComp; c++) {
-      series.push({ stroke: this.traceColour || TRACE_COLOURS[c], width: 1, points: { show: false }, spanGaps: false });
+      // Points appear once zoomed in far enough that samples are spread apart (uPlot's default rule,
+      // which shows them when they are more than `space` pixels apart), for exact placement.
+      series.push({ stroke: this.traceColour || TRACE_COLOURS[c], width: 1, points: { size: 4, space: 6, fill: this.traceColour }, spanGaps: false });
     }
     return new uPlot({
       width, height,
