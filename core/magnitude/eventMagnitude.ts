@@ -86,6 +86,38 @@ export function magnitudeOrigin(o: QmlOrigin): MagnitudeOrigin {
 
 const ID_SAFE = /[^\w.\-~]/g;
 
+/** A station's distances, S time, amplitude window and noise window (see the file comment). */
+export interface StationWindows {
+  readonly distance: StationDistance;
+  /** P (pick or predicted; null when not before S) and S (pick or predicted), µs. */
+  readonly p: Micros | null;
+  readonly s: Micros;
+  readonly window: TimeWindow;
+  readonly noise: TimeWindow;
+}
+
+/**
+ * Where a station's amplitude is measured: S from its pick or predicted at `vs` over the hypocentral
+ * distance, P likewise at `vp`; window from P to S + max(10 s, 2·(S − P)); noise the `noiseSeconds`
+ * ending 1 s before P (or 2 s before S without P). Callers reading data for eventMagnitude use it to
+ * know what to read (add a margin for the taper).
+ */
+export function stationWindows(
+  origin: MagnitudeOrigin, st: { position: StationPosition; p?: Micros | null; s?: Micros | null },
+  opts: { vp?: number; vs?: number; noiseSeconds?: number } = {},
+): StationWindows {
+  const vp = opts.vp ?? 6.0, vs = opts.vs ?? 3.5, noiseSeconds = opts.noiseSeconds ?? 5;
+  const distance = stationDistance(origin, st.position);
+  const pPred = origin.time + Math.round((distance.hypocentralKm / vp) * 1e6);
+  const sPred = origin.time + Math.round((distance.hypocentralKm / vs) * 1e6);
+  const s = st.s ?? sPred;
+  const pCand = st.p ?? pPred;
+  const p = pCand < s ? pCand : null;
+  const window = windowFromPicks({ p, s });
+  const noiseEnd = (p ?? s - 1e6) - 1e6;
+  return { distance, p, s, window, noise: { start: noiseEnd - Math.round(noiseSeconds * 1e6), end: noiseEnd } };
+}
+
 /** Local magnitude of one event; see the file comment. */
 export function eventMagnitude(origin: MagnitudeOrigin, stations: readonly MagnitudeStation[], opts: EventMagnitudeOptions = {}): EventMagnitude {
   if (!Number.isFinite(origin.time)) throw new RangeError(`origin time must be finite µs, got ${origin.time}`);
@@ -109,17 +141,10 @@ export function eventMagnitude(origin: MagnitudeOrigin, stations: readonly Magni
     for (const t of st.traces) {
       if (stationKey(t.channel) !== sk) throw new RangeError(`station ${sk} holds a trace of another station: ${channelKey(t.channel)}`);
     }
-    const d = stationDistance(origin, st.position);
-    distances.set(sk, d);
-    const pPred = origin.time + Math.round((d.hypocentralKm / vp) * 1e6);
-    const sPred = origin.time + Math.round((d.hypocentralKm / vs) * 1e6);
-    const s = st.s ?? sPred;
-    const pCand = st.p ?? pPred;
-    const p = pCand < s ? pCand : null;
-    const window = windowFromPicks({ p, s });
+    const plan = stationWindows(origin, st, { vp, vs, noiseSeconds });
+    distances.set(sk, plan.distance);
+    const { s, window, noise } = plan;
     windows.set(sk, { s, pickId: st.s != null ? (st.sPickId ?? null) : null, window });
-    const noiseEnd = (p ?? s - 1e6) - 1e6;
-    const noise: TimeWindow = { start: noiseEnd - Math.round(noiseSeconds * 1e6), end: noiseEnd };
     for (const t of st.traces) {
       const key = channelKey(t.channel);
       const n = t.counts.length;

@@ -26,5 +26,6 @@ export {
 } from './durationMagnitude';
 export { type EventPosition, type StationPosition, stationDistance } from './distance';
 export {
-  type MagnitudeOrigin, type MagnitudeStation, type EventMagnitudeOptions, type EventMagnitude, eventMagnitude, magnitudeOrigin,
+  type MagnitudeOrigin, type MagnitudeStation, type EventMagnitudeOptions, type EventMagnitude, type StationWindows,
+  eventMagnitude, magnitudeOrigin, stationWindows,
 } from './eventMagnitude';

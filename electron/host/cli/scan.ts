@@ -2,7 +2,9 @@
  * `daybreak scan --stations STATIONXML --out OUT.xml [options] PATH...`: the overnight scan. Reads the
  * miniSEED at PATH (files, or folders searched recursively), filters, triggers (STA/LTA per site),
  * associates (network coincidence) and picks (AIC P and S), then writes QuakeML 1.2: one event per
- * candidate with its picks (evaluation mode automatic, status preliminary).
+ * candidate with its picks (evaluation mode automatic, status preliminary), and for each located
+ * candidate its local magnitude (core/magnitude eventMagnitude: IASPEI 2013 ML on the larger
+ * horizontal, median over stations) with the Wood-Anderson amplitudes and station magnitudes.
  *
  * How the night is processed (memory bounded by chunk length x stations, not by the night):
  *  1. Every file's record headers are walked in chunks (no samples decoded): the record index.
@@ -13,6 +15,8 @@
  *  3. Coincidence over all triggers (a few numbers each) gives the candidate events.
  *  4. Pick pass: per event, only the records around it are read again (from `filterPad` seconds
  *     before the earliest P window, so the filter has settled) and picked (core/scan eventPicks).
+ *  5. Magnitude: per located event, the horizontals around its amplitude windows are read (with a
+ *     margin for the response-removal taper) and measured.
  *
  * Exit codes: 0 done; 1 done, but some input was bad or unknown and was reported (bad records, a file
  * named on the command line that is not miniSEED, channels without metadata); 2 unusable arguments.
@@ -27,7 +31,10 @@ import { isMiniSeed3, looksLikeRecordStart } from '../../../core/mseed';
 import { parseStationXml, findChannel, missingMetadata, type Inventory } from '../../../core/stationxml';
 import { designForChannel, verticalPolarity } from '../../../core/dsp';
 import { chooseSiteStreams, coincidence, type CandidateEvent, type Pick, type SitePosition, type StationTrigger } from '../../../core/pick';
-import { writeQuakeMl, type QmlEvent } from '../../../core/quakeml';
+import { writeQuakeMl, type QmlEvent, type QmlOrigin } from '../../../core/quakeml';
+import {
+  channelResponse, eventMagnitude, magnitudeOrigin, stationWindows, type EventMagnitude, type HorizontalTrace, type MagnitudeStation,
+} from '../../../core/magnitude';
 import { CAUTION } from '../../../core/caution';
 import { presetSettings, SCAN_PRESETS, type ScanPreset, type ScanSettings } from '../../../core/scan/settings';
 import { TriggerStream } from '../../../core/scan/triggerStream';
@@ -222,6 +229,10 @@ export interface ScanSummary {
   hours: number;
   candidates: number;
   located: number;
+  /** Channels left out of a magnitude, and why ("EVENT NET.STA.LOC.CHA: reason"). */
+  magnitudeNotes: string[];
+  /** Located events with a local magnitude. */
+  magnitudes: number;
   picks: { P: number; S: number };
   skippedChannels: { id: string; why: string }[];
   seconds: number;
@@ -250,7 +261,7 @@ export async function scan(args: string[]): Promise<number> {
   const s = a.settings;
   const bar = process.stderr.isTTY ? progressBar(process.stderr) : null;
   const summary: ScanSummary = {
-    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, picks: { P: 0, S: 0 }, skippedChannels: [], seconds: 0,
+    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, skippedChannels: [], seconds: 0,
   };
   let bad = false;
 
@@ -439,6 +450,13 @@ export async function scan(args: string[]): Promise<number> {
       qe.origins.push(o.origin);
       qe.preferredOriginId = o.origin.id;
       summary.located++;
+      const ml = await magnitudeFor(qe, o.origin, [...sites.values()], async (want, from, to) => {
+        const got = await readWindow(files, want, from, to);
+        noteErrors(got.errors);
+        return got.channels;
+      }, inv);
+      for (const sk of ml.skipped) summary.magnitudeNotes.push(`${ev.id} ${sk.key}: ${sk.why}`);
+      if (ml.magnitude) summary.magnitudes++;
     } else qe.comment = `${qe.comment}; not located: ${o.message}`;
     qmlEvents.push(qe);
   }
@@ -452,6 +470,73 @@ export async function scan(args: string[]): Promise<number> {
   summary.seconds = (performance.now() - t0) / 1000;
   process.stdout.write(summaryText(summary, a.out));
   return bad || summary.badRecords.length > 0 ? 1 : 0;
+}
+
+/**
+ * Digitizer full scale assumed for the clipping check, counts: StationXML carries none, so a 24-bit
+ * converter (2^23 − 1, common practice) is assumed.
+ */
+const FULL_SCALE_COUNTS = 8388607;
+
+/**
+ * The local magnitude of a located event: reads the horizontals of every site with two around their
+ * amplitude and noise windows (S from the event's S pick at the site, else predicted), with a margin
+ * of 10 % of the span plus 5 s each side for the response-removal taper, and adds the amplitudes,
+ * station magnitudes and magnitude to `qe`.
+ */
+export async function magnitudeFor(
+  qe: QmlEvent, origin: QmlOrigin, siteList: readonly SiteInfo[],
+  read: (want: Set<string>, from: Micros, to: Micros) => Promise<ChannelData[]>, inv: Inventory,
+): Promise<EventMagnitude> {
+  const mo = magnitudeOrigin(origin);
+  const picked = new Map<string, { p?: Micros; s?: Micros; sId?: string }>();
+  for (const p of qe.picks) {
+    const k = stationKey(p.waveformId);
+    const e = picked.get(k) ?? {};
+    if (p.phaseHint === 'P' && e.p === undefined) e.p = p.time;
+    if (p.phaseHint === 'S' && e.s === undefined) { e.s = p.time; e.sId = p.id; }
+    picked.set(k, e);
+  }
+  const plans = siteList.filter((x) => x.horizontals).map((x) => {
+    const pk = picked.get(x.key) ?? {};
+    const st = { position: x.coordinates, p: pk.p ?? null, s: pk.s ?? null };
+    return { site: x, st, sId: pk.sId ?? null, w: stationWindows(mo, st) };
+  });
+  const stations: MagnitudeStation[] = [];
+  if (plans.length > 0) {
+    const lo = Math.min(...plans.map((q) => q.w.noise.start)), hi = Math.max(...plans.map((q) => q.w.window.end));
+    const margin = Math.round(0.1 * (hi - lo)) + 5e6;
+    const from = lo - margin, to = hi + margin;
+    const want = new Set(plans.flatMap((q) => q.site.horizontals!.map((h) => channelKey(h))));
+    const byKey = new Map((await read(want, from, to)).map((c) => [channelKey(c.id), c]));
+    for (const q of plans) {
+      const traces: HorizontalTrace[] = [];
+      for (const id of q.site.horizontals!) {
+        const c = byKey.get(channelKey(id));
+        const meta = findChannel(inv, id, mo.time);
+        if (!c || !meta) continue;
+        // The longest run inside the read window (a gap leaves the shorter side out).
+        let best: ReturnType<typeof cut> = null, rate = 0;
+        for (const seg of c.segments) {
+          const part = cut(seg, from, to);
+          if (part && (!best || part.samples.length > best.samples.length)) { best = part; rate = seg.sampleRate; }
+        }
+        if (!best) continue;
+        let response;
+        try { response = channelResponse(meta); } catch { continue; }
+        traces.push({ channel: id, counts: best.samples, sampleRate: rate, start: best.start, response, fullScaleCounts: FULL_SCALE_COUNTS });
+      }
+      stations.push({ ...q.st, traces, sPickId: q.sId });
+    }
+  }
+  const r = eventMagnitude(mo, stations, { idPrefix: `${qe.id}.ml` });
+  qe.amplitudes = r.amplitudes;
+  qe.stationMagnitudes = r.stationMagnitudes;
+  if (r.magnitude) {
+    qe.magnitudes = [r.magnitude];
+    qe.preferredMagnitudeId = r.magnitude.id;
+  }
+  return r;
 }
 
 function pickComment(p: Pick): string {
@@ -503,12 +588,14 @@ export function summaryText(sm: ScanSummary, out: string): string {
   const lines: string[] = [];
   lines.push(`daybreak scan: ${sm.candidates} candidate event${sm.candidates === 1 ? '' : 's'}, ${sm.picks.P} P and ${sm.picks.S} S picks written to ${out}`);
   lines.push(`  located: ${sm.located} of ${sm.candidates} (an origin each)`);
+  lines.push(`  magnitudes: ${sm.magnitudes} of ${sm.located} located (ML, IASPEI 2013)${sm.magnitudeNotes.length ? `, ${sm.magnitudeNotes.length} channels left out` : ''}`);
   lines.push(`  files: ${sm.files} miniSEED read${sm.skippedFiles.length ? `, ${sm.skippedFiles.length} skipped` : ''}`);
   lines.push(`  channels: ${sm.channels} with data, ${sm.skippedChannels.length} not used`);
   lines.push(`  data: ${sm.hours.toFixed(2)} h per triggering channel`);
   lines.push(`  time taken: ${duration(sm.seconds)}`);
   for (const f of sm.skippedFiles) lines.push(`  skipped file ${f.path}: ${f.why}`);
   for (const c of sm.skippedChannels) lines.push(`  not used ${c.id}: ${c.why}`);
+  for (const n of sm.magnitudeNotes.slice(0, 50)) lines.push(`  no amplitude ${n}`);
   for (const b of sm.badRecords.slice(0, 50)) lines.push(`  bad record ${b.path} byte ${b.offset}: ${b.reason}`);
   if (sm.badRecords.length > 50) lines.push(`  ... and ${sm.badRecords.length - 50} more bad records`);
   lines.push(`  ${CAUTION.split('\n').join(' ')}`);

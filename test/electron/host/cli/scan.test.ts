@@ -158,6 +158,50 @@ describe('daybreak scan on a small synthetic night (five stations, two earthquak
     });
   });
 
+  it("writes each located event's ML within 0.3 of the generator's (IASPEI 2013 law on the larger horizontal), with its amplitudes and station magnitudes as Python's xml.etree reads them", () => {
+    // Reference: the generator's stated magnitudes (core/synth, amplitudes by the IASPEI 2013 ML
+    // formula) and Python's xml.etree as the outside reader of the written elements.
+    expect(single.stdout).toContain('magnitudes: 2 of 2 located (ML, IASPEI 2013)');
+    const doc = readQuakeMl(readFileSync(join(dir, 'single.xml'), 'utf8'), 'single.xml');
+    const sc = smallNight();
+    const script = `
+import sys, json, xml.etree.ElementTree as ET
+b = '{${BED}}'
+out = []
+for ev in ET.parse(sys.argv[1]).getroot().iter(b + 'event'):
+    m = ev.find(b + 'magnitude')
+    out.append({'pref': ev.find(b + 'preferredMagnitudeID').text, 'id': m.get('publicID'), 'mag': float(m.find(b + 'mag/' + b + 'value').text),
+                'type': m.find(b + 'type').text, 'count': int(m.find(b + 'stationCount').text),
+                'sm': [float(x.find(b + 'mag/' + b + 'value').text) for x in ev.findall(b + 'stationMagnitude')],
+                'amps': [(a.find(b + 'type').text, a.find(b + 'unit').text, float(a.find(b + 'genericAmplitude/' + b + 'value').text)) for a in ev.findall(b + 'amplitude')]})
+print(json.dumps(out))
+`;
+    const py = JSON.parse(spawnSync('python3', ['-c', script, join(dir, 'single.xml')], { encoding: 'utf8' }).stdout) as
+      { pref: string; id: string; mag: number; type: string; count: number; sm: number[]; amps: [string, string, number][] }[];
+    expect(py).toHaveLength(2);
+    doc.events.forEach((e, i) => {
+      const truthMl = sc.events[i].magnitude;
+      const m = e.magnitudes?.[0];
+      expect(m, e.id).toBeDefined();
+      expect(Math.abs(m!.mag - truthMl), `${sc.events[i].id} ML ${m!.mag} vs ${truthMl}`).toBeLessThan(0.3);
+      expect(py[i].mag).toBe(m!.mag);
+      expect(py[i].pref).toBe(py[i].id);
+      expect(py[i].type).toBe('ML');
+      // T04 is vertical only: 4 sites with horizontals, each a station magnitude from its larger horizontal.
+      expect(py[i].count).toBe(4);
+      expect(py[i].sm).toHaveLength(4);
+      for (const x of py[i].sm) expect(Math.abs(x - truthMl)).toBeLessThan(0.4);
+      expect(py[i].amps).toHaveLength(8);
+      for (const [type, unit, v] of py[i].amps) {
+        expect([type, unit]).toEqual(['IAML', 'm']);
+        expect(v).toBeGreaterThan(0);
+      }
+      // Amplitudes at a site with an S pick point at that pick.
+      const sPicks = new Set(e.picks.filter((p) => p.phaseHint === 'S').map((p) => p.id));
+      expect((e.amplitudes ?? []).filter((a) => a.pickId !== null && sPicks.has(a.pickId)).length).toBeGreaterThanOrEqual(6);
+    });
+  });
+
   it('gives the same events and picks when the night is processed in 7 s chunks as in one chunk', () => {
     expect(chunked.code).toBe(0);
     const strip = (s: string) => s.replace(/<creationTime>[^<]*<\/creationTime>/g, '').replace(/eventParameters publicID="[^"]*"/, '');
