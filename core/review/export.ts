@@ -74,7 +74,8 @@ export function reviewToQuakeMl(doc: ReviewDocument, opts: QuakeMlWriteOptions, 
   return writeQuakeMl({ events: reviewEventsToQuakeMl(doc, locations, earthModelId) }, opts);
 }
 
-function csvField(v: string | number | null): string {
+/** A CSV field (RFC 4180 quoting); null is empty. */
+export function csvField(v: string | number | null): string {
   if (v === null) return '';
   const s = String(v);
   return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
