@@ -62,6 +62,12 @@ export interface EventMagnitudeOptions {
   noiseSeconds?: number;
   minSnr?: number;
   stationCorrections?: Readonly<Record<string, number>>;
+  /**
+   * Analyst edits of amplitude picks, by channel key "NET.STA.LOC.CHA": a window replaces the
+   * automatic one for that channel (a moved amplitude pick: e.g. ±0.25 s around the new time; the
+   * amplitude becomes evaluationMode manual), null removes the channel from the magnitude.
+   */
+  amplitudeEdits?: ReadonlyMap<string, TimeWindow | null>;
   /** Prefix of the amplitude, station magnitude and magnitude ids; default "ml". */
   idPrefix?: string;
   evaluationMode?: EvaluationMode;
@@ -147,6 +153,8 @@ export function eventMagnitude(origin: MagnitudeOrigin, stations: readonly Magni
     windows.set(sk, { s, pickId: st.s != null ? (st.sPickId ?? null) : null, window });
     for (const t of st.traces) {
       const key = channelKey(t.channel);
+      const edit = opts.amplitudeEdits?.get(key);
+      if (edit === null) { skipped.push({ key, why: 'removed by the analyst' }); continue; }
       const n = t.counts.length;
       const tapered = Math.floor(0.05 * (n - 1));
       const [a, b] = windowIndices(noise, t.start, t.sampleRate, n);
@@ -154,7 +162,7 @@ export function eventMagnitude(origin: MagnitudeOrigin, stations: readonly Magni
       const wantB = Math.floor(((noise.end - t.start) * t.sampleRate) / 1e6 + 1e-9) + 1;
       const noiseFits = a === wantA && b === wantB && a >= tapered && b <= n - tapered && b - a >= 2;
       try {
-        const m = measureWoodAndersonAmplitude(t, window, { scale, measure, noiseWindow: noiseFits ? noise : undefined });
+        const m = measureWoodAndersonAmplitude(t, edit ?? window, { scale, measure, noiseWindow: noiseFits ? noise : undefined });
         if (m) amps.push(m);
         else skipped.push({ key, why: 'the trace holds fewer than 2 samples of the window' });
       } catch (e) {
@@ -181,9 +189,9 @@ export function eventMagnitude(origin: MagnitudeOrigin, stations: readonly Magni
       ampIdOf.set(a, id);
       amplitudes.push({
         id, value: a.amplitudeM, type, unit: 'm', periodS: a.periodS, snr: a.snr,
-        timeWindow: win ? { reference: win.s, beginS: (win.s - a.window.start) / 1e6, endS: (a.window.end - win.s) / 1e6 } : null,
+        timeWindow: win ? windowAround(a.window, win.s) : null,
         time: a.time, waveformId: a.channel, pickId: win?.pickId ?? null, magnitudeHint: 'ML', methodId: `wa-${scale.standard.name}-${a.measure}`,
-        evaluationMode: mode, evaluationStatus: status,
+        evaluationMode: opts.amplitudeEdits?.has(a.key) ? 'manual' : mode, evaluationStatus: status,
       });
     }
     const used = stn.channels.filter((c) => c.magnitude !== null);
@@ -217,6 +225,12 @@ export function eventMagnitude(origin: MagnitudeOrigin, stations: readonly Magni
     };
   }
   return { network, amplitudes, stationMagnitudes, magnitude, skipped };
+}
+
+/** QuakeML TimeWindow of `w`: referenced to S when it starts at or before S, else to its own start (begin and end ≥ 0). */
+function windowAround(w: TimeWindow, s: Micros): { reference: Micros; beginS: number; endS: number } {
+  const reference = w.start <= s && w.end >= s ? s : w.start;
+  return { reference, beginS: (reference - w.start) / 1e6, endS: (w.end - reference) / 1e6 };
 }
 
 function combine(c: 'each' | 'max' | 'mean'): string {

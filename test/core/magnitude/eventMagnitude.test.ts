@@ -126,6 +126,32 @@ describe('eventMagnitude on generator events (core/synth), ring of 7 stations at
     expect(Math.abs(r.magnitude!.mag - 1.8)).toBeLessThan(0.2);
   });
 
+  it('follows analyst edits: a moved amplitude pick is measured in its new window (manual), a removed one leaves the magnitude', () => {
+    const c = caseOf(1.8, 5, 3, -2, true);
+    const before = eventMagnitude(c.origin, c.stations);
+    const [hn, he] = c.stations[0].traces.map((t) => channelKey(t.channel));
+    const p = c.stations[0].p!;
+    // Moved onto the noise 3 s before P: a far smaller amplitude, measured there.
+    const moved: [number, number] = [p - 3.25e6, p - 2.75e6];
+    const edits = new Map([[hn, { start: moved[0], end: moved[1] }], [he, { start: moved[0], end: moved[1] }]]);
+    const r = eventMagnitude(c.origin, c.stations, { amplitudeEdits: edits });
+    const a = r.amplitudes.find((x) => channelKey(x.waveformId!) === hn)!;
+    expect(a.evaluationMode).toBe('manual');
+    expect(a.time!).toBeGreaterThanOrEqual(moved[0]);
+    expect(a.time!).toBeLessThanOrEqual(moved[1]);
+    expect(a.timeWindow).toEqual({ reference: moved[0], beginS: 0, endS: 0.5 });
+    const old = before.amplitudes.find((x) => channelKey(x.waveformId!) === hn)!;
+    expect(a.value).toBeLessThan(old.value / 10);
+    const st = `XX.${c.stations[0].traces[0].channel.station}`;
+    const magOf = (x: typeof r) => x.network.stations.find((s) => s.station === st)!.magnitude!;
+    expect(magOf(r)).toBeLessThan(magOf(before) - 1);
+    // Removed: the station gives no magnitude, the others are unchanged.
+    const gone = eventMagnitude(c.origin, c.stations, { amplitudeEdits: new Map([[hn, null], [he, null]]) });
+    expect(gone.skipped).toEqual([{ key: hn, why: 'removed by the analyst' }, { key: he, why: 'removed by the analyst' }]);
+    expect(gone.magnitude!.stationCount).toBe(5);
+    expect(gone.stationMagnitudes.map((s) => s.mag)).toEqual(before.stationMagnitudes.filter((s) => `XX.${s.waveformId!.station}` !== st).map((s) => s.mag));
+  });
+
   it('gives no magnitude when every trace clipped, and converts a QuakeML origin (depth m to km)', () => {
     const c = caseOf(1.8, 5, 3, -2, false);
     const r = eventMagnitude(c.origin, c.stations.map((s) => ({ ...s, traces: s.traces.map((t) => ({ ...t, clipped: true })) })));
