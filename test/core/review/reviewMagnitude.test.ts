@@ -21,7 +21,7 @@ function reviewCase() {
   const byKey = new Map(metas.map((m) => [channelKey(m.id), m]));
   const sites = siteLocations(metas);
   const ev0 = sc.events[0];
-  let r = addEvent(EMPTY_REVIEW, ev0.origin - 10e6, ev0.origin + 60e6);
+  const r = addEvent(EMPTY_REVIEW, ev0.origin - 10e6, ev0.origin + 60e6);
   let d = r.doc;
   const rendered: RenderedChannel[] = [];
   for (const st of stations) {
