@@ -224,7 +224,7 @@ export class Desk {
     // Read-only view state for end-to-end tests (seconds from the sheet's reference time).
     (window as unknown as { daybreakView: () => unknown }).daybreakView = () => {
       const [x0, x1] = this.traces?.window ?? [0, 0];
-      return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.lastDrawMs ?? 0 };
+      return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.lastDrawMs ?? 0, frameMs: this.traces?.lastDrawMs ?? 0 };
     };
     const problems = this.session.problems.length;
     this.status.textContent = `${this.session.files.length} files read${problems ? ` \u00b7 ${problems} problems (see the log)` : ''}`;

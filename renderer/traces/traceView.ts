@@ -258,7 +258,16 @@ export class TraceView {
   }
 
   /** Draws the rows in view: pooled plots get their row's data for the current window. */
+  /** Time the last draw of the rows took (the work of one frame), ms. */
+  lastDrawMs = 0;
+
   private drawNow(rebuild: boolean): void {
+    const t0 = performance.now();
+    this.drawRows(rebuild);
+    this.lastDrawMs = performance.now() - t0;
+  }
+
+  private drawRows(rebuild: boolean): void {
     const [x0, x1] = this.win;
     this.axis?.setScale('x', { min: x0, max: x1 });
     const viewTop = this.scroller.scrollTop;
