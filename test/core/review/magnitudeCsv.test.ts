@@ -7,9 +7,9 @@ import { microsFromIso } from '../../../core/time';
 function events(): QmlEvent[] {
   const hn = { network: 'XX', station: 'BRAE', location: '00', channel: 'HHN' };
   const he = { network: 'XX', station: 'CALD', location: '', channel: 'HHE' };
-  const base = { type: null, typeCertainty: null, picks: [], origins: [], preferredOriginId: 'o1' } as const;
+  const base = () => ({ type: null, typeCertainty: null, picks: [], origins: [], preferredOriginId: 'o1' });
   return [{
-    ...base, id: 'ev1',
+    ...base(), id: 'ev1',
     amplitudes: [
       { id: 'a1', value: 1.25e-6, type: 'IAML', unit: 'm', periodS: null, snr: 42.5, timeWindow: { reference: microsFromIso('2026-11-14T20:41:23.5Z'), beginS: 3.63, endS: 10 },
         time: microsFromIso('2026-11-14T20:41:24.125Z'), waveformId: hn, pickId: 'ev1.s1', magnitudeHint: 'ML', evaluationMode: 'automatic', evaluationStatus: 'preliminary' },
@@ -26,7 +26,7 @@ function events(): QmlEvent[] {
       evaluationMode: 'automatic', evaluationStatus: 'preliminary',
     }],
     preferredMagnitudeId: 'm1',
-  }, { ...base, id: 'ev2, "quoted"' }];
+  }, { ...base(), id: 'ev2, "quoted"' }];
 }
 
 describe('magnitudesToCsv', () => {
