@@ -18,7 +18,7 @@
  *   npm run bench -- mseed
  */
 import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -26,6 +26,7 @@ import { readMiniSeedBuffer } from '../../core/mseed';
 import { microsFromIso } from '../../core/time';
 import { libmseedPack } from '../ref/libmseed';
 import { readMiniSeedFiles } from '../../electron/host/mseedFiles';
+import { buildMsloop as buildMsloopAt } from '../ref/bench/msloop';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = resolve(here, '..', '..');
@@ -106,14 +107,7 @@ function differenceMix(x: Int32Array): string {
 }
 
 function buildMsloop(): string {
-  const buildDir = join(root, 'test', '.build');
-  mkdirSync(buildDir, { recursive: true });
-  const source = join(root, 'test', 'ref', 'bench', 'msloop.c');
-  const binary = join(buildDir, 'msloop');
-  if (!existsSync(binary) || statSync(binary).mtimeMs < statSync(source).mtimeMs) {
-    execFileSync('gcc', ['-O2', '-Wall', '-Werror', '-o', binary, source, '-lmseed'], { stdio: 'inherit' });
-  }
-  return binary;
+  return buildMsloopAt(root);
 }
 
 function sumSamples(arrays: Iterable<ArrayLike<number>>): number {

@@ -31,7 +31,7 @@
  *   npm run bench -- scan
  */
 import { execFileSync, spawn } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -41,6 +41,7 @@ import { readQuakeMl } from '../../core/quakeml';
 import { writeStationXml, type ChannelMeta, type Inventory, type StationMeta } from '../../core/stationxml';
 import { Rng } from '../../core/synth/random';
 import { microsFromIso } from '../../core/time';
+import { buildMsloop as buildMsloopAt } from '../ref/bench/msloop';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = resolve(here, '..', '..');
@@ -117,14 +118,7 @@ function inventory(): Inventory {
 }
 
 function buildMsloop(): string {
-  const buildDir = join(root, 'test', '.build');
-  mkdirSync(buildDir, { recursive: true });
-  const source = join(root, 'test', 'ref', 'bench', 'msloop.c');
-  const binary = join(buildDir, 'msloop');
-  if (!existsSync(binary) || statSync(binary).mtimeMs < statSync(source).mtimeMs) {
-    execFileSync('gcc', ['-O2', '-Wall', '-Werror', '-o', binary, source, '-lmseed'], { stdio: 'inherit' });
-  }
-  return binary;
+  return buildMsloopAt(root);
 }
 
 /** Peak resident memory (VmHWM, bytes) of a live process, or null once it has gone. */

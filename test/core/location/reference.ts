@@ -1,17 +1,7 @@
 // Reference helpers shared by the location tests: a seeded random generator (mulberry32, a public
 // domain generator by Tommy Ettinger), Gaussian deviates (Box-Muller) and Vincenty's geodesic.
 
-/** Seeded uniform [0, 1) generator, the same sequence on every run. */
-export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { rng } from '../../support/random';
 
 /** Standard normal deviates from a uniform generator (Box-Muller transform). */
 export function gaussian(uniform: () => number): () => number {

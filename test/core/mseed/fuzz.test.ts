@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { MiniSeedError, parseRecordHeader, readMiniSeedBuffer, type MiniSeedReadResult } from '../../../core/mseed/index';
 import { channelKey } from '../../../core/model';
+import { rng } from '../../support/random';
 
 // Seeded fuzzing of the reader with real records: libmseed's test.mseed (Steim-2, 512-byte records,
 // libmseed-doc 2.19.8) and the real FLOAT32 records of ../shared/data/real-microseismic (4096-byte
@@ -12,16 +13,6 @@ import { channelKey } from '../../../core/model';
 const CASES = 12_000;
 const PER_CASE_MS = 500;
 
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function records(path: string, length: number, max: number): Uint8Array[] {
   const bytes = new Uint8Array(readFileSync(path));
