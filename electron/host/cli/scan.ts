@@ -229,7 +229,7 @@ export interface ScanSummary {
   hours: number;
   candidates: number;
   located: number;
-  /** Channels left out of a magnitude, and why ("EVENT NET.STA.LOC.CHA: reason"). */
+  /** Channels left out of a magnitude, and why ("NET.STA.LOC.CHA: reason"), once per event. */
   magnitudeNotes: string[];
   /** Located events with a local magnitude. */
   magnitudes: number;
@@ -455,7 +455,7 @@ export async function scan(args: string[]): Promise<number> {
         noteErrors(got.errors);
         return got.channels;
       }, inv);
-      for (const sk of ml.skipped) summary.magnitudeNotes.push(`${ev.id} ${sk.key}: ${sk.why}`);
+      for (const sk of ml.skipped) summary.magnitudeNotes.push(`${sk.key}: ${sk.why}`);
       if (ml.magnitude) summary.magnitudes++;
     } else qe.comment = `${qe.comment}; not located: ${o.message}`;
     qmlEvents.push(qe);
@@ -503,6 +503,7 @@ export async function magnitudeFor(
     return { site: x, st, sId: pk.sId ?? null, w: stationWindows(mo, st) };
   });
   const stations: MagnitudeStation[] = [];
+  const notes: { key: string; why: string }[] = [];
   if (plans.length > 0) {
     const lo = Math.min(...plans.map((q) => q.w.noise.start)), hi = Math.max(...plans.map((q) => q.w.window.end));
     const margin = Math.round(0.1 * (hi - lo)) + 5e6;
@@ -512,24 +513,27 @@ export async function magnitudeFor(
     for (const q of plans) {
       const traces: HorizontalTrace[] = [];
       for (const id of q.site.horizontals!) {
-        const c = byKey.get(channelKey(id));
+        const key = channelKey(id);
+        const c = byKey.get(key);
         const meta = findChannel(inv, id, mo.time);
-        if (!c || !meta) continue;
+        if (!meta) { notes.push({ key, why: 'no StationXML epoch at the event' }); continue; }
+        if (!c) { notes.push({ key, why: 'no data around the event' }); continue; }
         // The longest run inside the read window (a gap leaves the shorter side out).
         let best: ReturnType<typeof cut> = null, rate = 0;
         for (const seg of c.segments) {
           const part = cut(seg, from, to);
           if (part && (!best || part.samples.length > best.samples.length)) { best = part; rate = seg.sampleRate; }
         }
-        if (!best) continue;
+        if (!best) { notes.push({ key, why: 'no data around the event' }); continue; }
         let response;
-        try { response = channelResponse(meta); } catch { continue; }
+        try { response = channelResponse(meta); } catch (e) { notes.push({ key, why: (e as Error).message.replace(`${key}: `, '') }); continue; }
         traces.push({ channel: id, counts: best.samples, sampleRate: rate, start: best.start, response, fullScaleCounts: FULL_SCALE_COUNTS });
       }
       stations.push({ ...q.st, traces, sPickId: q.sId });
     }
   }
-  const r = eventMagnitude(mo, stations, { idPrefix: `${qe.id}.ml` });
+  const r0 = eventMagnitude(mo, stations, { idPrefix: `${qe.id}.ml` });
+  const r = { ...r0, skipped: [...notes, ...r0.skipped] };
   qe.amplitudes = r.amplitudes;
   qe.stationMagnitudes = r.stationMagnitudes;
   if (r.magnitude) {
@@ -588,14 +592,17 @@ export function summaryText(sm: ScanSummary, out: string): string {
   const lines: string[] = [];
   lines.push(`daybreak scan: ${sm.candidates} candidate event${sm.candidates === 1 ? '' : 's'}, ${sm.picks.P} P and ${sm.picks.S} S picks written to ${out}`);
   lines.push(`  located: ${sm.located} of ${sm.candidates} (an origin each)`);
-  lines.push(`  magnitudes: ${sm.magnitudes} of ${sm.located} located (ML, IASPEI 2013)${sm.magnitudeNotes.length ? `, ${sm.magnitudeNotes.length} channels left out` : ''}`);
+  lines.push(`  magnitudes: ${sm.magnitudes} of ${sm.located} located (ML, IASPEI 2013)${sm.magnitudeNotes.length ? `, ${sm.magnitudeNotes.length} channel amplitudes left out` : ''}`);
   lines.push(`  files: ${sm.files} miniSEED read${sm.skippedFiles.length ? `, ${sm.skippedFiles.length} skipped` : ''}`);
   lines.push(`  channels: ${sm.channels} with data, ${sm.skippedChannels.length} not used`);
   lines.push(`  data: ${sm.hours.toFixed(2)} h per triggering channel`);
   lines.push(`  time taken: ${duration(sm.seconds)}`);
   for (const f of sm.skippedFiles) lines.push(`  skipped file ${f.path}: ${f.why}`);
   for (const c of sm.skippedChannels) lines.push(`  not used ${c.id}: ${c.why}`);
-  for (const n of sm.magnitudeNotes.slice(0, 50)) lines.push(`  no amplitude ${n}`);
+  const noteCounts = new Map<string, number>();
+  for (const n of sm.magnitudeNotes) noteCounts.set(n, (noteCounts.get(n) ?? 0) + 1);
+  for (const [n, k] of [...noteCounts].slice(0, 50)) lines.push(`  no amplitude ${n}${k > 1 ? ` (${k} events)` : ''}`);
+  if (noteCounts.size > 50) lines.push(`  ... and ${noteCounts.size - 50} more channels without amplitudes`);
   for (const b of sm.badRecords.slice(0, 50)) lines.push(`  bad record ${b.path} byte ${b.offset}: ${b.reason}`);
   if (sm.badRecords.length > 50) lines.push(`  ... and ${sm.badRecords.length - 50} more bad records`);
   lines.push(`  ${CAUTION.split('\n').join(' ')}`);

@@ -329,6 +329,9 @@ describe('daybreak scan --preset near on the real microseismic records (../share
     const out = join(dir, 'real.xml');
     const r = daybreak('scan', '--preset', 'near', '--stations', join(REAL, 'stations', 'inv.xml'), '--out', out, join(REAL, 'waveforms'));
     expect(r.code).toBe(0);
+    // The real StationXML has no response stages: no magnitude, and the summary says why per channel.
+    expect(r.stdout).toMatch(/magnitudes: 0 of \d+ located/);
+    expect(r.stdout).toMatch(/no amplitude 1\.1\.1\.DPN: the channel has no response stages \(need at least one\) \(\d+ events\)/);
     const picks = picksOf(readQuakeMl(readFileSync(out, 'utf8'), 'real.xml')).filter((p) => p.phaseHint === 'P');
     const rows = readFileSync(join(REAL, 'picks.csv'), 'utf8').trim().split('\n').slice(1).map((l) => l.split(','));
     // Columns: event_file,origin_time,waveform_file,net,sta,loc,chan,phase,time,uncertainty_s,evaluation_mode,...
