@@ -6,8 +6,10 @@
  * ../shared/data/real-microseismic/events). Every document carries the preliminary-results caution
  * as a comment of eventParameters. Inside an event: preferredOriginID, preferredMagnitudeID, type,
  * description, comment, creationInfo, origins, magnitudes, station magnitudes, picks, amplitudes (the
- * order of the real files). Amplitude, StationMagnitude and Magnitude children follow the BED's
- * sequences (QuakeML 1.2 BED schema; order checked against the real files' amplitudes and magnitudes).
+ * order of the real files). Amplitude and Magnitude children follow the order of the real files'
+ * amplitudes and magnitudes (period, snr, waveformID, scalingTime and magnitudeHint, which they lack,
+ * placed as in the QuakeML 1.2 BED schema, from memory); StationMagnitude's children (the real files
+ * have none) follow the BED schema from memory: originID, mag, type, amplitudeID, methodID, waveformID.
  */
 import { CAUTION } from '../caution';
 import { isoFromMicros, type Micros } from '../time';
