@@ -16,7 +16,7 @@ import { openReview, ReviewSaver } from './data/reviewSync';
 import {
   History, acceptAutomatic, addEvent, deletePick, movePick, placePick, setPickAttributes, setState, setUncertainty,
   mergeEvents, splitEvent, setNote,
-  setEventType, EVENT_TYPES, REVIEW_STATES, reviewToCsv, reviewToQuakeMl, mergeCandidates, type ReviewDocument, type ReviewEvent, type EventType,
+  setEventType, EVENT_TYPES, REVIEW_STATES, reviewToCsv, reviewEventsToQuakeMl, quakemlStatus, mergeCandidates, type ReviewDocument, type ReviewEvent, type EventType,
   type ReviewState,
 } from '../core/review';
 import { microsFromIso } from '../core/time';
@@ -26,6 +26,11 @@ import {
   DEFAULT_MODEL, locateReviewEvent, parseVelocityModel, siteLocations, type ReviewLocation, type SiteLocation, type VelocityModel,
 } from '../core/location';
 import { KEY_MAP, actionForKey, type KeyAction } from './keys';
+import { magnitudeRead, reviewMagnitude, withMagnitude } from '../core/review/reviewMagnitude';
+import { magnitudesToCsv } from '../core/review/magnitudeCsv';
+import { writeQuakeMl } from '../core/quakeml';
+import type { EventMagnitude } from '../core/magnitude';
+import { drawAmplitudes, type AmplitudeMarks } from './picks/amplitudeLayer';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
 
@@ -65,6 +70,9 @@ export class Desk {
   private loadSeq = 0;
   private history: History | null = null;
   private panels: EventPanels | null = null;
+  private magnitude: EventMagnitude | null = null;
+  private magnitudeFor: ReviewEvent | null = null;
+  private magnitudeSeq = 0;
   private siteCoords = new Map<string, SiteLocation>();
   private model: VelocityModel = DEFAULT_MODEL;
   private modelName = 'default-model';
@@ -192,7 +200,7 @@ export class Desk {
         return step >= 1 ? iso.slice(11, 19) : step >= 0.1 ? iso.slice(11, 21) : iso.slice(11, 23);
       },
       onWindow: (x0, x1) => this.overview?.setCursorSpan([this.ref + x0 * 1e6, this.ref + x1 * 1e6]),
-      drawMarks: (m) => drawPicks(m, this.marks()),
+      drawMarks: (m) => { drawPicks(m, this.marks()); drawAmplitudes(m, this.amplitudeMarks()); },
       onPointerDown: (row, t, band) => this.pointerDown(row.key, t, band),
       onPointerDrag: (t) => this.pointerDrag(t),
       onPointerUp: (t) => this.pointerUp(t),
@@ -331,6 +339,36 @@ export class Desk {
     return this.doc?.events.find((e) => e.id === this.currentEvent) ?? null;
   }
 
+  /** Local magnitude of the open event from its location and the horizontals (read in worker 1). */
+  private async updateMagnitude(ev: ReviewEvent | null, loc: ReviewLocation | null): Promise<void> {
+    const seq = ++this.magnitudeSeq;
+    const rd = ev && loc ? magnitudeRead(ev, loc, this.channelMetas(), this.siteCoords) : null;
+    if (!ev || !loc || !rd) {
+      this.magnitude = null;
+      this.magnitudeText.textContent = '';
+      this.traces?.redrawMarks();
+      return;
+    }
+    const reply = await this.session.window(rd.channels, rd.from, rd.to, null, false, 0, false);
+    if (seq !== this.magnitudeSeq) return;
+    this.magnitude = reviewMagnitude(ev, loc, reply.pieces, (k) => this.session.channels.get(k)?.meta, this.siteCoords,
+      undefined, { evaluationStatus: quakemlStatus(ev.state) });
+    const v = this.magnitude?.magnitude;
+    this.magnitudeText.textContent = v ? `ML ${v.mag.toFixed(1)} \u00b1 ${(v.uncertainty ?? 0).toFixed(1)} (${v.stationCount} stations)` : 'no ML';
+    this.traces?.redrawMarks();
+  }
+
+  private readonly magnitudeText = el('span', { className: 'magnitude' });
+
+  private channelMetas() {
+    return [...this.session.channels.values()].flatMap((c) => (c.meta ? [c.meta] : []));
+  }
+
+  private amplitudeMarks(): AmplitudeMarks {
+    const m = this.magnitude;
+    return { amplitudes: m?.amplitudes ?? [], stationMagnitudes: m?.stationMagnitudes ?? [], selected: null, toView: (t) => (t - this.ref) / 1e6 };
+  }
+
   private marks(): PickMarks {
     const ev = this.currentEv();
     let picks = ev?.picks ?? [];
@@ -376,6 +414,11 @@ export class Desk {
     this.renderEventBar();
     const located = this.panels?.update(this.currentEv(), this.siteCoords, this.model);
     if (located?.location && !located.location.ok && ev && ev.picks.length > 0) this.setStatus(`not located: ${located.location.message}`);
+    // The magnitude follows the event's picks (not selection changes): same event object, no work.
+    if (ev !== this.magnitudeFor) {
+      this.magnitudeFor = ev;
+      void this.updateMagnitude(ev, located?.location?.ok ? located.location.value : null);
+    }
     this.traces?.redrawMarks();
   }
 
@@ -431,6 +474,7 @@ export class Desk {
     this.eventBar.replaceChildren(
       el('span', { className: 'ev-id' }, ev.id),
       el('span', { className: 'muted' }, ` ${p} P \u00b7 ${sCount} S `),
+      this.magnitudeText,
       el('label', {}, 'State ', state), el('label', {}, 'Type ', type, ' ', certainty), accept, merge, split, note,
       el('span', { className: 'selected-pick' }, this.selectedText(ev)));
   }
@@ -666,12 +710,23 @@ export class Desk {
       const r = locateReviewEvent(ev, this.siteCoords, this.model);
       if (r.ok) locations.set(ev.id, r.value);
     }
-    const xml = reviewToQuakeMl(doc, {
+    // Located events also get their local magnitude (amplitudes, station magnitudes, network ML).
+    const qevents = reviewEventsToQuakeMl(doc, locations, this.modelName);
+    for (let i = 0; i < qevents.length; i++) {
+      const ev = doc.events[i];
+      const loc = locations.get(ev.id);
+      const rd = loc ? magnitudeRead(ev, loc, this.channelMetas(), this.siteCoords) : null;
+      if (!loc || !rd) continue;
+      const reply = await this.session.window(rd.channels, rd.from, rd.to, null, false, 0, false);
+      qevents[i] = withMagnitude(qevents[i], reviewMagnitude(ev, loc, reply.pieces, (k) => this.session.channels.get(k)?.meta, this.siteCoords,
+        undefined, { evaluationStatus: quakemlStatus(ev.state) }));
+    }
+    const xml = writeQuakeMl({ events: qevents }, {
       authority: s.authority, agencyId: s.agency || 'unknown', author: s.analyst || 'unknown',
       creationTime: microsFromIso(now), version: 'Daybreak',
-    }, locations, this.modelName);
+    });
     const written: string[] = [];
-    for (const [name, content] of [[`review-${stamp}.quakeml.xml`, xml], [`picks-${stamp}.csv`, reviewToCsv(doc)]] as const) {
+    for (const [name, content] of [[`review-${stamp}.quakeml.xml`, xml], [`picks-${stamp}.csv`, reviewToCsv(doc)], [`magnitudes-${stamp}.csv`, magnitudesToCsv(qevents)]] as const) {
       const r = await this.host.call('export.write', { root: this.session.dataset.root, name, content });
       if (!r.ok) { this.setStatus(`export failed: ${r.message}`); return written; }
       written.push(r.value.path);

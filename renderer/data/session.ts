@@ -123,13 +123,13 @@ export class DataSession {
    * Samples of `channels` in [start, end), filtered as asked (causal unless `zeroPhase`). Reads
    * `warmup` seconds more before the window so the filter has settled at its start.
    */
-  async window(channels: string[], start: Micros, end: Micros, filter: FilterRequest | null, zeroPhase = false, warmup = 20): Promise<WindowReply> {
+  async window(channels: string[], start: Micros, end: Micros, filter: FilterRequest | null, zeroPhase = false, warmup = 20, forView = true): Promise<WindowReply> {
     const want = new Set(channels);
     const readFrom = start - warmup * 1e6;
-    // Windows always go to worker 0, which keeps the last decoded window: a new filter on the same
-    // window is then filtering only.
+    // Windows for the view always go to worker 0, which keeps the last decoded window: a new filter
+    // on the same window is then filtering only. Other reads (e.g. for magnitudes) go to worker 1.
     const cacheKey = `${readFrom}|${end}|${channels.join(',')}`;
-    if (cacheKey === this.lastWindowKey) {
+    if (forView && cacheKey === this.lastWindowKey) {
       return this.pool.request<WindowReply>({ type: 'window', chunks: [], channels, start, end, filter, zeroPhase, cacheKey }, [], 0);
     }
     const ranges: { path: string; offset: number; length: number }[] = [];
@@ -154,8 +154,8 @@ export class DataSession {
     }
     const parts = splitRanges(r.value);
     const chunks: WindowChunk[] = ranges.map((rg, i) => ({ path: rg.path, base: rg.offset, bytes: parts[i] }));
-    this.lastWindowKey = cacheKey;
-    return this.pool.request<WindowReply>({ type: 'window', chunks, channels, start, end, filter, zeroPhase, cacheKey }, [r.value.buffer], 0);
+    if (forView) this.lastWindowKey = cacheKey;
+    return this.pool.request<WindowReply>({ type: 'window', chunks, channels, start, end, filter, zeroPhase, cacheKey }, [r.value.buffer], forView ? 0 : 1);
   }
 
   private cancelled = false;

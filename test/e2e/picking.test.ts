@@ -187,15 +187,17 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     await app.page.getByText(/^exported /).waitFor();
     const dir = join(data, 'daybreak-exports');
     const files = readdirSync(dir).sort();
-    expect(files.map((f) => f.replace(/\d{8}T\d{6}/, 'STAMP'))).toEqual(['picks-STAMP.csv', 'review-STAMP.quakeml.xml']);
-    const xml = readFileSync(join(dir, files[1]), 'utf8');
-    const doc = readQuakeMl(xml, files[1]);
+    expect(files.map((f) => f.replace(/\d{8}T\d{6}/, 'STAMP'))).toEqual(['magnitudes-STAMP.csv', 'picks-STAMP.csv', 'review-STAMP.quakeml.xml']);
+    const xml = readFileSync(join(dir, files[2]), 'utf8');
+    const doc = readQuakeMl(xml, files[2]);
     const review = saved();
     expect(doc.events.map((e) => e.picks.length)).toEqual(review.events.map((e) => e.picks.length));
     expect(doc.events[0].picks.map((p) => isoFromMicros(p.time)).sort()).toEqual(review.events[0].picks.map((p) => p.time).sort());
     expect(xml).toContain('<author>Test Analyst</author>');
     expect(xml).toContain('<agencyID>XX</agencyID>');
-    expect(readFileSync(join(dir, files[0]), 'utf8').trim().split('\n')).toHaveLength(2 + review.events[0].picks.length);
+    expect(readFileSync(join(dir, files[1]), 'utf8').trim().split('\n')).toHaveLength(2 + review.events[0].picks.length);
+    // The real records' StationXML has no responses: no magnitudes, only the caution and the header.
+    expect(readFileSync(join(dir, files[0]), 'utf8').trim().split('\n')).toHaveLength(2);
   });
 
   it('shows every key in the help overlay', async () => {
