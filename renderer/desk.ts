@@ -65,6 +65,8 @@ export class Desk {
   private filterIndex = 1;
   private zeroPhase = false;
   private verticalOnly = false;
+  /** Sites shown: 0 for all, else the first N in arrival order. */
+  private siteLimit = 0;
   private windowSpan: [Micros, Micros] | null = null;
   private ref: Micros = 0;
   private loadSeq = 0;
@@ -174,6 +176,9 @@ export class Desk {
     zp.addEventListener('change', () => { this.zeroPhase = zp.checked; void this.reload(); });
     const vo = el('input', { type: 'checkbox', checked: this.verticalOnly });
     vo.addEventListener('change', () => { this.verticalOnly = vo.checked; void this.reload(); });
+    const limit = el('select', { title: 'How many sites to show: all, or the first N in arrival order (the rest stay a scroll away when all are shown)' },
+      ...[['0', 'all sites'], ['6', 'first 6'], ['12', 'first 12'], ['24', 'first 24']].map(([v, label]) => el('option', { value: v, selected: Number(v) === this.siteLimit }, label)));
+    limit.addEventListener('change', () => { this.siteLimit = Number(limit.value); void this.reload(); });
     const amp = el('select', { title: 'Amplitude scaling' }, el('option', { value: 'trace' }, 'each trace'), el('option', { value: 'common' }, 'common'));
     amp.addEventListener('change', () => this.traces?.setAmplitudeMode(amp.value as 'trace' | 'common'));
     const reset = el('button', { title: 'Show the whole window' }, 'Full window');
@@ -184,6 +189,7 @@ export class Desk {
       el('label', {}, 'Filter ', filterSelect),
       el('label', { className: 'zero-phase', title: 'Forward and backward filtering moves energy ahead of onsets: for viewing, not for picking' }, zp, ' zero-phase (view only)'),
       el('label', {}, vo, ' vertical only'),
+      el('label', {}, 'Show ', limit),
       el('label', {}, 'Scale ', amp),
       reset);
     const traceHost = el('div', { className: 'trace-host' });
@@ -321,6 +327,7 @@ export class Desk {
       first.set(site, Math.min(first.get(site) ?? Infinity, p.time));
     }
     rows.sort((a, b) => (first.get(a.key) ?? Infinity) - (first.get(b.key) ?? Infinity));
+    if (this.siteLimit > 0 && rows.length > this.siteLimit) rows.length = this.siteLimit;
     this.rowsBySite = new Map(rows.map((r) => [r.key, r]));
     const t1 = performance.now();
     this.traces.setRows(rows, [0, (end - start) / 1e6]);

@@ -31,4 +31,13 @@ describe('review desk on the real microseismic records (Chromium, browser mode)'
     expect(rows.length).toBeGreaterThan(5);
     expect(errors).toEqual([]);
   });
+
+  it('limits the sheet to the first sites when asked', async () => {
+    await app.page.locator('label', { hasText: 'Show' }).locator('select').selectOption('6');
+    await app.page.waitForTimeout(800);
+    expect(await app.page.locator('.trace-row:visible').count()).toBe(6);
+    await app.page.locator('label', { hasText: 'Show' }).locator('select').selectOption('0');
+    await app.page.waitForTimeout(800);
+    expect(await app.page.locator('.trace-row:visible').count()).toBeGreaterThan(6);
+  });
 });
