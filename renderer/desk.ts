@@ -409,6 +409,10 @@ export class Desk {
     return true;
   }
 
+  private listedEvents: readonly ReviewEvent[] | null = null;
+  private listedCurrent: string | null = null;
+  private markedStarts = '';
+
   private afterDocChange(save: boolean): void {
     const doc = this.doc;
     if (!doc) return;
@@ -416,8 +420,20 @@ export class Desk {
     if (this.currentEvent && !doc.events.some((e) => e.id === this.currentEvent)) this.currentEvent = null;
     const ev = this.currentEv();
     if (this.selected && !ev?.picks.some((p) => p.id === this.selected)) this.selected = null;
-    this.eventList.set(doc.events, this.currentEvent);
-    this.overview?.setMarks(doc.events.map((e) => ({ t: e.start, label: e.id })));
+    // The list and the overview's marks change only with the events (a selection changes neither);
+    // the overview redraws its whole canvas, so its marks are set only when the event times change.
+    if (doc.events !== this.listedEvents || this.currentEvent !== this.listedCurrent) {
+      this.eventList.set(doc.events, this.currentEvent);
+      this.listedCurrent = this.currentEvent;
+    }
+    if (doc.events !== this.listedEvents) {
+      const starts = doc.events.map((e) => e.start).join(',');
+      if (starts !== this.markedStarts) {
+        this.markedStarts = starts;
+        this.overview?.setMarks(doc.events.map((e) => ({ t: e.start, label: e.id })));
+      }
+      this.listedEvents = doc.events;
+    }
     this.renderEventBar();
     const located = this.panels?.update(this.currentEv(), this.siteCoords, this.model);
     if (located?.location && !located.location.ok && ev && ev.picks.length > 0) this.setStatus(`not located: ${located.location.message}`);

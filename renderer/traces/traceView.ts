@@ -120,8 +120,11 @@ export class TraceView {
     this.full = span;
     this.traceColour = getComputedStyle(this.root).getPropertyValue('--trace').trim() || '#ccc';
     this.layout();
-    this.rebuildAxis();
+    // The axis is rebuilt on resize (see the ResizeObserver); new rows only need its scale, set in drawNow.
+    if (!this.axis) this.rebuildAxis();
     this.drawNow(true);
+    // Same span, new reference time: the labels must be formatted again.
+    this.axis?.redraw(false, true);
   }
 
   /** Re-draws after the samples of some rows changed (e.g. a new filter). */
