@@ -11,7 +11,7 @@ import type {
   HostResult, RequestOf, ResponseOf,
 } from '../contract';
 import { DEFAULT_SETTINGS, HOST_REQUEST_NAMES, type ReviewFileState, type Settings } from '../contract';
-import { ReviewLocks, folderWritable, reviewPathFor, writeAtomically } from './reviewStore';
+import { ReviewLocks, reviewPathFor, writeAtomically } from './reviewStore';
 import { ScanJobs } from './scanJob';
 
 export class HostError extends Error {
@@ -40,8 +40,13 @@ export const DEMO_COMPLETE_MARKER = 'scenario-complete.json';
 const MAX_FILES_LISTED = 200_000;
 const MAX_RANGE_BYTES = 256 << 20;
 
+interface OpenedDataset {
+  files: DatasetFile[];
+  reviewPath: string;
+}
+
 export class HostService {
-  private readonly openRoots = new Set<string>();
+  private readonly openRoots = new Map<string, OpenedDataset>();
   private demo: DemoStatus;
   private readonly handlers: Handlers;
 
@@ -108,7 +113,7 @@ export class HostService {
 
   private async openReview(rootArg: unknown, force: boolean): Promise<ReviewFileState> {
     const root = this.checkOpened(rootArg);
-    const path = await reviewPathFor(root, this.opts.userDir);
+    const path = this.opened(root).reviewPath;
     const holder = await this.locks.acquire(path, force);
     const content = await readFile(path, 'utf8').catch((e: NodeJS.ErrnoException) => {
       if (e.code === 'ENOENT') return null;
@@ -120,7 +125,7 @@ export class HostService {
   private async saveReview(rootArg: unknown, content: unknown): Promise<{ path: string; bytes: number }> {
     const root = this.checkOpened(rootArg);
     if (typeof content !== 'string' || content.length > 64 << 20) throw new HostError('bad-request', 'content must be text of at most 64 MiB');
-    const path = await reviewPathFor(root, this.opts.userDir);
+    const path = this.opened(root).reviewPath;
     if (!this.locks.holds(path)) throw new HostError('locked', `another copy of Daybreak holds ${path}; open it again to take over`);
     await writeAtomically(path, content);
     return { path, bytes: Buffer.byteLength(content) };
@@ -130,7 +135,7 @@ export class HostService {
     const root = this.checkOpened(rootArg);
     if (typeof name !== 'string' || !/^[\w][\w.-]{0,120}$/.test(name)) throw new HostError('bad-request', 'export name must be letters, digits, . _ - (up to 121)');
     if (typeof content !== 'string' || content.length > 256 << 20) throw new HostError('bad-request', 'content must be text of at most 256 MiB');
-    const path = join(dirname(await reviewPathFor(root, this.opts.userDir)), 'daybreak-exports', name);
+    const path = join(dirname(this.opened(root).reviewPath), 'daybreak-exports', name);
     await writeAtomically(path, content);
     return { path };
   }
@@ -139,12 +144,11 @@ export class HostService {
 
   private async startScan(rootArg: unknown) {
     const root = this.checkOpened(rootArg);
-    const files: DatasetFile[] = [];
-    await listFiles(root, root, files);
+    const { files, reviewPath } = this.opened(root);
     const stations = files.find((f) => f.kind === 'stationxml');
     if (!stations) throw new HostError('bad-request', `no StationXML file in ${root}: the scan needs station coordinates`);
     const model = files.find((f) => f.kind === 'model');
-    return this.scans.start(root, join(root, stations.path), dirname(await reviewPathFor(root, this.opts.userDir)), model ? join(root, model.path) : null);
+    return this.scans.start(root, join(root, stations.path), dirname(reviewPath), model ? join(root, model.path) : null);
   }
 
   private settingsPath(): string {
@@ -175,6 +179,13 @@ export class HostService {
     return root;
   }
 
+  /** What opening `root` found: its files and where its review file goes (looked up once, at opening). */
+  private opened(root: string): OpenedDataset {
+    const o = this.openRoots.get(root);
+    if (!o) throw new HostError('forbidden', `folder was not opened: ${root}`);
+    return o;
+  }
+
   private async openDataset(rootArg: unknown): Promise<Dataset> {
     const root = this.checkRootArg(rootArg);
     const st = await stat(root).catch(() => null);
@@ -183,9 +194,10 @@ export class HostService {
     const files: DatasetFile[] = [];
     await listFiles(root, root, files);
     files.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
-    const writable = await folderWritable(root);
-    this.openRoots.add(root);
-    return { root, files, writable };
+    const reviewPath = await reviewPathFor(root, this.opts.userDir);
+    this.openRoots.set(root, { files, reviewPath });
+    // The review file goes beside the data exactly when the folder may be written.
+    return { root, files, writable: dirname(reviewPath) === root };
   }
 
   private async readDatasetFile(rootArg: unknown, pathArg: unknown): Promise<Uint8Array> {
