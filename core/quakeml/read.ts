@@ -4,7 +4,8 @@
  * position, depth, arrivals), magnitudes with their station contributions, station magnitudes and
  * amplitudes. Other content is skipped. Errors name the file and the element.
  */
-import { XMLParser, XMLValidator } from 'fast-xml-parser';
+import { XMLValidator } from 'fast-xml-parser';
+import { formatXmlParser } from '../xml';
 import { microsFromIso } from '../time';
 import type { EvaluationMode, EvaluationStatus, PickOnset, PickPolarity } from '../pick/types';
 import type { ChannelId } from '../model';
@@ -20,15 +21,7 @@ export class QuakeMlError extends Error {
 }
 
 const REPEATED = new Set(['event', 'pick', 'origin', 'arrival', 'comment', 'magnitude', 'amplitude', 'stationMagnitude', 'stationMagnitudeContribution']);
-const parser = new XMLParser({
-  ignoreAttributes: false,
-  attributeNamePrefix: '@_',
-  removeNSPrefix: true,
-  parseTagValue: false,
-  parseAttributeValue: false,
-  ignoreDeclaration: true,
-  isArray: (name) => REPEATED.has(name),
-});
+const parser = formatXmlParser(REPEATED);
 
 type Node = Record<string, unknown>;
 

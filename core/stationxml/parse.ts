@@ -12,6 +12,7 @@
  * Every error is a {@link StationXmlError} naming the file, the line and the XML path.
  */
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
+import { formatXmlParser } from '../xml';
 import type { Micros } from '../time';
 import {
   StationXmlError,
@@ -393,17 +394,7 @@ function networkOf(at: Where, node: XmlNode): NetworkMeta {
   };
 }
 
-const parser = new XMLParser({
-  ignoreAttributes: false,
-  attributeNamePrefix: '@_',
-  removeNSPrefix: true,
-  parseTagValue: false,
-  parseAttributeValue: false,
-  ignoreDeclaration: true,
-  ignorePiTags: true,
-  captureMetaData: true,
-  isArray: (name) => REPEATED.has(name),
-});
+const parser = formatXmlParser(REPEATED, { captureMetaData: true });
 
 /**
  * Reads a StationXML document.
