@@ -31,6 +31,7 @@ import { magnitudesToCsv } from '../core/review/magnitudeCsv';
 import { writeQuakeMl } from '../core/quakeml';
 import type { EventMagnitude } from '../core/magnitude';
 import { drawAmplitudes, type AmplitudeMarks } from './picks/amplitudeLayer';
+import { el } from './dom';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
 
@@ -43,11 +44,6 @@ export const FILTER_PRESETS: FilterPreset[] = [
   { label: 'above 1 Hz', filter: { kind: 'highpass', order: 4, corners: 1 } },
 ];
 
-function el<K extends keyof HTMLElementTagNameMap>(tag: K, props: Partial<HTMLElementTagNameMap[K]> = {}, ...children: (Node | string)[]): HTMLElementTagNameMap[K] {
-  const e = Object.assign(document.createElement(tag), props);
-  e.append(...children);
-  return e;
-}
 
 /** Window the sheet opens around a moment picked on the overview: 20 s before, 70 s after. */
 const OPEN_BEFORE_S = 20;

@@ -8,15 +8,11 @@ import type { Dataset, HostApi } from '../electron/contract';
 import { CAUTION } from '../core/caution';
 import { Desk } from './desk';
 import { CancelledError } from './data/session';
+import { el } from './dom';
 
 const host: HostApi = connectHost();
 const app = document.getElementById('app')!;
 
-function el<K extends keyof HTMLElementTagNameMap>(tag: K, props: Partial<HTMLElementTagNameMap[K]> = {}, ...children: (Node | string)[]): HTMLElementTagNameMap[K] {
-  const e = Object.assign(document.createElement(tag), props);
-  e.append(...children);
-  return e;
-}
 
 const mainArea = el('main');
 const statusText = el('span', { className: 'status' });
