@@ -22,12 +22,22 @@
  *   where G^T r = 0, is the undamped least-squares solution. Depth is kept within [min, max].
  *   Converged when a step moves the hypocentre less than 1 mm and the origin time less than 1 us, when
  *   no step lowers the misfit, or when five steps in a row lower it by under 1e-9 of itself.
- * - Errors: the covariance C = (G^T W G)^-1 = V S^-2 V^T from the pick uncertainties as stated
- *   (a priori, not rescaled by the misfit: chi2 and its degrees of freedom are reported so a caller
- *   can judge whether the stated uncertainties fit). Standard errors are sqrt(diag C); the 68 %
- *   epicentral ellipse has semi-axes ELLIPSE_68_SCALE = 1.515 times the square roots of the
- *   eigenvalues of C's east-north block (two degrees of freedom, see below); the depth error is 1
- *   sigma (68.3 % for one parameter).
+ * - Errors: the a-priori covariance C0 = (G^T W G)^-1 = V S^-2 V^T from the pick uncertainties as
+ *   stated, widened when the residuals say those uncertainties were too small: C = f C0 with the
+ *   a-posteriori variance factor (reduced chi-square) f = chi2 / (N - M) = sum (r_i / sigma_i)^2 /
+ *   (N - M), applied when it exceeds 1 (so one bad pick that leaves a residual of a second widens
+ *   the ellipse; errors are never made smaller than the stated uncertainties give). The factor is
+ *   the estimate of the unit-weight variance of weighted least squares (Press, Teukolsky,
+ *   Vetterling & Flannery, Numerical Recipes, 2nd ed. 1992, section 15.1: with the model assumed
+ *   to fit, sigma^2 is estimated from the misfit as sum (y_i - y(x_i))^2 / (N - M); Bevington &
+ *   Robinson, Data Reduction and Error Analysis for the Physical Sciences, 3rd ed. 2003, on the
+ *   reduced chi-square; both from memory, no page checked). scipy.optimize.curve_fit with
+ *   absolute_sigma=False applies the same factor without the floor (the test compares with it). Using it only when above 1 is common practice in earthquake location (a-priori errors
+ *   as a floor). With no degrees of freedom (N = M) there is no estimate and C = C0.
+ *   `varianceFactor`, `errorsScaled` and `errorScale` report what was done. Standard errors are
+ *   sqrt(diag C); the 68 % epicentral ellipse has semi-axes ELLIPSE_68_SCALE = 1.515 times the
+ *   square roots of the eigenvalues of C's east-north block (two degrees of freedom, see below);
+ *   the depth error is 1 sigma (68.3 % for one parameter).
  */
 import { SingularValueDecomposition, Matrix } from 'ml-matrix';
 import type { Micros } from '../time';
@@ -85,6 +95,11 @@ export interface GeigerOptions {
   minDepthKm?: number;
   /** Deepest depth allowed, km (default 100). */
   maxDepthKm?: number;
+  /**
+   * 'a-posteriori' (default): the covariance is multiplied by the variance factor chi2 / dof when
+   * that exceeds 1; 'a-priori': the pick uncertainties as stated, never rescaled.
+   */
+  errors?: 'a-posteriori' | 'a-priori';
 }
 
 export interface ErrorEllipse {
@@ -129,7 +144,16 @@ export interface Hypocentre {
   /** Sum of squared residuals over sigma^2, and its degrees of freedom (used phases - unknowns). */
   chi2: number;
   dof: number;
-  /** 1-sigma errors: origin time s; east, north and depth km (depth NaN when fixed). */
+  /** A-posteriori variance factor (reduced chi-square) chi2 / dof; NaN when dof is 0. */
+  varianceFactor: number;
+  /** Whether the covariance was multiplied by varianceFactor (it exceeded 1 and errors were 'a-posteriori'). */
+  errorsScaled: boolean;
+  /**
+   * What the standard errors and the ellipse axes were multiplied by: sqrt(varianceFactor) when
+   * errorsScaled, else 1. Dividing by it gives the a-priori errors.
+   */
+  errorScale: number;
+  /** 1-sigma errors (after any scaling): origin time s; east, north and depth km (depth NaN when fixed). */
   originTimeErrorS: number;
   eastErrorKm: number;
   northErrorKm: number;
@@ -143,7 +167,7 @@ export interface Hypocentre {
   iterations: number;
   /** One per input pick, in input order. */
   arrivals: ArrivalResidual[];
-  /** Covariance of [origin time s, east km, north km, depth km] (3 x 3 without depth when fixed), row-major. */
+  /** Covariance (after any scaling) of [origin time s, east km, north km, depth km] (3 x 3 without depth when fixed), row-major. */
   covariance: number[][];
 }
 
@@ -159,6 +183,8 @@ export function locate(stations: readonly LocationStation[], picks: readonly Loc
   if (!(Number.isInteger(maxIterations) && maxIterations >= 1 && maxIterations <= 1000)) {
     throw new RangeError(`maxIterations must be an integer in [1, 1000], got ${maxIterations}`);
   }
+  const errorMode = options.errors ?? 'a-posteriori';
+  if (errorMode !== 'a-posteriori' && errorMode !== 'a-priori') throw new RangeError(`errors must be 'a-posteriori' or 'a-priori', got ${JSON.stringify(options.errors)}`);
   const fixed = options.fixedDepthKm !== undefined;
   if (fixed && !(Math.abs(options.fixedDepthKm as number) <= 1000)) {
     throw new RangeError(`fixedDepthKm must be in [-1000, 1000] km, got ${options.fixedDepthKm}`);
@@ -350,13 +376,18 @@ export function locate(stations: readonly LocationStation[], picks: readonly Loc
   if (!(s[np - 1] > 1e-10 * s[0])) {
     return { ok: false, code: 'ill-conditioned', message: `the stations and phases do not constrain all ${np} unknowns (singular values ${s.map((x) => x.toPrecision(3)).join(', ')})` };
   }
+  // a-posteriori variance factor: the reduced chi-square of the weighted residuals
+  const dof = m - np;
+  const varianceFactor = dof > 0 ? chi2 / dof : NaN;
+  const errorsScaled = errorMode === 'a-posteriori' && varianceFactor > 1;
+  const appliedFactor = errorsScaled ? varianceFactor : 1;
   const cov: number[][] = [];
   for (let a = 0; a < np; a++) {
     cov.push([]);
     for (let b = 0; b < np; b++) {
       let c = 0;
       for (let j = 0; j < np; j++) c += V.get(a, j) * V.get(b, j) / (s[j] * s[j]);
-      cov[a].push(c);
+      cov[a].push(appliedFactor * c);
     }
   }
   const ee = cov[1][1];
@@ -409,7 +440,10 @@ export function locate(stations: readonly LocationStation[], picks: readonly Loc
       depthFixed: fixed,
       rmsS: Math.sqrt(sumR2 / m),
       chi2,
-      dof: m - np,
+      dof,
+      varianceFactor,
+      errorsScaled,
+      errorScale: Math.sqrt(appliedFactor),
       originTimeErrorS: Math.sqrt(cov[0][0]),
       eastErrorKm: Math.sqrt(ee),
       northErrorKm: Math.sqrt(nn),

@@ -7,7 +7,7 @@ import {
 } from '../../../core/location/geiger';
 import { firstArrival, type Wave } from '../../../core/location/travelTime';
 import { DEFAULT_MODEL, checkVelocityModel } from '../../../core/location/velocityModel';
-import { kmToDegrees } from '../../../core/location/projection';
+import { kmToDegrees, localProjection, toLocalKm } from '../../../core/location/projection';
 import { microsFromIso } from '../../../core/time';
 import { gaussian, rng, vincentyKm } from './reference';
 
@@ -114,6 +114,8 @@ describe('geiger', () => {
     const r = rng(2024);
     const g = gaussian(r);
     let inside = 0;
+    let insidePriori = 0;
+    let scaled = 0;
     let depthInside = 0;
     const trials = 200;
     for (let k = 0; k < trials; k++) {
@@ -129,16 +131,119 @@ describe('geiger', () => {
       const a = v.ellipse.majorAzimuthDeg * Math.PI / 180;
       const along = e * Math.sin(a) + n * Math.cos(a);
       const across = e * Math.cos(a) - n * Math.sin(a);
-      if ((along / v.ellipse.semiMajorKm) ** 2 + (across / v.ellipse.semiMinorKm) ** 2 <= 1) inside++;
+      const q = (along / v.ellipse.semiMajorKm) ** 2 + (across / v.ellipse.semiMinorKm) ** 2;
+      if (q <= 1) inside++;
+      // the a-priori ellipse: the reported one divided by the scale applied
+      if (q * v.errorScale ** 2 <= 1) insidePriori++;
+      if (v.errorsScaled) scaled++;
       if (Math.abs(v.depthKm - truth.depth) <= v.depthErrorKm) depthInside++;
     }
-    console.log(`68 % ellipse coverage ${(100 * inside / trials).toFixed(1)} %, 1-sigma depth coverage ${(100 * depthInside / trials).toFixed(1)} % (${trials} trials)`);
+    // Widening only when chi2/dof > 1 (about half the trials here) can only raise the coverage a little.
+    console.log(`68 % ellipse coverage ${(100 * inside / trials).toFixed(1)} % (a priori ${(100 * insidePriori / trials).toFixed(1)} %, widened in ${scaled} trials), 1-sigma depth coverage ${(100 * depthInside / trials).toFixed(1)} % (${trials} trials)`);
+    expect(insidePriori / trials).toBeGreaterThan(0.6827 - 0.1);
+    expect(insidePriori / trials).toBeLessThan(0.6827 + 0.1);
+    expect(inside).toBeGreaterThanOrEqual(insidePriori);
     expect(inside / trials).toBeGreaterThan(0.6827 - 0.1);
     expect(inside / trials).toBeLessThan(0.6827 + 0.1);
     // the 1-sigma depth error covers the true depth 68.3 % of the time too
     expect(depthInside / trials).toBeGreaterThan(0.6827 - 0.1);
     expect(depthInside / trials).toBeLessThan(0.6827 + 0.1);
   }, 60_000);
+
+  describe('a-posteriori widening of the errors (variance factor chi2 / dof when above 1)', () => {
+    // A half-space (Vp 6, Vs 3.47 km/s; invented) and stations at the datum: then a travel time is
+    // sqrt(d^2 + z^2) / v in the locator's own projection, a formula scipy can fit directly.
+    const half = checkVelocityModel([{ topKm: 0, vp: 6, vs: 3.47 }], 'half-space');
+    const flat = STATIONS.map((s) => ({ ...s, elevKm: 0 }));
+    const truth = { lat: 46.02, lon: 8.03, depth: 8 };
+    const exact = (): LocationPick[] => flat.flatMap((s) => (['P', 'S'] as const).map((w) => ({
+      stationKey: s.key, wave: w, uncertaintyS: w === 'P' ? 0.05 : 0.1,
+      time: T0 + Math.round(firstArrival(half, w, vincentyKm(truth.lat, truth.lon, s.latDeg, s.lonDeg), truth.depth, 0).time * 1e6),
+    })));
+    const late = (): LocationPick[] => exact().map((p, i) => (i === 6 ? { ...p, time: p.time + 1_000_000 } : p)); // one P 1 s late
+
+    it('exact times: variance factor far below 1, errors left as the pick uncertainties give them', () => {
+      const r = locate(flat, exact(), { model: half });
+      if (!r.ok) throw new Error(r.message);
+      expect(r.value.varianceFactor).toBeLessThan(1e-3);
+      expect(r.value.errorsScaled).toBe(false);
+      expect(r.value.errorScale).toBe(1);
+      const p = locate(flat, exact(), { model: half, errors: 'a-priori' });
+      if (!p.ok) throw new Error(p.message);
+      expect(r.value.ellipse.semiMajorKm).toBe(p.value.ellipse.semiMajorKm);
+    });
+
+    it('one P pick 1 s late: the ellipse and all standard errors grow by sqrt(chi2 / dof), recomputed from the residuals', () => {
+      const a = locate(flat, late(), { model: half });
+      const p = locate(flat, late(), { model: half, errors: 'a-priori' });
+      if (!a.ok) throw new Error(a.message);
+      if (!p.ok) throw new Error(p.message);
+      const v = a.value;
+      // same solution either way
+      expect(v.latDeg).toBe(p.value.latDeg);
+      expect(v.depthKm).toBe(p.value.depthKm);
+      // chi2 / dof recomputed here from the reported residuals and the stated sigmas
+      const picks = late();
+      const chi2 = v.arrivals.reduce((acc, x) => acc + (x.residualS / picks[x.pickIndex].uncertaintyS) ** 2, 0);
+      expect(v.dof).toBe(28 - 4);
+      expect(v.varianceFactor).toBeCloseTo(chi2 / 24, 9);
+      expect(v.errorsScaled).toBe(true);
+      expect(v.errorScale).toBeCloseTo(Math.sqrt(chi2 / 24), 9);
+      // the factor for this case: one 1 s error at sigma 0.05 s, of which the fit absorbs a part
+      expect(v.varianceFactor).toBeGreaterThan(10);
+      expect(v.varianceFactor).toBeLessThan(400 / 24);
+      for (const [k, ap] of [['semiMajorKm', p.value.ellipse.semiMajorKm], ['semiMinorKm', p.value.ellipse.semiMinorKm]] as const) {
+        expect(v.ellipse[k] / ap).toBeCloseTo(v.errorScale, 9);
+      }
+      expect(v.ellipse.majorAzimuthDeg).toBeCloseTo(p.value.ellipse.majorAzimuthDeg, 9);
+      expect(v.depthErrorKm / p.value.depthErrorKm).toBeCloseTo(v.errorScale, 9);
+      expect(v.originTimeErrorS / p.value.originTimeErrorS).toBeCloseTo(v.errorScale, 9);
+      console.log(`one pick 1 s late: RMS ${(v.rmsS * 1000).toFixed(0)} ms, variance factor ${v.varianceFactor.toFixed(2)}, ellipse ${(p.value.ellipse.semiMajorKm * 1000).toFixed(0)} m a priori -> ${(v.ellipse.semiMajorKm * 1000).toFixed(0)} m`);
+      expect(p.value.ellipse.semiMajorKm).toBeLessThan(0.2); // 149 m when written
+      expect(v.ellipse.semiMajorKm).toBeGreaterThan(0.45); // 555 m when written
+      expect(v.ellipse.semiMajorKm).toBeGreaterThan(3 * p.value.ellipse.semiMajorKm);
+    });
+
+    it('matches scipy.optimize.curve_fit: absolute_sigma=True is the a-priori covariance, False the widened one', () => {
+      // scipy 1.17 (python3 of this machine), computed in this run: curve_fit of
+      // t = t0 + sqrt((x - xs)^2 + (y - ys)^2 + z^2) / v on the stations' local coordinates.
+      const a = locate(flat, late(), { model: half });
+      const p = locate(flat, late(), { model: half, errors: 'a-priori' });
+      if (!a.ok || !p.ok) throw new Error('not located');
+      const lat0 = flat.reduce((s, x) => s + x.latDeg, 0) / flat.length;
+      const lon0 = flat.reduce((s, x) => s + x.lonDeg, 0) / flat.length;
+      const proj = localProjection(lat0, lon0);
+      const picks = late();
+      const rows = picks.map((pk) => {
+        const st = flat.find((x) => x.key === pk.stationKey) as LocationStation;
+        const xy = toLocalKm(proj, st.latDeg, st.lonDeg, [0, 0]);
+        return [xy[0], xy[1], pk.wave === 'P' ? 6 : 3.47, (pk.time - T0) / 1e6, pk.uncertaintyS];
+      });
+      const start = toLocalKm(proj, a.value.latDeg, a.value.lonDeg, [0, 0]);
+      const py = [
+        'import json, sys, numpy as np',
+        'from scipy.optimize import curve_fit',
+        'd = json.loads(sys.stdin.read()); r = np.array(d["rows"])',
+        'f = lambda X, t0, e, n, z: t0 + np.sqrt((e - X[0])**2 + (n - X[1])**2 + z**2) / X[2]',
+        'out = {}',
+        'for k, ab in (("priori", True), ("posteriori", False)):',
+        '    popt, pcov = curve_fit(f, r[:, :3].T, r[:, 3], p0=d["p0"], sigma=r[:, 4], absolute_sigma=ab, xtol=1e-14, ftol=1e-14)',
+        '    out[k] = {"popt": popt.tolist(), "cov": pcov.tolist()}',
+        'print(json.dumps(out))',
+      ].join('\n');
+      const ref = JSON.parse(execFileSync('python3', ['-c', py], { input: JSON.stringify({ rows, p0: [(a.value.originTime - T0) / 1e6, start[0], start[1], a.value.depthKm] }) }).toString());
+      // same solution (origin time, east, north, depth)
+      expect(Math.abs(ref.posteriori.popt[0] - (a.value.originTime - T0) / 1e6)).toBeLessThan(2e-6);
+      expect(Math.abs(ref.posteriori.popt[3] - a.value.depthKm)).toBeLessThan(1e-4);
+      for (const [mine, theirs] of [[p.value.covariance, ref.priori.cov], [a.value.covariance, ref.posteriori.cov]] as [number[][], number[][]][]) {
+        for (let i = 0; i < 4; i++) {
+          for (let j = 0; j < 4; j++) {
+            expect(Math.abs(mine[i][j] - theirs[i][j]), `cov[${i}][${j}]`).toBeLessThan(2e-3 * Math.sqrt(theirs[i][i] * theirs[j][j]));
+          }
+        }
+      }
+    });
+  });
 
   it('the ellipse is elongated along the direction the network does not constrain', () => {
     // Stations in a narrow north-south strip east of the event: the distance from the strip (east-west)
