@@ -5,7 +5,7 @@
  */
 import type { Micros } from '../time';
 import type { PickOnset, PickPolarity, PhaseHint } from '../pick/types';
-import type { EventType, EventTypeCertainty, ReviewDocument, ReviewEvent, ReviewState } from './types';
+import type { AmplitudeEdit, EventType, EventTypeCertainty, ReviewDocument, ReviewEvent, ReviewState } from './types';
 
 function eventIndex(doc: ReviewDocument, eventId: string): number {
   const i = doc.events.findIndex((e) => e.id === eventId);
@@ -156,7 +156,7 @@ export function mergeEvents(doc: ReviewDocument, aId: string, bId: string): Revi
   const a = doc.events[eventIndex(doc, aId)];
   const b = doc.events[eventIndex(doc, bId)];
   const taken = new Set(a.picks.map((p) => `${p.phase}|${siteOf(p.channel)}`));
-  const merged: ReviewEvent = {
+  let merged: ReviewEvent = {
     ...a,
     start: Math.min(a.start, b.start),
     end: Math.max(a.end, b.end),
@@ -164,6 +164,10 @@ export function mergeEvents(doc: ReviewDocument, aId: string, bId: string): Revi
     note: [a.note, b.note].filter(Boolean).join('\n'),
     picks: [...a.picks, ...b.picks.filter((p) => !taken.has(`${p.phase}|${siteOf(p.channel)}`))],
   };
+  // Amplitude edits are pooled the same way: where both edited a channel, `a`'s edit is kept.
+  const aEdits = a.amplitudeEdits ?? [];
+  const bEdits = (b.amplitudeEdits ?? []).filter((e) => !aEdits.some((x) => x.channel === e.channel));
+  if (aEdits.length + bEdits.length > 0) merged = { ...merged, amplitudeEdits: [...aEdits, ...bEdits] };
   const events = doc.events.filter((e) => e.id !== bId).map((e) => (e.id === aId ? merged : e));
   return { ...doc, revision: doc.revision + 1, events };
 }
@@ -176,10 +180,83 @@ export function splitEvent(doc: ReviewDocument, eventId: string, at: Micros): { 
   const ev = doc.events[eventIndex(doc, eventId)];
   if (!(at > ev.start && at < ev.end)) throw new RangeError(`split time must fall inside the event's span`);
   const newEventId = `${ev.id}-split-${doc.nextSerial}`;
-  const first: ReviewEvent = { ...ev, end: at, state: ev.state === 'todo' ? 'started' : ev.state, picks: ev.picks.filter((p) => p.time < at) };
-  const second: ReviewEvent = { ...ev, id: newEventId, source: 'analyst', start: at, state: 'started', note: '', picks: ev.picks.filter((p) => p.time >= at) };
+  let first: ReviewEvent = { ...ev, end: at, state: ev.state === 'todo' ? 'started' : ev.state, picks: ev.picks.filter((p) => p.time < at) };
+  let second: ReviewEvent = { ...ev, id: newEventId, source: 'analyst', start: at, state: 'started', note: '', picks: ev.picks.filter((p) => p.time >= at) };
+  // A moved amplitude goes with the part its time falls in; a removal stays with the original event
+  // (it keeps its identifier; the new part's magnitude starts from the automatic amplitudes).
+  const edits = ev.amplitudeEdits;
+  if (edits !== undefined) {
+    const later = edits.filter((e) => e.kind === 'moved' && e.time >= at);
+    const earlier = edits.filter((e) => !later.includes(e));
+    first = withAmplitudeEdits(first, earlier);
+    second = withAmplitudeEdits(second, later);
+  }
   const events = doc.events.flatMap((e) => (e.id === eventId ? [first, second] : [e]));
   return { doc: { revision: doc.revision + 1, events, nextSerial: doc.nextSerial + 1 }, newEventId };
+}
+
+// ----- amplitude picks ---------------------------------------------------------------------------
+
+/** Allowed half-width of a moved amplitude's search window, s: from 1 ms to 2 s. */
+export const AMPLITUDE_HALF_WIDTH_MIN = 0.001;
+export const AMPLITUDE_HALF_WIDTH_MAX = 2;
+
+const CHANNEL_KEY = /^[^.]*\.[^.]+\.[^.]*\.[^.]+$/;
+
+function checkChannelKey(channel: string): void {
+  if (typeof channel !== 'string' || !CHANNEL_KEY.test(channel)) throw new RangeError(`channel must be "NET.STA.LOC.CHA", got ${JSON.stringify(channel)}`);
+}
+
+/** `ev` with `edits` as its amplitude edits (the field left out when there are none). */
+function withAmplitudeEdits(ev: ReviewEvent, edits: readonly AmplitudeEdit[]): ReviewEvent {
+  if (edits.length > 0) return { ...ev, amplitudeEdits: edits };
+  if (ev.amplitudeEdits === undefined) return ev;
+  const copy: { -readonly [K in keyof ReviewEvent]?: ReviewEvent[K] } = { ...ev };
+  delete copy.amplitudeEdits;
+  return copy as ReviewEvent;
+}
+
+/** The event's edit of `channel`'s amplitude, or undefined (the automatic measurement stands). */
+export function amplitudeEditOf(ev: ReviewEvent, channel: string): AmplitudeEdit | undefined {
+  return ev.amplitudeEdits?.find((e) => e.channel === channel);
+}
+
+/**
+ * Moves a channel's amplitude pick: its peak is measured again within ±`halfWidth` s of `time` (µs,
+ * where the analyst dropped it), replacing any earlier edit of the channel. The amplitude becomes
+ * manual (see core/review/reviewMagnitude).
+ */
+export function moveAmplitude(doc: ReviewDocument, eventId: string, channel: string, time: Micros, halfWidth: number): ReviewDocument {
+  checkChannelKey(channel);
+  if (!Number.isSafeInteger(time)) throw new RangeError(`amplitude time must be integer microseconds, got ${time}`);
+  if (!(halfWidth >= AMPLITUDE_HALF_WIDTH_MIN && halfWidth <= AMPLITUDE_HALF_WIDTH_MAX)) {
+    throw new RangeError(`amplitude half width must be ${AMPLITUDE_HALF_WIDTH_MIN} to ${AMPLITUDE_HALF_WIDTH_MAX} s, got ${halfWidth}`);
+  }
+  return withEvent(doc, eventId, (ev) => withAmplitudeEdits(ev, [
+    ...(ev.amplitudeEdits ?? []).filter((e) => e.channel !== channel),
+    { channel, kind: 'moved', time, halfWidth },
+  ]));
+}
+
+/** Leaves the amplitudes of `channels` out of the event's magnitude (a moved one is removed too). */
+export function removeAmplitudes(doc: ReviewDocument, eventId: string, channels: readonly string[]): ReviewDocument {
+  if (!Array.isArray(channels) || channels.length === 0) throw new RangeError('name at least one channel whose amplitude to remove');
+  for (const c of channels) checkChannelKey(c);
+  const set = new Set(channels);
+  return withEvent(doc, eventId, (ev) => withAmplitudeEdits(ev, [
+    ...(ev.amplitudeEdits ?? []).filter((e) => !set.has(e.channel)),
+    ...[...set].map((channel): AmplitudeEdit => ({ channel, kind: 'removed' })),
+  ]));
+}
+
+/** Drops the edits of `channels`: their automatic amplitudes count again. A channel without an edit is a RangeError. */
+export function restoreAmplitudes(doc: ReviewDocument, eventId: string, channels: readonly string[]): ReviewDocument {
+  if (!Array.isArray(channels) || channels.length === 0) throw new RangeError('name at least one channel whose amplitude to restore');
+  const set = new Set(channels);
+  return withEvent(doc, eventId, (ev) => {
+    for (const c of set) if (!amplitudeEditOf(ev, c)) throw new RangeError(`the amplitude of ${c} in event "${ev.id}" is not edited`);
+    return withAmplitudeEdits(ev, (ev.amplitudeEdits ?? []).filter((e) => !set.has(e.channel)));
+  });
 }
 
 /** "NET.STA" of a "NET.STA.LOC.CHA" key. */

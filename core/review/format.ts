@@ -1,10 +1,10 @@
 /**
  * The review file: Daybreak's own versioned JSON, one per dataset, rewritten whole (atomically, by
- * the host) after every edit. Layout, version 1:
+ * the host) after every edit. Layout, version 2:
  *
  *   {
  *     "format": "daybreak-review",
- *     "version": 1,
+ *     "version": 2,
  *     "caution": "<the preliminary-results caution>",
  *     "revision": 17,                       // increments with every change
  *     "nextSerial": 42,                     // behind new pick/event identifiers
@@ -22,18 +22,36 @@
  *         "mode": "automatic" | "manual",
  *         "status": "preliminary" | "confirmed" | "reviewed" | "final" | "rejected",
  *         "snr": 12.5 | null, "questionableTiming": false
- *       }]
+ *       }],
+ *       "amplitudeEdits": [                                         // optional (absent: none)
+ *         { "channel": "NET.STA.LOC.CHA", "kind": "moved",
+ *           "time": "...", "halfWidth": 0.08 },                     // ISO time; seconds, 0.001 to 2
+ *         { "channel": "NET.STA.LOC.CHA", "kind": "removed" }
+ *       ]
  *     }]
  *   }
  *
- * A reader of a newer version refuses it rather than dropping what it does not know.
+ * `amplitudeEdits` (version 2) holds the analyst's changes to the event's amplitude picks, the
+ * Wood-Anderson peaks its local magnitude is computed from, at most one per channel (a horizontal):
+ * - `moved`: the analyst dragged the channel's amplitude mark; its peak is measured again within
+ *   `halfWidth` seconds either side of `time` (where the mark was dropped) and exported as a manual
+ *   amplitude;
+ * - `removed`: the channel's amplitude is left out of the magnitude (and out of the exports).
+ * A channel without an edit keeps the automatic measurement. The amplitudes themselves are not
+ * stored: they are measured again from the waveforms and the StationXML whenever they are needed.
+ *
+ * Versions: 1 (no amplitude edits) is still read, as a version 2 file without `amplitudeEdits`;
+ * this version always writes 2. A reader of a newer version refuses it rather than dropping what it
+ * does not know.
  */
 import { CAUTION } from '../caution';
 import { isoFromMicros, microsFromIso } from '../time';
-import { EVENT_TYPES, REVIEW_STATES, type ReviewDocument, type ReviewEvent, type ReviewPick } from './types';
+import { AMPLITUDE_HALF_WIDTH_MAX, AMPLITUDE_HALF_WIDTH_MIN } from './edits';
+import { EVENT_TYPES, REVIEW_STATES, type AmplitudeEdit, type ReviewDocument, type ReviewEvent, type ReviewPick } from './types';
 
 export const REVIEW_FORMAT = 'daybreak-review';
-export const REVIEW_VERSION = 1;
+/** The version written; every version from 1 up to it is read. */
+export const REVIEW_VERSION = 2;
 
 export class ReviewFileError extends Error {
   constructor(readonly file: string, readonly where: string, readonly reason: string) {
@@ -56,6 +74,11 @@ export function serializeReview(doc: ReviewDocument): string {
         id: p.id, phase: p.phase, channel: p.channel, time: isoFromMicros(p.time), lower: p.lower, upper: p.upper,
         onset: p.onset, polarity: p.polarity, mode: p.mode, status: p.status, snr: p.snr, questionableTiming: p.questionableTiming,
       })),
+      ...(e.amplitudeEdits?.length ? {
+        amplitudeEdits: e.amplitudeEdits.map((a) => (a.kind === 'moved'
+          ? { channel: a.channel, kind: a.kind, time: isoFromMicros(a.time), halfWidth: a.halfWidth }
+          : { channel: a.channel, kind: a.kind })),
+      } : {}),
     })),
   }, null, 1);
 }
@@ -76,7 +99,8 @@ export function parseReview(text: string, file: string): ReviewDocument {
     typeof v === 'object' && v !== null && !Array.isArray(v) ? (v as Record<string, unknown>) : fail(where, 'expected an object');
   const top = obj(raw, '$');
   if (top.format !== REVIEW_FORMAT) fail('$.format', `expected "${REVIEW_FORMAT}", got ${JSON.stringify(top.format)}`);
-  if (top.version !== REVIEW_VERSION) {
+  const version = top.version;
+  if (!(Number.isInteger(version) && (version as number) >= 1 && (version as number) <= REVIEW_VERSION)) {
     fail('$.version', typeof top.version === 'number' && top.version > REVIEW_VERSION
       ? `version ${top.version} was written by a newer Daybreak; this one reads version ${REVIEW_VERSION}`
       : `unknown version ${JSON.stringify(top.version)}`);
@@ -89,6 +113,7 @@ export function parseReview(text: string, file: string): ReviewDocument {
     try { return microsFromIso(str(v, where)); } catch (e) { return fail(where, e instanceof Error ? e.message : String(e)); }
   };
   const secs = (v: unknown, where: string): number => (typeof v === 'number' && v >= 0 && v <= 60 ? v : fail(where, 'expected seconds from 0 to 60'));
+  const channelKey = (v: unknown, where: string): string => (/^[^.]*\.[^.]+\.[^.]*\.[^.]+$/.test(str(v, where)) ? (v as string) : fail(where, 'expected NET.STA.LOC.CHA'));
   if (!Array.isArray(top.events)) fail('$.events', 'expected a list');
   const events: ReviewEvent[] = (top.events as unknown[]).map((ev, i) => {
     const w = `$.events[${i}]`;
@@ -100,7 +125,7 @@ export function parseReview(text: string, file: string): ReviewDocument {
       return {
         id: str(p.id, `${pw}.id`),
         phase: oneOf<'P' | 'S'>(p.phase, ['P', 'S'], `${pw}.phase`)!,
-        channel: /^[^.]*\.[^.]+\.[^.]*\.[^.]+$/.test(str(p.channel, `${pw}.channel`)) ? (p.channel as string) : fail(`${pw}.channel`, 'expected NET.STA.LOC.CHA'),
+        channel: channelKey(p.channel, `${pw}.channel`),
         time: time(p.time, `${pw}.time`),
         lower: secs(p.lower, `${pw}.lower`),
         upper: secs(p.upper, `${pw}.upper`),
@@ -112,6 +137,26 @@ export function parseReview(text: string, file: string): ReviewDocument {
         questionableTiming: typeof p.questionableTiming === 'boolean' ? p.questionableTiming : fail(`${pw}.questionableTiming`, 'expected true or false'),
       };
     });
+    let amplitudeEdits: AmplitudeEdit[] | undefined;
+    if (e.amplitudeEdits !== undefined) {
+      if (version === 1) fail(`${w}.amplitudeEdits`, 'not part of version 1 files');
+      if (!Array.isArray(e.amplitudeEdits)) fail(`${w}.amplitudeEdits`, 'expected a list');
+      const seen = new Set<string>();
+      amplitudeEdits = (e.amplitudeEdits as unknown[]).map((ae, j): AmplitudeEdit => {
+        const aw = `${w}.amplitudeEdits[${j}]`;
+        const a = obj(ae, aw);
+        const channel = channelKey(a.channel, `${aw}.channel`);
+        if (seen.has(channel)) fail(`${aw}.channel`, `${channel} is edited twice`);
+        seen.add(channel);
+        const kind = oneOf<AmplitudeEdit['kind']>(a.kind, ['moved', 'removed'], `${aw}.kind`)!;
+        if (kind === 'removed') return { channel, kind };
+        const hw = a.halfWidth;
+        if (!(typeof hw === 'number' && hw >= AMPLITUDE_HALF_WIDTH_MIN && hw <= AMPLITUDE_HALF_WIDTH_MAX)) {
+          fail(`${aw}.halfWidth`, `expected seconds from ${AMPLITUDE_HALF_WIDTH_MIN} to ${AMPLITUDE_HALF_WIDTH_MAX}`);
+        }
+        return { channel, kind, time: time(a.time, `${aw}.time`), halfWidth: hw as number };
+      });
+    }
     const start = time(e.start, `${w}.start`);
     const end = time(e.end, `${w}.end`);
     if (end <= start) fail(`${w}.end`, 'must be after start');
@@ -124,6 +169,7 @@ export function parseReview(text: string, file: string): ReviewDocument {
       typeCertainty: oneOf<NonNullable<ReviewEvent['typeCertainty']>>(e.typeCertainty, ['known', 'suspected'], `${w}.typeCertainty`, true),
       note: str(e.note, `${w}.note`),
       picks,
+      ...(amplitudeEdits?.length ? { amplitudeEdits } : {}),
     };
   });
   const ids = new Set<string>();

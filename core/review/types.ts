@@ -62,7 +62,23 @@ export interface ReviewEvent {
   readonly typeCertainty: EventTypeCertainty | null;
   readonly note: string;
   readonly picks: readonly ReviewPick[];
+  /**
+   * The analyst's changes to the event's amplitude picks (the Wood-Anderson peaks behind ML), at most
+   * one per channel; absent or empty when every amplitude is the automatic measurement.
+   */
+  readonly amplitudeEdits?: readonly AmplitudeEdit[];
 }
+
+/**
+ * One analyst change to a channel's amplitude pick:
+ * - `moved`: the peak is measured again in [time − halfWidth, time + halfWidth] (where the analyst
+ *   dropped the mark) instead of the automatic window; the amplitude becomes manual;
+ * - `removed`: the channel's amplitude is left out of the magnitude.
+ * Deleting the edit restores the automatic measurement.
+ */
+export type AmplitudeEdit =
+  | { readonly channel: string; readonly kind: 'moved'; readonly time: Micros; readonly halfWidth: number }
+  | { readonly channel: string; readonly kind: 'removed' };
 
 export interface ReviewDocument {
   /** Increments with every saved change; a reader can tell a newer file. */

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import {
   EMPTY_REVIEW, History, acceptAutomatic, addEvent, deletePick, mergeEvents, movePick, placePick, quakemlStatus,
   setEventType, setPickAttributes, setState, setUncertainty, splitEvent, type ReviewDocument, type ReviewPick,
+  moveAmplitude, removeAmplitudes, restoreAmplitudes, amplitudeEditOf,
 } from '../../../core/review';
 import { microsFromIso } from '../../../core/time';
 
@@ -99,5 +100,62 @@ describe('review edits', () => {
     expect(h.doc.revision).toBe(d1.revision + 4);
     h.apply(deletePick(h.doc, id, pickId));
     expect(h.canRedo).toBe(false);
+  });
+
+  it('moving an amplitude records where it was dropped and the search half-width, replacing an earlier edit of the channel', () => {
+    const { doc, id } = withOneEvent();
+    const d1 = moveAmplitude(doc, id, 'ZZ.A.00.HHN', T('12.000000'), 0.08);
+    const d2 = moveAmplitude(d1, id, 'ZZ.A.00.HHN', T('12.400000'), 0.05);
+    expect(d2.events[0].amplitudeEdits).toEqual([{ channel: 'ZZ.A.00.HHN', kind: 'moved', time: T('12.400000'), halfWidth: 0.05 }]);
+    expect(d2.events[0].state).toBe('started');
+    expect(d2.revision).toBe(doc.revision + 2);
+    expect(doc.events[0].amplitudeEdits).toBeUndefined(); // input untouched
+    expect(() => moveAmplitude(doc, id, 'ZZ.A.00.HHN', T('12.000000'), 0)).toThrow('amplitude half width must be 0.001 to 2 s, got 0');
+    expect(() => moveAmplitude(doc, id, 'HHN', T('12.000000'), 0.1)).toThrow('channel must be "NET.STA.LOC.CHA", got "HHN"');
+    expect(() => moveAmplitude(doc, id, 'ZZ.A.00.HHN', 1.5, 0.1)).toThrow('amplitude time must be integer microseconds, got 1.5');
+  });
+
+  it('removing a station\'s amplitudes replaces a move of the same channel; restoring drops the edits and names a channel without one', () => {
+    const { doc, id } = withOneEvent();
+    let d = moveAmplitude(doc, id, 'ZZ.A.00.HHN', T('12.000000'), 0.08);
+    d = moveAmplitude(d, id, 'ZZ.B.00.HHE', T('13.000000'), 0.08);
+    d = removeAmplitudes(d, id, ['ZZ.A.00.HHN', 'ZZ.A.00.HHE']);
+    expect(d.events[0].amplitudeEdits).toEqual([
+      { channel: 'ZZ.B.00.HHE', kind: 'moved', time: T('13.000000'), halfWidth: 0.08 },
+      { channel: 'ZZ.A.00.HHN', kind: 'removed' }, { channel: 'ZZ.A.00.HHE', kind: 'removed' },
+    ]);
+    expect(amplitudeEditOf(d.events[0], 'ZZ.A.00.HHE')).toEqual({ channel: 'ZZ.A.00.HHE', kind: 'removed' });
+    const r = restoreAmplitudes(d, id, ['ZZ.A.00.HHN', 'ZZ.A.00.HHE']);
+    expect(r.events[0].amplitudeEdits).toEqual([{ channel: 'ZZ.B.00.HHE', kind: 'moved', time: T('13.000000'), halfWidth: 0.08 }]);
+    // The last edit restored leaves no field behind: the event is as if never edited.
+    expect('amplitudeEdits' in restoreAmplitudes(r, id, ['ZZ.B.00.HHE']).events[0]).toBe(false);
+    expect(() => restoreAmplitudes(r, id, ['ZZ.A.00.HHN'])).toThrow(`the amplitude of ZZ.A.00.HHN in event "${id}" is not edited`);
+    expect(() => removeAmplitudes(r, id, [])).toThrow('name at least one channel whose amplitude to remove');
+  });
+
+  it('undo brings a removed amplitude back and redo removes it again', () => {
+    const { doc, id } = withOneEvent();
+    const h = new History(doc);
+    h.apply(removeAmplitudes(h.doc, id, ['ZZ.A.00.HHN']));
+    expect(h.doc.events[0].amplitudeEdits).toEqual([{ channel: 'ZZ.A.00.HHN', kind: 'removed' }]);
+    expect(h.undo()!.events[0].amplitudeEdits).toBeUndefined();
+    expect(h.redo()!.events[0].amplitudeEdits).toEqual([{ channel: 'ZZ.A.00.HHN', kind: 'removed' }]);
+  });
+
+  it('merging pools amplitude edits (the first event\'s win); splitting sends a moved amplitude to the part holding its time', () => {
+    let doc = addEvent(EMPTY_REVIEW, T('00.000000'), T('20.000000')).doc;
+    doc = addEvent(doc, T('15.000000'), T('40.000000')).doc;
+    const [a, b] = doc.events.map((e) => e.id);
+    doc = moveAmplitude(doc, a, 'ZZ.A.00.HHN', T('08.000000'), 0.1);
+    doc = removeAmplitudes(doc, a, ['ZZ.C.00.HHN']);
+    doc = moveAmplitude(doc, b, 'ZZ.A.00.HHN', T('33.000000'), 0.1);
+    doc = moveAmplitude(doc, b, 'ZZ.B.00.HHE', T('35.000000'), 0.1);
+    const merged = mergeEvents(doc, a, b);
+    expect(merged.events[0].amplitudeEdits!.map((e) => [e.channel, e.kind === 'moved' ? e.time : 'removed'])).toEqual([
+      ['ZZ.A.00.HHN', T('08.000000')], ['ZZ.C.00.HHN', 'removed'], ['ZZ.B.00.HHE', T('35.000000')],
+    ]);
+    const split = splitEvent(merged, a, T('20.000000')).doc;
+    expect(split.events[0].amplitudeEdits!.map((e) => e.channel)).toEqual(['ZZ.A.00.HHN', 'ZZ.C.00.HHN']);
+    expect(split.events[1].amplitudeEdits!.map((e) => e.channel)).toEqual(['ZZ.B.00.HHE']);
   });
 });

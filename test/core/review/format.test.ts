@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { EMPTY_REVIEW, addEvent, parseReview, placePick, serializeReview, setEventType, ReviewFileError } from '../../../core/review';
+import { EMPTY_REVIEW, addEvent, parseReview, placePick, serializeReview, setEventType, ReviewFileError, moveAmplitude, removeAmplitudes } from '../../../core/review';
 import { microsFromIso } from '../../../core/time';
 
 function sample() {
@@ -18,15 +18,15 @@ describe('review file', () => {
   it('carries the format name, version and the preliminary-results caution', () => {
     const raw = JSON.parse(serializeReview(sample()));
     expect(raw.format).toBe('daybreak-review');
-    expect(raw.version).toBe(1);
+    expect(raw.version).toBe(2);
     expect(raw.caution).toMatch(/preliminary/);
     expect(raw.events[0].picks[0].time).toBe('2026-12-02T00:00:03.123456Z');
   });
 
   it('refuses a file from a newer version instead of dropping what it does not know', () => {
     const raw = JSON.parse(serializeReview(sample()));
-    raw.version = 2;
-    expect(() => parseReview(JSON.stringify(raw), 'r.json')).toThrow(/version 2 was written by a newer Daybreak/);
+    raw.version = 3;
+    expect(() => parseReview(JSON.stringify(raw), 'r.json')).toThrow(/version 3 was written by a newer Daybreak; this one reads version 2/);
   });
 
   it('names the file and the JSON path of a bad value', () => {
@@ -40,5 +40,35 @@ describe('review file', () => {
       expect((e as Error).message).toBe('night.review.json: $.events[0].picks[0].onset: expected one of impulsive, emergent, questionable, got "sudden"');
     }
     expect(() => parseReview('{"format":', 'x.json')).toThrow(/x.json: whole file: not JSON/);
+  });
+
+  it('stores amplitude edits (moved: time to the microsecond and half-width; removed) and reads them back exactly', () => {
+    const doc0 = sample();
+    const id = doc0.events[0].id;
+    const doc = removeAmplitudes(moveAmplitude(doc0, id, 'ZZ.QRS..HH1', microsFromIso('2026-12-02T00:00:05.432109Z'), 0.075), id, ['ZZ.QRS..HH2']);
+    const text = serializeReview(doc);
+    expect(JSON.parse(text).events[0].amplitudeEdits).toEqual([
+      { channel: 'ZZ.QRS..HH1', kind: 'moved', time: '2026-12-02T00:00:05.432109Z', halfWidth: 0.075 },
+      { channel: 'ZZ.QRS..HH2', kind: 'removed' },
+    ]);
+    expect(parseReview(text, 'r.json')).toEqual(doc);
+    // An event without edits has no amplitudeEdits field in the file.
+    expect('amplitudeEdits' in JSON.parse(serializeReview(doc0)).events[0]).toBe(false);
+  });
+
+  it('still reads a version 1 file (written before amplitude edits), as the same document', () => {
+    const raw = JSON.parse(serializeReview(sample()));
+    raw.version = 1;
+    expect(parseReview(JSON.stringify(raw), 'old.json')).toEqual(sample());
+    raw.events[0].amplitudeEdits = [{ channel: 'ZZ.QRS..HH1', kind: 'removed' }];
+    expect(() => parseReview(JSON.stringify(raw), 'old.json')).toThrow('old.json: $.events[0].amplitudeEdits: not part of version 1 files');
+  });
+
+  it('names a bad amplitude edit: unknown kind, half-width out of range, a channel edited twice', () => {
+    const raw = JSON.parse(serializeReview(sample()));
+    const bad = (edits: unknown[]) => { raw.events[0].amplitudeEdits = edits; return () => parseReview(JSON.stringify(raw), 'r.json'); };
+    expect(bad([{ channel: 'ZZ.QRS..HH1', kind: 'nudged' }])).toThrow('r.json: $.events[0].amplitudeEdits[0].kind: expected one of moved, removed, got "nudged"');
+    expect(bad([{ channel: 'ZZ.QRS..HH1', kind: 'moved', time: '2026-12-02T00:00:05Z', halfWidth: 3 }])).toThrow('$.events[0].amplitudeEdits[0].halfWidth: expected seconds from 0.001 to 2');
+    expect(bad([{ channel: 'ZZ.QRS..HH1', kind: 'removed' }, { channel: 'ZZ.QRS..HH1', kind: 'removed' }])).toThrow('$.events[0].amplitudeEdits[1].channel: ZZ.QRS..HH1 is edited twice');
   });
 });
