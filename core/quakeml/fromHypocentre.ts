@@ -3,6 +3,12 @@
  * 68 % epicentral ellipse (originUncertainty, confidenceLevel 68; horizontalUncertainty its
  * semi-major axis), quality (used phases and stations, RMS as standardError, azimuthal gap) and one
  * arrival per located pick. Shared by `daybreak scan` and the review desk's export.
+ *
+ * Depth: a depth held fixed in the location (GeigerOptions.fixedDepthKm, e.g. set by the analyst)
+ * is written with depthType "operator assigned" and no depth uncertainty; a solved depth as "from
+ * location". The origin's comment says how the uncertainties were obtained: from the pick
+ * uncertainties alone, or widened by the a-posteriori variance factor (geiger.ts), with the factor,
+ * its degrees of freedom and the a-priori semi-major axis, and whether the depth was held.
  */
 import type { Hypocentre } from '../location/geiger';
 import type { EvaluationMode, EvaluationStatus } from '../pick/types';
@@ -49,5 +55,24 @@ export function originFromHypocentre(h: Hypocentre, labels: OriginLabels): QmlOr
     evaluationStatus: labels.evaluationStatus,
     methodId: 'geiger',
     earthModelId: labels.earthModelId,
+    comment: originComment(h),
   };
+}
+
+/** How the origin's uncertainties came about, in words (QuakeML origin comment). */
+export function originComment(h: Hypocentre): string {
+  const parts: string[] = [];
+  const vf = h.varianceFactor.toFixed(2);
+  if (h.errorsScaled) {
+    const aprioriM = (h.ellipse.semiMajorKm / h.errorScale) * 1000;
+    parts.push(`uncertainties widened by ${h.errorScale.toFixed(2)}, the square root of the a-posteriori variance factor ${vf} `
+      + `(chi-square of the weighted residuals over ${h.dof} degrees of freedom); the pick uncertainties alone give a `
+      + `${aprioriM.toFixed(0)} m semi-major axis`);
+  } else if (h.dof > 0) {
+    parts.push(`uncertainties from the pick uncertainties as stated (a-posteriori variance factor ${vf} over ${h.dof} degrees of freedom, not above 1)`);
+  } else {
+    parts.push('uncertainties from the pick uncertainties as stated (no degrees of freedom left to estimate a variance factor)');
+  }
+  if (h.depthFixed) parts.push(`depth held fixed at ${(h.depthKm * 1000).toFixed(0)} m, not solved for`);
+  return parts.join('; ');
 }

@@ -56,6 +56,8 @@ export interface QmlOrigin {
   evaluationStatus: EvaluationStatus;
   methodId?: string;
   earthModelId?: string;
+  /** Free text written as the origin's comment (e.g. how its uncertainties were obtained). */
+  comment?: string;
 }
 
 /** QuakeML Amplitude: a measured amplitude (e.g. the Wood-Anderson peak for a local magnitude). */

@@ -124,6 +124,7 @@ export function writeQuakeMl(doc: QmlDocument, opts: QuakeMlWriteOptions): strin
     }
     leaf(d + 1, 'evaluationMode', o.evaluationMode);
     leaf(d + 1, 'evaluationStatus', o.evaluationStatus);
+    commentXml(d + 1, o.comment); // after evaluationStatus, before creationInfo, as in the real event files
     creation(d + 1);
     o.arrivals.forEach((a, i) => {
       line(d + 1, `<arrival publicID="${xmlEscape(rid('arrival', `${o.id}-${i + 1}`))}">`);
