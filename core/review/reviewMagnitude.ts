@@ -3,7 +3,15 @@
  * of the located event's sites over their amplitude windows plus a margin for the response-removal
  * taper), and the magnitude from the raw pieces read (core/magnitude eventMagnitude), with the
  * event's P and S picks setting the windows where the analyst placed them and the analyst's
- * amplitude edits applied. Pieces flagged clipped give no magnitude.
+ * amplitude edits (the event's `amplitudeEdits`) applied. Pieces flagged clipped give no magnitude.
+ *
+ * A moved amplitude is measured again, not taken from where the mark was dropped: the channel's
+ * raw counts go through the same response removal and Wood-Anderson simulation as the automatic
+ * measurement, and the peak (the largest |deflection| for the zero-to-peak measure) is looked for
+ * only within ±halfWidth of the dropped time. The desk sets halfWidth from its zoom (a few pixels
+ * either side of the pointer), so the mark lands on the Wood-Anderson peak of the swing the analyst
+ * dropped it on, not on the largest swing of the whole window. The traces on screen are the
+ * band-passed counts, whose extrema sit within a fraction of a period of the Wood-Anderson ones.
  */
 import { parseChannelKey, stationKey } from '../model';
 import type { Micros } from '../time';
@@ -18,6 +26,30 @@ import {
 } from '../magnitude/eventMagnitude';
 import { reviewOrigin } from './export';
 import type { ReviewEvent } from './types';
+import type { QmlAmplitude } from '../quakeml/types';
+
+/** The review's magnitude: the event magnitude plus the automatic amplitudes the analyst removed (for drawing). */
+export interface ReviewMagnitude extends EventMagnitude {
+  /**
+   * The automatic measurement of each channel whose amplitude the analyst removed (evaluationStatus
+   * rejected); none of them counts in the magnitude, and none is exported.
+   */
+  readonly removed: QmlAmplitude[];
+}
+
+/**
+ * The event's amplitude edits as eventMagnitude takes them, by channel key: a moved amplitude's
+ * search window (time ± halfWidth), or null for a removed one.
+ */
+export function amplitudeEditWindows(ev: ReviewEvent): Map<string, TimeWindow | null> {
+  const out = new Map<string, TimeWindow | null>();
+  for (const e of ev.amplitudeEdits ?? []) {
+    if (e.kind === 'removed') { out.set(e.channel, null); continue; }
+    const h = Math.round(e.halfWidth * 1e6);
+    out.set(e.channel, { start: e.time - h, end: e.time + h });
+  }
+  return out;
+}
 
 /** A continuous run of raw counts of one channel, as the desk's window reader gives it. */
 export interface RawPiece {
@@ -86,6 +118,10 @@ export function magnitudeRead(
     hi = Math.max(hi, w.window.end);
   }
   if (channels.length === 0) return null;
+  // A moved amplitude's search window may lie outside the automatic window.
+  for (const w of amplitudeEditWindows(ev).values()) {
+    if (w) { lo = Math.min(lo, w.start); hi = Math.max(hi, w.end); }
+  }
   const margin = Math.round(0.1 * (hi - lo)) + 5e6;
   return { channels, from: lo - margin, to: hi + margin };
 }
@@ -93,12 +129,15 @@ export function magnitudeRead(
 /**
  * The event's magnitude from raw `pieces` (the longest piece per channel is used). `metaOf` gives a
  * channel's metadata by key; channels without metadata or a usable response are left out (listed in
- * `skipped`). `edits` are the analyst's amplitude edits (eventMagnitude amplitudeEdits).
+ * `skipped`). `edits` are amplitude edits as eventMagnitude takes them; by default the event's own
+ * (`amplitudeEditWindows(ev)`). When any edit applies, the network magnitude is manual (the
+ * analyst chose its data); amplitudes not edited stay as `opts` says (automatic by default).
  */
 export function reviewMagnitude(
   ev: ReviewEvent, loc: ReviewLocation, pieces: readonly RawPiece[], metaOf: (key: string) => ChannelMeta | undefined,
   sites: ReadonlyMap<string, SiteLocation>, edits?: ReadonlyMap<string, TimeWindow | null>, opts: Omit<EventMagnitudeOptions, 'amplitudeEdits' | 'idPrefix'> = {},
-): EventMagnitude | null {
+): ReviewMagnitude | null {
+  const amplitudeEdits = edits ?? amplitudeEditWindows(ev);
   const origin = reviewMagnitudeOrigin(ev, loc);
   if (!origin) return null;
   const longest = new Map<string, RawPiece>();
@@ -130,8 +169,19 @@ export function reviewMagnitude(
       p: pk.p ?? null, s: pk.s ?? null, sPickId: pk.sId ?? null,
     });
   }
-  const r = eventMagnitude(origin, stations, { ...opts, amplitudeEdits: edits, idPrefix: `${ev.id}.ml` });
-  return { ...r, skipped: [...skipped, ...r.skipped] };
+  const idPrefix = `${ev.id}.ml`;
+  const r = eventMagnitude(origin, stations, { ...opts, amplitudeEdits, idPrefix });
+  // The removed channels measured as if untouched, only to draw them (struck out) where they were.
+  const removedKeys = new Set([...amplitudeEdits].filter(([, w]) => w === null).map(([k]) => k));
+  let removed: QmlAmplitude[] = [];
+  if (removedKeys.size > 0) {
+    const only = stations
+      .map((st) => ({ ...st, traces: st.traces.filter((t) => removedKeys.has(`${stationKey(t.channel)}.${t.channel.location}.${t.channel.channel}`)) }))
+      .filter((st) => st.traces.length > 0);
+    removed = eventMagnitude(origin, only, { ...opts, idPrefix }).amplitudes.map((a) => ({ ...a, evaluationStatus: 'rejected' }));
+  }
+  const manual = r.magnitude && amplitudeEdits.size > 0 ? { ...r.magnitude, evaluationMode: 'manual' as const } : r.magnitude;
+  return { ...r, magnitude: manual, skipped: [...skipped, ...r.skipped], removed };
 }
 
 /** `qe` with the magnitude's amplitudes, station magnitudes and (when there is one) preferred magnitude. */
