@@ -56,6 +56,9 @@ export function rotateToNorthEast(h1: SampleArray, h2: SampleArray, az1: number,
  * north, the direction from the station towards the source). Radial is positive away from the
  * source (azimuth back-azimuth + 180°), transverse is radial turned 90° clockwise seen from above
  * (azimuth back-azimuth + 270°): R = −N·cos(baz) − E·sin(baz), T = N·sin(baz) − E·cos(baz).
+ * So (R, T, down) is right-handed and T is the direction of increasing azimuth about the source, as
+ * SH is taken positive in Aki & Richards, Quantitative Seismology, 2nd ed. 2002, chapter 4 (x north,
+ * y east, z down; from memory, page not checked). The test checks it with numpy projections.
  */
 export function rotateToRadialTransverse(north: SampleArray, east: SampleArray, backAzimuth: number): { radial: Float64Array; transverse: Float64Array } {
   checkPair(north, east, 'north and east');

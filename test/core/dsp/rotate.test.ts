@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { execFileSync } from 'node:child_process';
 import { rotateToNorthEast, rotateToRadialTransverse } from '../../../core/dsp/rotate';
 import { scipyReference } from '../../ref/scipy/dspReference';
 import { relDiff, testSignal } from './signals';
@@ -50,6 +51,39 @@ describe('rotate', () => {
     const along = rotateToRadialTransverse(Float64Array.of(Math.cos((210 * Math.PI) / 180)), Float64Array.of(Math.sin((210 * Math.PI) / 180)), 30);
     expect(along.radial[0]).toBeCloseTo(1, 14);
     expect(along.transverse[0]).toBeCloseTo(0, 14);
+  });
+
+  it('radial and transverse agree with numpy projections on the unit vectors towards azimuths baz + 180° and baz + 270°, with R x T pointing down', () => {
+    // Convention (Aki & Richards, Quantitative Seismology, 2nd ed. 2002, chapter 4: x north, y east,
+    // z down, SH positive along phi-hat, the direction of increasing azimuth; from memory, page not
+    // checked): radial is the horizontal direction of propagation, from the source towards the
+    // station (azimuth baz + 180°); transverse is radial turned 90° clockwise seen from above
+    // (azimuth baz + 270°), so (R, T, down) is right-handed. numpy 2.4 (python3) projects N/E onto
+    // those unit vectors and checks the handedness with numpy.cross.
+    const bazs = [0, 30, 90, 135.5, 200, 271, 359];
+    const py = execFileSync('python3', ['-c', [
+      'import json, sys, numpy as np',
+      'd = json.load(sys.stdin); ne = np.array([d["n"], d["e"]])',
+      'out = []',
+      'for baz in d["baz"]:',
+      '    u = lambda az: np.array([np.cos(np.radians(az)), np.sin(np.radians(az))])',
+      '    r, t = u(baz + 180), u(baz + 270)',
+      '    c = np.cross(np.array([r[0], r[1], 0.0]), np.array([t[0], t[1], 0.0]))',  // (N, E, down) is right-handed
+      '    out.append({"r": (r @ ne).tolist(), "t": (t @ ne).tolist(), "down": float(c[2])})',
+      'print(json.dumps(out))',
+    ].join('\n')], { input: JSON.stringify({ n: Array.from(north), e: Array.from(east), baz: bazs }) }).toString();
+    const ref = JSON.parse(py) as { r: number[]; t: number[]; down: number }[];
+    bazs.forEach((baz, k) => {
+      const { radial, transverse } = rotateToRadialTransverse(north, east, baz);
+      expect(relDiff(radial, ref[k].r), `baz ${baz}`).toBeLessThan(1e-13);
+      expect(relDiff(transverse, ref[k].t), `baz ${baz}`).toBeLessThan(1e-13);
+      expect(ref[k].down).toBeCloseTo(1, 14);
+    });
+    // from channels 1/2 at 20° and 110° through north/east: the same radial and transverse
+    const ne = rotateToNorthEast(h20, h110, 20, 110);
+    const a = rotateToRadialTransverse(ne.north, ne.east, 135.5);
+    expect(relDiff(a.radial, ref[3].r)).toBeLessThan(1e-12);
+    expect(relDiff(a.transverse, ref[3].t)).toBeLessThan(1e-12);
   });
 
   it('refuses nearly parallel axes, unequal lengths and non-finite angles', () => {
