@@ -2,7 +2,8 @@
  * Location of a reviewed event (core/review): the bridge between the analyst's picks and the
  * locator, and what the review desk draws from a solution.
  *
- * - `locateReviewEvent`: the event's P and S picks located by Geiger's method (geiger.ts). A pick's
+ * - `locateReviewEvent`: the event's P and S picks located by Geiger's method (geiger.ts), with the
+ *   depth held where the analyst fixed it (the event's `fixedDepthKm`, see reviewDepth.ts). A pick's
  *   1-sigma timing uncertainty is the half-width of its interval, (lower + upper) / 2, at least
  *   `minUncertaintyS` (as core/scan does for automatic origins, so both weigh picks alike); picks
  *   whose record flags questionable timing are down-weighted (sigma x QUESTIONABLE_FACTOR) or left
@@ -36,8 +37,11 @@ export interface SiteLocation {
 }
 
 export interface ReviewLocateOptions {
-  /** Hold the depth here, km below the datum ("operator assigned" depth). */
-  fixedDepthKm?: number;
+  /**
+   * Hold the depth here, km below the datum ("operator assigned" depth); null: solve for it even
+   * when the event holds a depth. Default: the event's own `fixedDepthKm` (set by the analyst).
+   */
+  fixedDepthKm?: number | null;
   /** Picks with questionable timing: 'downweight' (default, sigma x 3) or 'exclude'. */
   questionableTiming?: 'downweight' | 'exclude';
   /** Smallest 1-sigma timing uncertainty given to a pick, s (default 0.001). */
@@ -148,7 +152,7 @@ export function locateReviewEvent(
     ids.push(p);
   }
   const geiger: GeigerOptions = {
-    model, fixedDepthKm: options.fixedDepthKm, questionableTiming: options.questionableTiming,
+    model, fixedDepthKm: options.fixedDepthKm === undefined ? event.fixedDepthKm : options.fixedDepthKm ?? undefined, questionableTiming: options.questionableTiming,
     maxIterations: options.maxIterations, minDepthKm: options.minDepthKm, maxDepthKm: options.maxDepthKm,
   };
   const r = locate(locStations, picks, geiger);

@@ -19,3 +19,4 @@ export {
   type OriginPoint, type PredictedArrival, type ReviewArrival, type ReviewLocateFailure, type ReviewLocateOptions,
   type ReviewLocateResult, type ReviewLocation, type SiteLocation, type SkippedPick, type SpCircle,
 } from './fromReview';
+export { FIXED_DEPTH_MAX_KM, FIXED_DEPTH_MIN_KM, parseDepthInput, setFixedDepth, type DepthInput } from './reviewDepth';

@@ -27,7 +27,8 @@
  *         { "channel": "NET.STA.LOC.CHA", "kind": "moved",
  *           "time": "...", "halfWidth": 0.08 },                     // ISO time; seconds, 0.001 to 2
  *         { "channel": "NET.STA.LOC.CHA", "kind": "removed" }
- *       ]
+ *       ],
+ *       "fixedDepthKm": 5.0                                         // optional (absent: depth solved for)
  *     }]
  *   }
  *
@@ -40,6 +41,9 @@
  * A channel without an edit keeps the automatic measurement. The amplitudes themselves are not
  * stored: they are measured again from the waveforms and the StationXML whenever they are needed.
  *
+ * `fixedDepthKm` (version 2): the depth, km below the velocity model's datum (negative above it),
+ * at which the analyst holds the event's location (QuakeML depthType "operator assigned").
+ *
  * Versions: 1 (no amplitude edits) is still read, as a version 2 file without `amplitudeEdits`;
  * this version always writes 2. A reader of a newer version refuses it rather than dropping what it
  * does not know.
@@ -47,6 +51,7 @@
 import { CAUTION } from '../caution';
 import { isoFromMicros, microsFromIso } from '../time';
 import { AMPLITUDE_HALF_WIDTH_MAX, AMPLITUDE_HALF_WIDTH_MIN } from './edits';
+import { FIXED_DEPTH_MAX_KM, FIXED_DEPTH_MIN_KM } from '../location/reviewDepth';
 import { EVENT_TYPES, REVIEW_STATES, type AmplitudeEdit, type ReviewDocument, type ReviewEvent, type ReviewPick } from './types';
 
 export const REVIEW_FORMAT = 'daybreak-review';
@@ -79,6 +84,7 @@ export function serializeReview(doc: ReviewDocument): string {
           ? { channel: a.channel, kind: a.kind, time: isoFromMicros(a.time), halfWidth: a.halfWidth }
           : { channel: a.channel, kind: a.kind })),
       } : {}),
+      ...(e.fixedDepthKm !== undefined ? { fixedDepthKm: e.fixedDepthKm } : {}),
     })),
   }, null, 1);
 }
@@ -113,6 +119,7 @@ export function parseReview(text: string, file: string): ReviewDocument {
     try { return microsFromIso(str(v, where)); } catch (e) { return fail(where, e instanceof Error ? e.message : String(e)); }
   };
   const secs = (v: unknown, where: string): number => (typeof v === 'number' && v >= 0 && v <= 60 ? v : fail(where, 'expected seconds from 0 to 60'));
+  const depthKm = (v: unknown, where: string): number => (typeof v === 'number' && v >= FIXED_DEPTH_MIN_KM && v <= FIXED_DEPTH_MAX_KM ? v : fail(where, `expected km from ${FIXED_DEPTH_MIN_KM} to ${FIXED_DEPTH_MAX_KM}`));
   const channelKey = (v: unknown, where: string): string => (/^[^.]*\.[^.]+\.[^.]*\.[^.]+$/.test(str(v, where)) ? (v as string) : fail(where, 'expected NET.STA.LOC.CHA'));
   if (!Array.isArray(top.events)) fail('$.events', 'expected a list');
   const events: ReviewEvent[] = (top.events as unknown[]).map((ev, i) => {
@@ -170,6 +177,7 @@ export function parseReview(text: string, file: string): ReviewDocument {
       note: str(e.note, `${w}.note`),
       picks,
       ...(amplitudeEdits?.length ? { amplitudeEdits } : {}),
+      ...(e.fixedDepthKm !== undefined ? { fixedDepthKm: depthKm(e.fixedDepthKm, `${w}.fixedDepthKm`) } : {}),
     };
   });
   const ids = new Set<string>();

@@ -67,6 +67,8 @@ export interface ReviewEvent {
    * one per channel; absent or empty when every amplitude is the automatic measurement.
    */
   readonly amplitudeEdits?: readonly AmplitudeEdit[];
+  /** Depth the analyst holds the event's location at, km below the model's datum; absent: solved for. */
+  readonly fixedDepthKm?: number;
 }
 
 /**

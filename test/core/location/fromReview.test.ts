@@ -53,6 +53,25 @@ function exactEvent(truth = TRUTH, model = DEFAULT_MODEL): ReviewEvent {
 }
 
 describe('locateReviewEvent', () => {
+  it('holds the depth the analyst fixed on the event (fixedDepthKm), and solves for it again when the option says null', () => {
+    const ev = { ...exactEvent(), fixedDepthKm: 8 };
+    const r = locateReviewEvent(ev, SITES, DEFAULT_MODEL);
+    if (!r.ok) throw new Error(r.message);
+    expect(r.value.hypocentre.depthFixed).toBe(true);
+    expect(r.value.hypocentre.depthKm).toBe(8);
+    expect(r.value.hypocentre.depthErrorKm).toBeNaN();
+    // at the true depth the epicentre is exact (Vincenty distances, textbook-checked travel times)
+    expect(vincentyKm(r.value.hypocentre.latDeg, r.value.hypocentre.lonDeg, TRUTH.lat, TRUTH.lon) * 1000).toBeLessThan(10);
+    const wrong = locateReviewEvent({ ...ev, fixedDepthKm: 2 }, SITES, DEFAULT_MODEL);
+    if (!wrong.ok) throw new Error(wrong.message);
+    expect(wrong.value.hypocentre.depthKm).toBe(2);
+    expect(wrong.value.hypocentre.rmsS).toBeGreaterThan(0.02);
+    const free = locateReviewEvent({ ...ev, fixedDepthKm: 2 }, SITES, DEFAULT_MODEL, { fixedDepthKm: null });
+    if (!free.ok) throw new Error(free.message);
+    expect(free.value.hypocentre.depthFixed).toBe(false);
+    expect(Math.abs(free.value.hypocentre.depthKm - TRUTH.depth) * 1000).toBeLessThan(10);
+  });
+
   it('exact synthetic pick times give the true hypocentre within 10 m and the origin time within 1 ms', () => {
     const ev = exactEvent();
     const r = locateReviewEvent(ev, SITES, DEFAULT_MODEL);
