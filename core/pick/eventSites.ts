@@ -22,7 +22,13 @@
  *    finds the onset, and the same steps 1-2 apply. A pick whose SNR is below `minSnr` is dropped.
  *
  * S at every site with horizontals then uses pickS with the S window bounded by the network's first
- * P (P travel time at site i in [tP_i - tP_first, tP_i - tP_first + firstTravelMax]), as the scan does.
+ * P: the origin time t0 lies in [tP_first - firstTravelMax, tP_first], so the P travel time at site i
+ * lies in [tP_i - tP_first, tP_i - tP_first + firstTravelMax]. That bound holds for events within
+ * about firstTravelMax seconds of P travel from the network. For events farther out (a regional event
+ * whose Sn comes 25 s after Pn), the caller may pass `earliestOrigin`: given the P picks, it returns the
+ * earliest t0 they allow (e.g. from a P-only location); when that is earlier than tP_first -
+ * firstTravelMax, the upper bound of the P travel time grows to tP_i - t0, so the S window extends
+ * with distance while a near event keeps its window.
  */
 import type { Micros } from '../time';
 import { pickP, pickS, type OnsetOptions, type SWindowOptions } from './onset';
@@ -58,6 +64,18 @@ export interface EventPickOptions {
   readonly retrigger: number;
   /** Picks below this SNR at sites without a trigger are dropped. */
   readonly minSnr: number;
+  /**
+   * Optional: the earliest origin time the event's P picks allow (µs), e.g. a P-only location less
+   * a margin for its uncertainty; null when none can be given. Only ever widens the S window (see
+   * the module comment).
+   */
+  readonly earliestOrigin?: (pPicks: readonly OriginPick[]) => Micros | null;
+}
+
+/** A P pick with the position of its site, as `earliestOrigin` gets it. */
+export interface OriginPick {
+  readonly pick: Pick;
+  readonly position: SitePosition;
 }
 
 /** Daybreak's defaults for local events (see the module comment). */
@@ -183,6 +201,12 @@ export function pickEventSites(sites: readonly EventSite[], options: Partial<Eve
   }
   const ps = states.filter((s) => s.p !== null);
   if (ps.length) first = Math.min(first, ...ps.map((s) => s.p!.time));
+  // Origin time in [earliest, first]: first - firstTravelMax, or earlier where the caller's estimate says so.
+  let earliest = first - Math.round(o.firstTravelMax * 1e6);
+  if (o.earliestOrigin && ps.length) {
+    const e = o.earliestOrigin(ps.map((s) => ({ pick: s.p!, position: s.site.position })));
+    if (e !== null && Number.isFinite(e)) earliest = Math.min(earliest, Math.round(e));
+  }
   const out: Pick[] = [];
   for (const s of states) {
     if (s.p) out.push(s.p);
@@ -191,7 +215,8 @@ export function pickEventSites(sites: readonly EventSite[], options: Partial<Eve
     let sp: Pick | null;
     if (s.p) {
       const tp = Math.max(0, (s.p.time - first) / 1e6);
-      sp = pickS(h[0], h[1], s.p.time, { ...o.sWindow, pTravelTime: { min: tp, max: tp + o.firstTravelMax } }, o.onset);
+      const tpMax = Math.max(tp + 1e-3, (s.p.time - earliest) / 1e6);
+      sp = pickS(h[0], h[1], s.p.time, { ...o.sWindow, pTravelTime: { min: tp, max: tpMax } }, o.onset);
     } else {
       // S only: the joint AIC of the horizontals within 1 s around the onset taken as S.
       sp = pickS(h[0], h[1], s.onset - 1_000_000, { ...o.sWindow, pTravelTime: { min: 0, max: 2 / ((o.sWindow.vpVsMax ?? 2) - 1) } }, o.onset);

@@ -19,4 +19,4 @@ export {
 } from './coincidence';
 export { chooseSiteStreams, type SiteStream } from './streams';
 export { LOCAL_EARTHQUAKE, LOCAL_EARTHQUAKE_BUSY, NEAR_FIELD_MICROSEISMIC, type PickingPreset } from './presets';
-export { type EventPickOptions, type EventSite, horizontalShare, LOCAL_EVENT_PICKING, pickEventSites } from './eventSites';
+export { type EventPickOptions, type EventSite, horizontalShare, type OriginPick, LOCAL_EVENT_PICKING, pickEventSites } from './eventSites';

@@ -1,13 +1,17 @@
 /**
- * Picks of one candidate event: the traces of each member site are cut from the data read around the
- * event, prepared (vertical polarity corrected, horizontals rotated to north and east from their
- * azimuths, causal filter started from its steady state), and picked with core/pick: P by AIC on the
- * vertical around the site's trigger, S by the joint AIC of the horizontals in the window a plausible
- * Vp/Vs allows after that P.
+ * Picks of one candidate event: the traces of each site are cut from the data read around the event,
+ * prepared (vertical polarity corrected, horizontals rotated to north and east from their azimuths,
+ * causal filter started from its steady state), and picked with core/pick's pickEventSites: P by AIC
+ * on the vertical around the site's trigger, a particle-motion check that the onset taken is not S
+ * (P then sought before it), a lower re-trigger at the network's sites that did not trigger, and S by
+ * the joint AIC of the horizontals in the window a plausible Vp/Vs allows after that P.
  *
- * The S window at site i (Daybreak's rule): the origin time is not known yet, but it precedes the
- * earliest P of the event, tP_first, by at most `firstTravelMax` seconds, so the P travel time at i lies
- * in [tP_i - tP_first, tP_i - tP_first + firstTravelMax]; core/pick's sWindow turns that into S times.
+ * The S window at site i: the origin time is not known yet, but it precedes the earliest P of the
+ * event, tP_first, by at most `firstTravelMax` seconds, so the P travel time at i lies in
+ * [tP_i - tP_first, tP_i - tP_first + firstTravelMax]. Events farther out than that (a regional event,
+ * Sn 25 s after Pn) get a longer window: the caller may pass the earliest origin time the P picks
+ * allow (eventOrigin.ts earliestOriginFromP: a P-only location), up to `maxPTravelTime` before
+ * tP_first, and the P travel time's upper bound grows to tP_i minus that time.
  *
  * Only the data given is used, and every trace starts where the data read for the event starts, so an
  * event's picks depend on the event and the files, never on how the night was cut into chunks.
@@ -17,7 +21,7 @@ import { channelKey } from '../model';
 import type { Micros } from '../time';
 import { filterSegments } from '../dsp/filterSegments';
 import { rotateToNorthEast } from '../dsp/rotate';
-import { pickP, pickS, type CandidateEvent, type Pick, type Trace } from '../pick';
+import { pickEventSites, type CandidateEvent, type EventSite, type OriginPick, type Pick, type SitePosition, type Trace } from '../pick';
 import type { ScanSettings } from './settings';
 
 /** What is known of one channel of a site's stream for picking. */
@@ -36,6 +40,8 @@ export interface PickSite {
   readonly polarity: 1 | -1;
   /** First and second horizontal (N/E or 1/2), or null for a vertical-only site. */
   readonly horizontals: readonly [PickChannel, PickChannel] | null;
+  /** Where the site is (for the re-trigger window and the phase check's anchors). */
+  readonly position: SitePosition;
 }
 
 function segmentAt(segments: readonly Segment[], t: Micros): Segment | null {
@@ -87,41 +93,50 @@ export function horizontalTraces(site: PickSite, sos: Float64Array, t: Micros): 
 }
 
 /**
- * P and S picks of an event. `sites` maps "NET.STA" to the site's data; `sosFor` gives the filter
- * sections for a sample rate (Hz). Picks come in the order of the event's triggers, P before S.
+ * P and S picks of an event. `sites` maps "NET.STA" to the site's data: the event's member sites and
+ * any other site of the network whose data covers the event (those are searched with the lower
+ * re-trigger level). `sosFor` gives the filter sections for a sample rate (Hz); `earliestOrigin`, when
+ * given, may widen the S window for distant events (see the module comment). Picks come per site, P
+ * before S, member sites in trigger order first, then the others in the map's order.
  */
 export function eventPicks(
   event: CandidateEvent, sites: ReadonlyMap<string, PickSite>, sosFor: (sampleRate: number) => Float64Array,
-  settings: ScanSettings,
+  settings: ScanSettings, earliestOrigin?: (pPicks: readonly OriginPick[]) => number | null,
 ): Pick[] {
-  const ps: { site: string; pick: Pick }[] = [];
-  for (const trig of event.triggers) {
-    const key = `${trig.id.network}.${trig.id.station}`;
+  const on = new Map<string, number>();
+  for (const t of event.triggers) {
+    const key = `${t.id.network}.${t.id.station}`;
+    if (!on.has(key)) on.set(key, t.on);
+  }
+  const keys = [...on.keys(), ...[...sites.keys()].filter((k) => !on.has(k))];
+  const list: EventSite[] = [];
+  for (const key of keys) {
     const site = sites.get(key);
     if (!site) continue;
-    const seg = segmentAt(site.vertical.segments, trig.on);
+    const trigger = on.get(key) ?? null;
+    const t = trigger ?? event.time;
+    const seg = segmentAt(site.vertical.segments, t);
     if (!seg) continue;
-    const z = verticalTrace(site, sosFor(seg.sampleRate), trig.on);
+    const z = verticalTrace(site, sosFor(seg.sampleRate), t);
     if (!z) continue;
-    const p = pickP(z, trig.on, settings.onset);
-    if (p) ps.push({ site: key, pick: p });
+    let h: [Trace, Trace] | null = null;
+    if (site.horizontals) {
+      const hs = segmentAt(site.horizontals[0].segments, t);
+      if (hs) h = horizontalTraces(site, sosFor(hs.sampleRate), t);
+    }
+    list.push({ vertical: z, horizontals: h, position: site.position, trigger });
   }
-  if (ps.length === 0) return [];
-  const first = Math.min(...ps.map((x) => x.pick.time));
-  const out: Pick[] = [];
-  for (const { site: key, pick: p } of ps) {
-    out.push(p);
-    const site = sites.get(key) as PickSite;
-    if (!site.horizontals) continue;
-    const seg = segmentAt(site.horizontals[0].segments, p.time);
-    if (!seg) continue;
-    const h = horizontalTraces(site, sosFor(seg.sampleRate), p.time);
-    if (!h) continue;
-    const tp = (p.time - first) / 1e6;
-    const s = pickS(h[0], h[1], p.time, { ...settings.sWindow, pTravelTime: { min: tp, max: tp + settings.firstTravelMax } }, settings.onset);
-    if (s) out.push(s);
-  }
-  return out;
+  if (!list.some((s) => s.trigger !== null)) return [];
+  return pickEventSites(list, {
+    ...settings.eventPicking,
+    onset: settings.onset,
+    sWindow: settings.sWindow,
+    staLta: settings.staLta,
+    firstTravelMax: settings.firstTravelMax,
+    vMin: settings.vMin,
+    slack: settings.slack,
+    earliestOrigin,
+  });
 }
 
 /** A pick's identifier within its event: "EVENT.NET.STA.LOC.CHA.P". */

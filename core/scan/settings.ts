@@ -6,8 +6,11 @@
  * - `local` (default): local earthquakes recorded at 40-200 Hz by a network some tens of km across.
  *   Band-pass 2-15 Hz, order 4 (a common trigger band for local events: above the microseism peak
  *   below 1 Hz and below most cultural noise; common practice, not from a cited source), the
- *   STA/LTA settings of core/pick (LOCAL_EARTHQUAKE_STA_LTA, IASPEI NMSOP-2 IS 8.1), 3 sites in
- *   coincidence.
+ *   STA/LTA settings of core/pick's LOCAL_EARTHQUAKE_BUSY preset (those of LOCAL_EARTHQUAKE_STA_LTA,
+ *   IASPEI NMSOP-2 IS 8.1, with a 20 s LTA so a coda does not hide the next event's P; see
+ *   core/pick/presets.ts), 3 sites in coincidence, and pickEventSites with its defaults
+ *   (LOCAL_EVENT_PICKING). S is sought up to a P travel time of `maxPTravelTime` = 60 s (about
+ *   400 km: regional events still get their Sn, 25 s after Pn at 250 km).
  * - `near`: near-source microseismic records at about 500 Hz cut into short windows (the P a couple
  *   of seconds after the record's start, travel times under 0.1 s, a network a few hundred metres
  *   across). Band-pass 5-150 Hz; STA 0.05 s, LTA 1 s (windows a tenth of the local ones, scaled
@@ -19,7 +22,7 @@
  *   test on those events is not independent of this choice).
  */
 import type { FilterRequest } from '../dsp/designForChannel';
-import type { OnsetOptions, StaLtaOptions, SWindowOptions } from '../pick';
+import { LOCAL_EARTHQUAKE_BUSY, type EventPickOptions, type OnsetOptions, type StaLtaOptions, type SWindowOptions } from '../pick';
 
 export interface ScanSettings {
   /** Causal filter before triggering and picking (designed per channel: corners clamped below Nyquist). */
@@ -37,6 +40,16 @@ export interface ScanSettings {
    * (Tp at site i lies in [tP_i - tP_first, tP_i - tP_first + firstTravelMax]).
    */
   readonly firstTravelMax: number;
+  /**
+   * Longest P travel time the S search allows anywhere, seconds: the scan reads data for S up to
+   * (Vp/Vs - 1) times this after the last P, and a P-only location may extend the S window up to it.
+   */
+  readonly maxPTravelTime: number;
+  /**
+   * pickEventSites options other than those set above (phase check, re-trigger level, SNR floor);
+   * unset ones take LOCAL_EVENT_PICKING's values.
+   */
+  readonly eventPicking: Partial<Pick<EventPickOptions, 'sShare' | 'shareSeconds' | 'maxSMinusP' | 'retrigger' | 'minSnr'>>;
   /** Length of the time chunks the night is processed in, seconds. */
   readonly chunkSeconds: number;
   /**
@@ -51,13 +64,15 @@ export const SCAN_PRESETS: readonly ScanPreset[] = ['local', 'near'];
 
 export const LOCAL_SCAN_SETTINGS: ScanSettings = Object.freeze<ScanSettings>({
   filter: { kind: 'bandpass' as const, order: 4, corners: [2, 15] as [number, number] },
-  staLta: {},
+  staLta: LOCAL_EARTHQUAKE_BUSY.staLta,
   minSites: 3,
   vMin: 3.0,
   slack: 1.0,
   onset: {},
   sWindow: {},
   firstTravelMax: 10,
+  maxPTravelTime: 60,
+  eventPicking: {},
   chunkSeconds: 600,
   filterPad: 20,
 });
@@ -71,6 +86,8 @@ export const NEAR_SCAN_SETTINGS: ScanSettings = Object.freeze<ScanSettings>({
   onset: { before: 0.25, after: 0.1, snrNoise: 0.5, snrSignal: 0.05, impulsiveWidth: 0.01, polarityWindow: 0.02 },
   sWindow: {},
   firstTravelMax: 0.5,
+  maxPTravelTime: 0.5,
+  eventPicking: { shareSeconds: 0.05, maxSMinusP: 0.5 },
   chunkSeconds: 600,
   filterPad: 1,
 });

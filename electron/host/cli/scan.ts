@@ -13,8 +13,10 @@
  *     joined by the collector); each channel's causal filter and STA/LTA carry their state from chunk
  *     to chunk, so the triggers are those of one pass over the whole night whatever the chunk length.
  *  3. Coincidence over all triggers (a few numbers each) gives the candidate events.
- *  4. Pick pass: per event, only the records around it are read again (from `filterPad` seconds
- *     before the earliest P window, so the filter has settled) and picked (core/scan eventPicks).
+ *  4. Pick pass: per event, only the records around it are read again, at every site (from
+ *     `filterPad` seconds before the earliest P window or re-trigger LTA, so the filter has settled;
+ *     to the end of the longest S window) and picked (core/scan eventPicks: core/pick's
+ *     pickEventSites, with a P-only location widening the S window for distant events).
  *  5. Magnitude: per located event, the horizontals around its amplitude windows are read (with a
  *     margin for the response-removal taper) and measured.
  *
@@ -30,7 +32,7 @@ import { isoFromMicros, type Micros } from '../../../core/time';
 import { isMiniSeed3, looksLikeRecordStart } from '../../../core/mseed';
 import { parseStationXml, findChannel, missingMetadata, type Inventory } from '../../../core/stationxml';
 import { designForChannel, verticalPolarity } from '../../../core/dsp';
-import { chooseSiteStreams, coincidence, type CandidateEvent, type Pick, type SitePosition, type StationTrigger } from '../../../core/pick';
+import { chooseSiteStreams, coincidence, type CandidateEvent, type OriginPick, type Pick, type SitePosition, type StationTrigger } from '../../../core/pick';
 import { writeQuakeMl, type QmlEvent, type QmlOrigin } from '../../../core/quakeml';
 import {
   channelResponse, eventMagnitude, magnitudeOrigin, stationWindows, type EventMagnitude, type HorizontalTrace, type MagnitudeStation,
@@ -39,7 +41,7 @@ import { CAUTION } from '../../../core/caution';
 import { presetSettings, SCAN_PRESETS, type ScanPreset, type ScanSettings } from '../../../core/scan/settings';
 import { TriggerStream } from '../../../core/scan/triggerStream';
 import { eventPicks, pickId, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
-import { eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';
+import { earliestOriginFromP, eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';
 import { DEFAULT_MODEL, parseVelocityModel, type VelocityModel } from '../../../core/location';
 import { listFiles } from '../mseedFiles';
 import { indexFile, readWindow, type IndexedFile } from '../scan/recordFiles';
@@ -53,7 +55,7 @@ const USAGE = `usage: daybreak scan --stations STATIONXML --out OUT.xml [options
   --preset NAME        settings: local (default; local earthquakes, 40-200 Hz) or near (near-source
                        microseismic at about 500 Hz in short event cuts)
   --band LO,HI         trigger and pick band-pass, Hz (preset: 2,15 or 5,150)
-  --sta S --lta S      STA/LTA windows, seconds (preset: 0.5/60 or 0.05/1)
+  --sta S --lta S      STA/LTA windows, seconds (preset: 0.5/20 or 0.05/1)
   --on R --off R       trigger-on and trigger-off ratios (4 and 2)
   --min-sites N        sites that must trigger together (3)
   --vmin V             slowest P velocity the coincidence allows, km/s (3)
@@ -399,22 +401,27 @@ export async function scan(args: string[]): Promise<number> {
   const events: CandidateEvent[] = triggers.length ? coincidence(triggers, positions, { minSites: s.minSites, vMin: s.vMin, slack: s.slack, network }) : [];
   summary.candidates = events.length;
 
-  // Pass 2: picks per event.
+  // Pass 2: picks per event, at every site whose data covers it (sites that did not trigger are
+  // searched with pickEventSites' lower re-trigger level).
   const onsetBefore = s.onset.before ?? 1.0;
   const snrNoise = s.onset.snrNoise ?? 5;
   const vpVsMax = s.sWindow.vpVsMax ?? 2.0;
+  const lta = s.staLta.lta ?? 60;
+  const coords = new Map([...sites.values()].map((x) => [x.key, x.coordinates]));
+  const earliestOrigin = (pp: readonly OriginPick[]) => earliestOriginFromP(pp, coords, a.model, s.maxPTravelTime);
   const qmlEvents: QmlEvent[] = [];
   for (let k = 0; k < events.length; k++) {
     const ev = events[k];
     bar?.update(0.8 + 0.2 * (k / events.length), `picking ${ev.id}`);
     const ons = ev.triggers.map((t) => t.on);
     const firstOn = Math.min(...ons), lastOn = Math.max(...ons);
-    const from = firstOn - Math.round((s.filterPad + onsetBefore + snrNoise) * 1e6);
-    const to = lastOn + Math.round(((vpVsMax - 1) * ((lastOn - firstOn) / 1e6 + s.firstTravelMax) * 1.5 + 2 + (s.onset.snrSignal ?? 1)) * 1e6);
+    // Ahead: the filter's settling, the LTA of the re-trigger (from the first trigger less the
+    // slack), and the AIC and SNR windows of P. After: S up to the longest P travel time allowed.
+    const ahead = s.filterPad + Math.max(onsetBefore + snrNoise, lta + s.slack);
+    const from = firstOn - Math.round(ahead * 1e6);
+    const to = lastOn + Math.round(((vpVsMax - 1) * ((lastOn - firstOn) / 1e6 + Math.max(s.firstTravelMax, s.maxPTravelTime)) * 1.2 + 2 + (s.onset.snrSignal ?? 1)) * 1e6);
     const want = new Set<string>();
-    for (const site of ev.sites) {
-      const x = sites.get(site);
-      if (!x) continue;
+    for (const x of sites.values()) {
       want.add(channelKey(x.vertical));
       if (x.horizontals) for (const h of x.horizontals) want.add(channelKey(h));
     }
@@ -428,23 +435,21 @@ export async function scan(args: string[]): Promise<number> {
       const segments = (c?.segments ?? []).filter((g) => g.end >= from && g.start < to);
       return { id, segments, azimuth: meta?.azimuth ?? null };
     };
-    for (const site of ev.sites) {
-      const x = sites.get(site);
-      if (!x) continue;
+    for (const x of sites.values()) {
+      if (!byKey.has(channelKey(x.vertical))) continue;
       const meta = findChannel(inv, x.vertical, ev.time);
       let polarity: 1 | -1 = 1;
       if (meta && meta.dip !== null && Math.abs(meta.dip) >= 60) {
         polarity = verticalPolarity(meta.dip, meta.sensitivity?.value || 1);
       }
-      pickSites.set(site, {
-        vertical: chan(x.vertical), polarity,
+      pickSites.set(x.key, {
+        vertical: chan(x.vertical), polarity, position: x.position,
         horizontals: x.horizontals ? [chan(x.horizontals[0]), chan(x.horizontals[1])] : null,
       });
     }
-    const picks = eventPicks(ev, pickSites, sosFor, s);
+    const picks = eventPicks(ev, pickSites, sosFor, s, earliestOrigin);
     for (const p of picks) summary.picks[p.phaseHint]++;
     const qe = toQmlEvent(ev, picks);
-    const coords = new Map([...sites.values()].map((x) => [x.key, x.coordinates]));
     const o = eventOrigin(ev.id, picks, qe.picks.map((p) => p.id), coords, a.model, a.modelId);
     if (o.ok) {
       qe.origins.push(o.origin);

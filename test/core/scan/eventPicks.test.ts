@@ -56,6 +56,7 @@ function site(polarityFactor: 1 | -1, withHorizontals: boolean, questionable = 0
   return {
     vertical: { id: cid('HHZ'), segments: [segment(cid('HHZ'), zRec, questionable)], azimuth: 0 },
     polarity: polarityFactor,
+    position: { x: 0, y: 0 },
     horizontals: withHorizontals ? [
       { id: cid('HH1'), segments: [segment(cid('HH1'), h1)], azimuth: 20 },
       { id: cid('HH2'), segments: [segment(cid('HH2'), h2)], azimuth: 110 },
