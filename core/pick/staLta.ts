@@ -130,31 +130,25 @@ export function windowSamples(seconds: number, sampleRate: number): number {
 
 const BLOCK = 65536;
 
-/**
- * As {@link steadyMedian}, computing CF = x^2 on the fly from a Float64Array (the common case: filtered
- * data), which saves the separate CF pass. Only ever called with Float64Array, so V8 keeps it monomorphic.
+/*
+ * The steady-state loops below take the median of three without Math.min/Math.max, which V8 compiles
+ * to compare-and-branch sequences whose direction follows the data: on noise about every other one
+ * is mispredicted, and those mispredictions, not the arithmetic, set the speed of the loop (measured
+ * by test/bench/stalta.bench.ts: about half the time went away). Here the median of a, b (the two
+ * previous CF values) and c is clamp(c, lo, hi) with lo = min(a, b) and hi = max(a, b); the
+ * comparisons become 0/1 numbers (no branch) that index a 4-slot scratch holding c, lo, hi and b, so
+ * every sample does the same work whatever the data. The values are picked, never computed, so the
+ * result is bit for bit that of Math.max(Math.min(a, b), Math.min(Math.max(a, b), c)) for every
+ * input the loops see: CF values are never -0 (x*x, |x| and x*x + w*d*d are +0 at least), a NaN c
+ * gives NaN as Math does (both comparisons are false, so c itself is picked), and a NaN a or b
+ * cannot occur here because a NaN CF value has already made the averages NaN and sends later blocks
+ * to the general loop (its entry test `lta * ... > 1e-290` is false for NaN).
  */
-function steadyMedianEnergy(
-  x: Float64Array, from: number, to: number, out: Float64Array, o: number,
-  sta: number, lta: number, a: number, b: number, cs: number, cl: number, st: Float64Array,
-): void {
-  for (let i = from; i < to; i++) {
-    const v = x[i];
-    const c = v * v;
-    const m = Math.max(Math.min(a, b), Math.min(Math.max(a, b), c));
-    a = b;
-    b = c;
-    sta += (m - sta) * cs;
-    lta += (m - lta) * cl;
-    out[o + i] = sta / lta;
-  }
-  st[0] = sta;
-  st[1] = lta;
-  st[2] = a;
-  st[3] = b;
-}
 
-/** As {@link steadyMedianEnergy} without the median of three. */
+/**
+ * The recursion's steady state without the median of three, CF = x^2 computed on the fly from a
+ * Float64Array (the common case: filtered data), which saves the separate CF pass.
+ */
 function steadyEnergy(
   x: Float64Array, from: number, to: number, out: Float64Array, o: number,
   sta: number, lta: number, cs: number, cl: number, st: Float64Array,
@@ -171,17 +165,30 @@ function steadyEnergy(
 }
 
 /**
- * The recursion's steady state with the median of three, over cf[from..to) into out[o + i]; the
- * state comes in as arguments and goes out through `st` (sta, lta, cf two back, cf one back). A small
- * free function: V8 optimises it best that way (measured by test/bench/stalta.bench.ts).
+ * The recursion's steady state with the median of three (taken as described above), over
+ * src[from..to) into out[o + i]: the CF values themselves, or with `square` the samples, whose CF
+ * x^2 is computed on the fly (the common case: filtered float64 data, without a separate CF pass).
+ * The state comes in as arguments and goes out through `st` (sta, lta, CF two back, CF one back).
+ * A small free function: V8 optimises it best that way (measured by test/bench/stalta.bench.ts).
  */
 function steadyMedian(
-  cf: Float64Array, from: number, to: number, out: Float64Array, o: number,
-  sta: number, lta: number, a: number, b: number, cs: number, cl: number, st: Float64Array,
+  src: Float64Array, square: boolean, from: number, to: number, out: Float64Array, o: number,
+  sta: number, lta: number, a: number, b: number, cs: number, cl: number, st: Float64Array, pick: Float64Array,
 ): void {
+  let lo = Math.min(a, b);
+  let hi = Math.max(a, b);
   for (let i = from; i < to; i++) {
-    const c = cf[i];
-    const m = Math.max(Math.min(a, b), Math.min(Math.max(a, b), c));
+    const v = src[i];
+    const c = square ? v * v : v;
+    pick[0] = c;
+    pick[1] = lo;
+    pick[2] = hi;
+    pick[3] = b;
+    const m = pick[+(c < lo) + 2 * +(c > hi)];
+    // The next lo and hi, of b and c: pick[0] and pick[3] in the order of c < b.
+    const q = +(c < b);
+    lo = pick[3 - 3 * q];
+    hi = pick[3 * q];
     a = b;
     b = c;
     sta += (m - sta) * cs;
@@ -208,6 +215,8 @@ export class StaLtaRatio {
   private readonly weight: number;
   private readonly cf = new Float64Array(BLOCK);
   private readonly state = new Float64Array(4);
+  /** Scratch of the branch-free median of three (see steadyMedian). */
+  private readonly pick = new Float64Array(4);
   /** Recursive form with CF x^2: the settings with a fused loop. */
   private readonly fastPath: boolean;
   // State carried across chunks.
@@ -263,7 +272,7 @@ export class StaLtaRatio {
         // Steady state of the default setting on float64 data: one fused pass (same arithmetic).
         const st = this.state;
         if (this.options.despike) {
-          steadyMedianEnergy(x, b, e, out, outFrom - from, this.sta, this.lta, this.cf2, this.cf1, 1 / this.ns, 1 / this.nl, st);
+          steadyMedian(x, true, b, e, out, outFrom - from, this.sta, this.lta, this.cf2, this.cf1, 1 / this.ns, 1 / this.nl, st, this.pick);
           this.cf2 = st[2];
           this.cf1 = st[3];
         } else {
@@ -340,7 +349,7 @@ export class StaLtaRatio {
     const safe = lta * Math.pow(1 - cl, n - i) > 1e-290;
     if (safe && despike) {
       const st = this.state;
-      steadyMedian(cf, i, n, out, o, sta, lta, a, b, cs, cl, st);
+      steadyMedian(cf, false, i, n, out, o, sta, lta, a, b, cs, cl, st, this.pick);
       sta = st[0];
       lta = st[1];
       a = st[2];

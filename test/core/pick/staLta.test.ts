@@ -18,7 +18,8 @@ outputs = []
 for c in range(len(inputs) // 2):
     x, (fs, ns, nl, cfk, desp, fref, seed) = inputs[2 * c], inputs[2 * c + 1]
     ns, nl, cfk, desp, seed = int(ns), int(nl), int(cfk), int(desp), int(seed)
-    if cfk == 0: cf = x * x
+    if cfk == 0:
+        with np.errstate(over='ignore'): cf = x * x
     elif cfk == 1: cf = np.abs(x)
     else:
         d = np.diff(x, prepend=x[0]); cf = x * x + (fs / (2 * np.pi * fref)) ** 2 * d * d
@@ -154,6 +155,23 @@ describe('STA/LTA ratio', () => {
     cases.push({
       name: `recursive ratio over 140,000 samples (fused loops after the first block)${despike ? ' with median of three' : ''}`,
       form: 'recursive', x: long, fs: 100, o: { ...LOCAL_EARTHQUAKE_STA_LTA, despike, sta: 0.5, lta: 10 },
+    });
+  }
+  // Values that test how the loops take the median of three: runs of exact zeros and of equal CF
+  // values (ties), and one sample whose square overflows to Infinity (a spike like any other: the
+  // median of three never picks it). Before and after the first block boundary (65,536 samples).
+  const edges = noise('hourBand').slice(140_000, 280_000);
+  addWavelet(edges, 12_000, 100, 8);
+  for (const start of [30_000, 90_000]) {
+    edges.fill(0, start, start + 700);
+    for (let i = start + 700; i < start + 1400; i++) edges[i] = i % 2 ? 0.5 : -0.5;
+    for (let i = start + 1400; i < start + 1500; i++) edges[i] = edges[i - 3];
+    edges[start + 2000] = 1e160;
+  }
+  for (const characteristic of ['energy', 'absolute'] as const) {
+    cases.push({
+      name: `recursive ratio with CF ${characteristic} and median of three over zero runs, ties and a sample whose square overflows`,
+      form: 'recursive', x: edges, fs: 100, o: { ...LOCAL_EARTHQUAKE_STA_LTA, characteristic, sta: 0.5, lta: 10 },
     });
   }
   const refs = references(cases);
