@@ -58,15 +58,75 @@ export function eventOrigin(
   return origin ? { ok: true, origin } : { ok: false, message: 'the solution has a coordinate that is not a number' };
 }
 
+/** A least-squares plane wave through arrival times: t = t0 + sx x + sy y. */
+export interface PlaneWaveFit {
+  /** Time at the local origin, s (relative to the times given). */
+  readonly t0: number;
+  /** Slowness east and north, s/km. */
+  readonly sx: number;
+  readonly sy: number;
+  /** Apparent velocity 1 / |s|, km/s (Infinity for a wave arriving everywhere at once). */
+  readonly velocity: number;
+  /** RMS residual, s. */
+  readonly rmsS: number;
+}
+
+/**
+ * Fits a plane wave to arrival times `t` (s) at flat positions `x` east, `y` north (km): ordinary least
+ * squares for t0, sx, sy by the normal equations (3 x 3, Cramer's rule). Null with fewer than three
+ * points or when the points lie on a line (no unique slowness).
+ */
+export function planeWaveFit(x: ArrayLike<number>, y: ArrayLike<number>, t: ArrayLike<number>): PlaneWaveFit | null {
+  const n = t.length;
+  if (x.length !== n || y.length !== n) throw new RangeError(`x, y and t must have the same length, got ${x.length}, ${y.length}, ${n}`);
+  if (n < 3) return null;
+  // Centred coordinates keep the normal equations well conditioned.
+  let mx = 0, my = 0, mt = 0;
+  for (let i = 0; i < n; i++) { mx += x[i]; my += y[i]; mt += t[i]; }
+  mx /= n; my /= n; mt /= n;
+  let sxx = 0, sxy = 0, syy = 0, sxt = 0, syt = 0;
+  for (let i = 0; i < n; i++) {
+    const dx = x[i] - mx, dy = y[i] - my, dt = t[i] - mt;
+    sxx += dx * dx; sxy += dx * dy; syy += dy * dy; sxt += dx * dt; syt += dy * dt;
+  }
+  const det = sxx * syy - sxy * sxy;
+  if (!(Math.abs(det) > 1e-9 * Math.max(1e-300, sxx * syy))) return null;
+  const sx = (sxt * syy - syt * sxy) / det;
+  const sy = (syt * sxx - sxt * sxy) / det;
+  const t0 = mt - sx * mx - sy * my;
+  let ss = 0;
+  for (let i = 0; i < n; i++) {
+    const r = t[i] - (t0 + sx * x[i] + sy * y[i]);
+    ss += r * r;
+  }
+  const slow = Math.hypot(sx, sy);
+  return { t0, sx, sy, velocity: slow > 0 ? 1 / slow : Infinity, rmsS: Math.sqrt(ss / n) };
+}
+
+/**
+ * Apparent velocities (km/s) of a P plane wave that say "a source beyond the network": 5 km/s (crustal
+ * P, Pg, near 6 km/s, arriving almost horizontally) to 10 km/s (Pn near 8 km/s; faster means steeper
+ * incidence, i.e. a source below the network). Daybreak's choice from those common crustal values.
+ */
+export const DISTANT_APPARENT_VELOCITY: readonly [number, number] = [5, 10];
+
 /**
  * The earliest origin time an event's P picks allow, for widening the S window of distant events
- * (eventPicks.ts): a P-only location (Geiger, `model`) of the picks whose sites are in `sites`; its
- * origin time less a margin of max(2 s, 3 sigma, 20 % of the first P's travel time), never more than
- * `maxPTravelTime` seconds before the first P. Where the depth is not resolved (the P picks of a
- * distant source sweep the network as one plane wave: an ill-conditioned solution) the depth is held
- * at 10 km; such a solution's origin time is poorly known, so its 3-sigma margin usually reaches the
- * `maxPTravelTime` limit. Null when fewer than four sites have a P (no location) or the location
- * fails or fits badly (RMS residual over 0.5 s: picks that no source explains).
+ * (eventPicks.ts), or null when the picks give no reason to widen it. Two readings of the P picks of
+ * the sites in `sites` (at least four):
+ *
+ * - A plane wave (planeWaveFit on the sites' positions projected onto a plane tangent at their mean,
+ *   km): a source far beyond the network sends P across it as a nearly plane wave at a crustal or
+ *   upper-mantle apparent velocity (DISTANT_APPARENT_VELOCITY). When the plane fits within 0.2 s RMS
+ *   and better than half the location's RMS, the source is taken as distant and its distance as
+ *   unknown: the origin may be up to `maxPTravelTime` seconds before the first P.
+ * - Else a P-only location (Geiger, `model`): its origin time less a margin of max(2 s, 3 sigma, 20 %
+ *   of the first P's travel time), never more than `maxPTravelTime` before the first P; where the
+ *   depth is not resolved (ill-conditioned), held at 10 km as is common practice. A location whose RMS
+ *   residual exceeds 0.5 s (picks no source explains) gives null.
+ *
+ * (A P-only location of a distant source is weak: the plane wavefront leaves distance and origin time
+ * traded off, and Geiger's iterations can settle near the network; hence the plane-wave test first.)
  */
 export function earliestOriginFromP(
   pPicks: readonly { readonly pick: Pick }[], sites: ReadonlyMap<string, SiteCoordinates>, model: VelocityModel, maxPTravelTime: number,
@@ -84,19 +144,30 @@ export function earliestOriginFromP(
   }
   if (locPicks.length < MIN_PHASES) return null;
   const first = Math.min(...locPicks.map((p) => p.time));
+  const limit = first - Math.round(maxPTravelTime * 1e6);
   let r;
   try {
     r = locate(stations, locPicks, { model });
-    // A source far outside the network leaves its depth unresolved (P arrives as one plane wave):
-    // hold it at 10 km, as is common practice for an unresolved depth.
     if (!r.ok && r.code === 'ill-conditioned') r = locate(stations, locPicks, { model, fixedDepthKm: 10 });
   } catch {
-    return null;
+    r = null;
   }
-  if (!r.ok || !(r.value.rmsS <= 0.5)) return null;
+  const locRms = r && r.ok ? r.value.rmsS : Infinity;
+  // Plane wave on a tangent plane (equirectangular about the mean position; ample over a network).
+  const lat0 = stations.reduce((a, s) => a + s.latDeg, 0) / stations.length;
+  const lon0 = stations.reduce((a, s) => a + s.lonDeg, 0) / stations.length;
+  const kmPerDeg = (Math.PI / 180) * 6371.0;
+  const plane = planeWaveFit(
+    stations.map((s) => (s.lonDeg - lon0) * kmPerDeg * Math.cos((lat0 * Math.PI) / 180)),
+    stations.map((s) => (s.latDeg - lat0) * kmPerDeg),
+    locPicks.map((p) => (p.time - first) / 1e6),
+  );
+  const [vLo, vHi] = DISTANT_APPARENT_VELOCITY;
+  if (plane && plane.rmsS <= 0.2 && plane.rmsS <= 0.5 * locRms && plane.velocity >= vLo && plane.velocity <= vHi) return limit;
+  if (!r || !r.ok || !(r.value.rmsS <= 0.5)) return null;
   const t0 = r.value.originTime;
   const travel = Math.max(0, (first - t0) / 1e6);
   const sigma = Number.isFinite(r.value.originTimeErrorS) ? r.value.originTimeErrorS : 0;
   const margin = Math.max(2, 3 * sigma, 0.2 * travel);
-  return Math.max(first - Math.round(maxPTravelTime * 1e6), t0 - Math.round(margin * 1e6));
+  return Math.max(limit, t0 - Math.round(margin * 1e6));
 }

@@ -1,8 +1,14 @@
-import { describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import type { ChannelId, Segment } from '../../../core/model';
 import { butterworth } from '../../../core/dsp';
 import type { CandidateEvent, StationTrigger } from '../../../core/pick';
 import { eventPicks, horizontalTraces, pickId, type PickSite } from '../../../core/scan/eventPicks';
+import { earliestOriginFromP, type SiteCoordinates } from '../../../core/scan/eventOrigin';
+import { DEMO_MODEL } from '../../../core/synth/demo';
+import { renderStation } from '../../../core/synth/render';
+import { stationTruth, type TruthArrival } from '../../../core/synth/truth';
+import type { Pick } from '../../../core/pick';
+import { quake, ringStations, tinyScenario } from '../synth/scenarioFixtures';
 import { LOCAL_SCAN_SETTINGS } from '../../../core/scan/settings';
 import { Rng } from '../../../core/synth/random';
 
@@ -114,5 +120,80 @@ describe('eventPicks', () => {
   it('gives no pick for a site whose data does not cover the trigger', () => {
     const ev = event(N + 500);
     expect(eventPicks(ev, new Map([['XX.AB', site(1, true)]]), sosFor, LOCAL_SCAN_SETTINGS)).toEqual([]);
+  });
+});
+
+// A distant event rendered by the generator (core/synth): six stations on a 15 km ring, the event
+// 170 km north of the centre, so P arrives as Pn and S some 20 s after it at every site, more than
+// the local window (P travel time at most firstTravelMax = 10 s after the first P) allows. The truth
+// arrivals come from the generator's ray geometry (checked in test/core/synth).
+describe('eventPicks on a distant event (S more than 10 s of P travel after the first P)', () => {
+  let sites: Map<string, PickSite>;
+  let coords: Map<string, SiteCoordinates>;
+  let truth: Map<string, TruthArrival[]>;
+  let ev: CandidateEvent;
+  beforeAll(() => {
+    const stations = ringStations(6, 15);
+    const sc = tinyScenario(stations, [quake('far', 10, 3.6, 10, { strike: 40, dip: 70, rake: 10 }, 170, 0)], 100);
+    sites = new Map();
+    coords = new Map();
+    truth = new Map();
+    for (const st of stations) {
+      const rs = renderStation(sc, st.code);
+      truth.set(`XX.${st.code}`, stationTruth(sc, rs).get('far')!);
+      const loc = rs.channels[0].id.location;
+      const chans = rs.channels.filter((c) => c.id.location === loc);
+      const pc = (c: (typeof chans)[number]) => ({
+        id: c.id, azimuth: c.spec.azimuth,
+        segments: [{ ...segment(c.id, Float64Array.from(c.samples)), sampleRate: c.sampleRate, start: c.start, end: c.start + ((c.samples.length - 1) * 1e6) / c.sampleRate }],
+      });
+      const z = chans.find((c) => Math.abs(c.spec.dip) > 45)!;
+      const hs = chans.filter((c) => Math.abs(c.spec.dip) <= 45);
+      const key = `XX.${st.code}`;
+      sites.set(key, {
+        vertical: pc(z), polarity: z.spec.dip < 0 ? 1 : -1, position: { latitude: st.latitude, longitude: st.longitude },
+        horizontals: hs.length === 2 ? [pc(hs[0]), pc(hs[1])] : null,
+      });
+      coords.set(key, { latitude: st.latitude, longitude: st.longitude, elevationM: st.elevationM });
+    }
+    // Triggers 0.3 s after each true P (about where an STA of 0.5 s reaches its on-ratio).
+    const trig = [...truth].map(([key, arr]) => {
+      const on = arr.find((a) => a.wave === 'P')!.timeMicros + 300_000;
+      const [network, station] = key.split('.');
+      return { id: { network, station, location: '', channel: 'HHZ' }, on, off: on + 5e6, peakRatio: 10, peakTime: on, start: on - 10e6, end: on + 30e6, endedBy: 'ratio' as const };
+    }).sort((a, b) => a.on - b.on);
+    ev = { id: 'XX.far', time: trig[0].on, start: trig[0].start, end: trig[trig.length - 1].end, sites: trig.map((t) => `XX.${t.id.station}`), triggers: trig, secondary: [] };
+  }, 60_000);
+
+  const sosAt = (rate: number) => butterworth(4, [2, 15], 'bandpass', rate);
+  const sErrors = (picks: Pick[]) => [...truth].filter(([key]) => sites.get(key)!.horizontals).map(([key, arr]) => {
+    const s = arr.find((a) => a.wave === 'S')!;
+    const p = picks.find((k) => `XX.${k.waveformId.station}` === key && k.phaseHint === 'S');
+    return p ? Math.abs(p.time - s.timeMicros) / 1e6 : Infinity;
+  });
+
+  it('has S more than 15 s after P at every site (what makes the local window too short)', () => {
+    for (const arr of truth.values()) {
+      const p = arr.find((a) => a.wave === 'P')!, s = arr.find((a) => a.wave === 'S')!;
+      expect((s.timeMicros - p.timeMicros) / 1e6).toBeGreaterThan(15);
+    }
+  });
+
+  it('picks S within 0.2 s at every three-component site when a P-only location widens the S window', () => {
+    const picks = eventPicks(ev, sites, sosAt, LOCAL_SCAN_SETTINGS,
+      (pp) => earliestOriginFromP(pp, coords, DEMO_MODEL, LOCAL_SCAN_SETTINGS.maxPTravelTime));
+    const errs = sErrors(picks);
+    expect(errs).toHaveLength(5);
+    for (const e of errs) expect(e).toBeLessThanOrEqual(0.2);
+    // P still within 0.1 s at all six sites (Pn, emergent after 170 km of attenuation).
+    for (const [key, arr] of truth) {
+      const p = picks.find((k) => `XX.${k.waveformId.station}` === key && k.phaseHint === 'P');
+      expect(Math.abs(p!.time - arr[0].timeMicros) / 1e6).toBeLessThanOrEqual(0.1);
+    }
+  });
+
+  it('misses those S with the local window alone (no location given)', () => {
+    const errs = sErrors(eventPicks(ev, sites, sosAt, LOCAL_SCAN_SETTINGS));
+    expect(errs.filter((e) => e <= 0.2)).toHaveLength(0);
   });
 });
