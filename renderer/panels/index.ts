@@ -189,6 +189,12 @@ function summaryLines(event: ReviewEvent | null, r: ReviewLocateResult | null): 
     line('', `${h.latDeg.toFixed(4)}\u00b0 ${h.lonDeg.toFixed(4)}\u00b0 \u00b7 depth ${h.depthFixed ? `${km(h.depthKm)} (fixed)` : `${km(h.depthKm)} \u00b1 ${km(h.depthErrorKm)}`}`),
     line('', `RMS ${(h.rmsS * 1000).toFixed(1)} ms \u00b7 ${h.phaseCount} phases, ${h.stationCount} sites \u00b7 gap ${Math.round(h.gapDeg)}\u00b0`),
   ];
+  if (h.errorsScaled) {
+    // The residuals exceed the pick uncertainties: errors and ellipse widened (geiger.ts).
+    out.push(line('db-warn errors-scaled', `errors \u00d7${h.errorScale.toFixed(1)} from the misfit (variance factor ${h.varianceFactor.toFixed(1)}) \u00b7 ellipse ${km(h.ellipse.semiMajorKm)} \u00d7 ${km(h.ellipse.semiMinorKm)}`));
+  } else {
+    out.push(line('db-muted', `ellipse ${km(h.ellipse.semiMajorKm)} \u00d7 ${km(h.ellipse.semiMinorKm)} (68 %)`));
+  }
   if (r.value.skipped.length) out.push(line('db-warn', `${r.value.skipped.length} picks at sites without coordinates`));
   return out;
 }
