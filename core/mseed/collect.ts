@@ -28,6 +28,7 @@ import {
   FIXED_HEADER_LENGTH, MAX_RECORD_LENGTH, MIN_RECORD_LENGTH, isMiniSeed3, looksLikeRecordStart, miniSeed3RecordLength,
   parseRecordHeader, type RecordHeader,
 } from './header';
+import { RecordTable } from './recordTable';
 
 /** A bad record or a stretch of bytes that is not miniSEED. */
 export interface RecordError { offset: number; reason: string }
@@ -42,53 +43,12 @@ export interface MiniSeedReadResult { files: FileReport[]; channels: ChannelData
  */
 export const SCAN_LOOKAHEAD = MAX_RECORD_LENGTH + FIXED_HEADER_LENGTH;
 
-/** One waveform record, as much as the merge and the decoder need (numbers only, kept small). */
-class RecordRef {
-  /** Segment sample index where this record's samples from `skip` on are placed (-1: none). */
-  at = -1;
-  /** Leading samples that overlap data already held: compared, not placed. */
-  skip = 0;
-  /** Index of the segment (in its channel's plan) this record belongs to, -1 when none. */
-  seg = -1;
-  /** Held samples this record's first `skip` samples are compared with start at this index. */
-  heldAt = 0;
-  /** 0 ok, 1 decoded with Steim mismatch, 2 could not be decoded. */
-  status = 0;
-  /** Pass 2 has been through this record. */
-  decoded = false;
-  /** Overlapping records: 0 not compared yet, 1 same samples as held, 2 different. */
-  verdict = 0;
-  /** The first `skip` samples, decoded in pass 2 (rare: overlapping records only). */
-  head: SampleArray | null = null;
-  /** The channel's segment plans (set when the record is added). */
-  plans: SegmentPlan[] | null = null;
-
-  constructor(
-    readonly file: number,
-    readonly offset: number,
-    readonly start: Micros,
-    readonly rate: number,
-    readonly count: number,
-    readonly encoding: number,
-    readonly littleEndian: boolean,
-    readonly recordLength: number,
-    readonly dataOffset: number,
-    /** Bit 0 clock locked, 1 questionable time, 2 leap second. */
-    readonly flags: number,
-    /** Blockette 1001 timing quality, -1 when absent. */
-    readonly timingQuality: number,
-    readonly quality: string,
-    readonly order: number,
-  ) {}
-
-  get kind(): SampleKind { return sampleKindOf(this.encoding); }
-}
-
 /** A segment while it is laid out: its records in sample order and its total length. */
 interface SegmentPlan {
   kind: SampleKind;
   rate: number;
-  records: RecordRef[];
+  /** Rows of the record table. */
+  records: number[];
   total: number;
   /** Expected time of the sample after the last one, µs (from the last record's own start). */
   next: number;
@@ -97,18 +57,21 @@ interface SegmentPlan {
 
 interface ChannelBuild {
   id: ChannelId;
-  records: RecordRef[];
+  /** Position in the collector's channel list (the record table's channel column). */
+  index: number;
+  /** Rows of the record table. */
+  records: number[];
   plans: SegmentPlan[];
-  /** Records that overlap held data, in time order. */
-  overlapping: RecordRef[];
+  /** Records (rows) that overlap held data, in time order. */
+  overlapping: number[];
 }
 
 interface FileState {
   path: string;
   records: number;
   errors: RecordError[];
-  /** Records to decode in pass 2, in file order. */
-  queue: RecordRef[];
+  /** Records (rows of the record table) to decode in pass 2, in file order. */
+  queue: number[];
   cursor: number;
   /** Start and reason of a bad stretch being stepped over, or -1. */
   badStart: number;
@@ -269,12 +232,15 @@ function ratesCompatible(a: number, b: number): boolean {
 export class MiniSeedCollector {
   private readonly files: FileState[] = [];
   private readonly channels = new Map<string, ChannelBuild>();
+  /** The channels in the order they were first seen (the record table's channel column indexes it). */
+  private readonly channelList: ChannelBuild[] = [];
   private readonly logs = new Map<string, { id: ChannelId; entries: { time: Micros; text: string }[] }>();
-  private order = 0;
+  /** Every waveform record, one row each; rows are numbered in the order records were read. */
+  private readonly table = new RecordTable();
   private planned = false;
   /** The channel the last record went to, and the id object it was found by (header templates reuse theirs). */
   private lastId: ChannelId | null = null;
-  private lastChannel: ChannelBuild | null = null;
+  private lastChannel = -1;
 
   /** Registers a file (or an in-memory buffer under a name); returns its index. */
   addFile(path: string): number {
@@ -415,20 +381,23 @@ export class MiniSeedCollector {
       return;
     }
     const flags = (h.clockLocked ? 1 : 0) | (h.questionableTime ? 2 : 0) | (h.leapSecond ? 4 : 0);
-    const r = new RecordRef(
-      file, base + p, h.start, h.sampleRate, h.sampleCount, h.encoding, h.littleEndian, h.recordLength, h.dataOffset,
-      flags, h.timingQuality ?? -1, h.quality, this.order++,
-    );
-    let ch = this.lastChannel;
-    if (ch === null || h.id !== this.lastId) {
+    let c = this.lastChannel;
+    if (c < 0 || h.id !== this.lastId) {
       const key = channelKey(h.id);
-      ch = this.channels.get(key) ?? null;
-      if (ch === null) this.channels.set(key, (ch = { id: h.id, records: [], plans: [], overlapping: [] }));
+      let ch = this.channels.get(key);
+      if (ch === undefined) {
+        this.channels.set(key, (ch = { id: h.id, index: this.channelList.length, records: [], plans: [], overlapping: [] }));
+        this.channelList.push(ch);
+      }
+      c = ch.index;
       this.lastId = h.id;
-      this.lastChannel = ch;
+      this.lastChannel = c;
     }
-    r.plans = ch.plans;
-    ch.records.push(r);
+    const r = this.table.add(
+      file, base + p, h.start, h.sampleRate, h.sampleCount, h.encoding, h.littleEndian, h.recordLength, h.dataOffset,
+      flags, h.timingQuality ?? -1, h.quality.charCodeAt(0), c,
+    );
+    this.channelList[c].records.push(r);
     fs.queue.push(r);
   }
 
@@ -472,47 +441,53 @@ export class MiniSeedCollector {
   plan(): void {
     if (this.planned) return;
     this.planned = true;
-    for (const ch of this.channels.values()) {
-      ch.records.sort((a, b) => a.start - b.start || a.order - b.order);
+    const t = this.table;
+    const { start, rate, count, encoding, skip, seg, heldAt } = t;
+    // Rows are numbered in reading order, so the row breaks ties between equal start times.
+    const byTime = (a: number, b: number) => start[a] - start[b] || a - b;
+    for (const ch of this.channelList) {
+      ch.records.sort(byTime);
       let cur: SegmentPlan | null = null;
       for (const r of ch.records) {
-        const kind = r.kind;
+        const kind = sampleKindOf(encoding[r]);
         if (cur) {
           const half = 5e5 / cur.rate;
-          const compatible = cur.kind === kind && ratesCompatible(cur.rate, r.rate);
-          if (r.start < cur.next - half) {
+          const compatible = cur.kind === kind && ratesCompatible(cur.rate, rate[r]);
+          if (start[r] < cur.next - half) {
             // Overlaps data held: compare the overlapping samples later, place the rest.
-            let skip = r.count;
-            if (compatible) skip = Math.min(r.count, Math.round(((cur.next - r.start) * r.rate) / 1e6));
-            r.seg = ch.plans.length - 1;
-            r.skip = skip;
-            r.heldAt = cur.total - skip;
+            let n = count[r];
+            if (compatible) n = Math.min(count[r], Math.round(((cur.next - start[r]) * rate[r]) / 1e6));
+            seg[r] = ch.plans.length - 1;
+            skip[r] = n;
+            heldAt[r] = cur.total - n;
             ch.overlapping.push(r);
-            if (skip < r.count) this.place(cur, r, r.start + ((skip * 1e6) / r.rate));
+            if (n < count[r]) this.place(cur, r, start[r] + ((n * 1e6) / rate[r]));
             continue;
           }
-          if (compatible && r.start <= cur.next + half) {
-            r.seg = ch.plans.length - 1;
-            this.place(cur, r, r.start);
+          if (compatible && start[r] <= cur.next + half) {
+            seg[r] = ch.plans.length - 1;
+            this.place(cur, r, start[r]);
             continue;
           }
         }
-        cur = { kind, rate: r.rate, records: [], total: 0, next: r.start, samples: null };
+        cur = { kind, rate: rate[r], records: [], total: 0, next: start[r], samples: null };
         ch.plans.push(cur);
-        r.seg = ch.plans.length - 1;
-        this.place(cur, r, r.start);
+        seg[r] = ch.plans.length - 1;
+        this.place(cur, r, start[r]);
       }
       for (const plan of ch.plans) plan.samples = makeArray(plan.kind, plan.total);
     }
-    for (const fs of this.files) fs.queue.sort((a, b) => a.offset - b.offset);
+    const offset = t.offset;
+    for (const fs of this.files) fs.queue.sort((a, b) => offset[a] - offset[b]);
   }
 
-  private place(seg: SegmentPlan, r: RecordRef, firstTime: number): void {
-    r.at = seg.total;
-    const n = r.count - r.skip;
-    seg.records.push(r);
-    seg.total += n;
-    seg.next = firstTime + (n * 1e6) / r.rate;
+  private place(plan: SegmentPlan, r: number, firstTime: number): void {
+    const t = this.table;
+    t.at[r] = plan.total;
+    const n = t.count[r] - t.skip[r];
+    plan.records.push(r);
+    plan.total += n;
+    plan.next = firstTime + (n * 1e6) / t.rate[r];
   }
 
   /**
@@ -521,7 +496,7 @@ export class MiniSeedCollector {
    */
   decodeNeeds(file: number): number {
     const fs = this.files[file];
-    return fs.cursor < fs.queue.length ? fs.queue[fs.cursor].offset : -1;
+    return fs.cursor < fs.queue.length ? this.table.offset[fs.queue[fs.cursor]] : -1;
   }
 
   /**
@@ -534,41 +509,48 @@ export class MiniSeedCollector {
     if (!fs) throw new RangeError(`decode: file index must be 0..${this.files.length - 1}, got ${file}`);
     if (!this.planned) this.plan();
     const q = fs.queue;
+    const { offset, recordLength } = this.table;
     while (fs.cursor < q.length) {
       const r = q[fs.cursor];
-      const p = r.offset - base;
-      if (p < 0 || p + r.recordLength > bytes.length) break;
+      const p = offset[r] - base;
+      if (p < 0 || p + recordLength[r] > bytes.length) break;
       this.decodeRecord(fs, r, bytes, p);
       fs.cursor++;
     }
     return this.decodeNeeds(file);
   }
 
-  private decodeRecord(fs: FileState, r: RecordRef, bytes: Uint8Array, p: number): void {
-    const seg = r.plans ? r.plans[r.seg] : undefined;
-    if (!seg || !seg.samples) { r.status = 2; return; }
-    const dataStart = p + r.dataOffset;
-    const dataLength = r.recordLength - r.dataOffset;
+  private decodeRecord(fs: FileState, r: number, bytes: Uint8Array, p: number): void {
+    const t = this.table;
+    const plan = this.channelList[t.channel[r]].plans[t.seg[r]];
+    if (!plan || !plan.samples) { t.status[r] = 2; return; }
+    t.decoded[r] = 1;
+    const dataStart = p + t.dataOffset[r];
+    const dataLength = t.recordLength[r] - t.dataOffset[r];
+    const encoding = t.encoding[r];
+    const count = t.count[r];
+    const le = t.littleEndian[r] === 1;
+    const skip = t.skip[r];
     try {
-      if (r.skip === 0) {
-        r.status = decodeSamples(bytes, dataStart, dataLength, r.encoding, r.count, r.littleEndian, seg.samples, r.at);
+      if (skip === 0) {
+        t.status[r] = decodeSamples(bytes, dataStart, dataLength, encoding, count, le, plan.samples, t.at[r]);
       } else {
-        const all = makeArray(r.kind, r.count);
-        r.status = decodeSamples(bytes, dataStart, dataLength, r.encoding, r.count, r.littleEndian, all, 0);
-        r.head = all.subarray(0, r.skip);
-        if (r.skip < r.count) seg.samples.set(all.subarray(r.skip) as never, r.at);
+        const kind = sampleKindOf(encoding);
+        const all = makeArray(kind, count);
+        t.status[r] = decodeSamples(bytes, dataStart, dataLength, encoding, count, le, all, 0);
+        const head = all.subarray(0, skip);
+        if (skip < count) plan.samples.set(all.subarray(skip) as never, t.at[r]);
         // Compare now when the held samples are already decoded, so a duplicate's samples are not kept.
-        if (heldState(seg, r) === 1) {
-          r.verdict = seg.kind === r.kind && sameSamples(seg.samples, r.heldAt, r.head) ? 1 : 2;
-          if (r.verdict === 1) r.head = null;
-        }
+        let verdict = 0;
+        if (heldState(t, plan, r) === 1) verdict = plan.kind === kind && sameSamples(plan.samples, t.heldAt[r], head) ? 1 : 2;
+        t.verdict[r] = verdict;
+        if (verdict !== 1) t.head.set(r, head);
       }
     } catch (e) {
-      r.status = 2;
+      t.status[r] = 2;
       fs.records--;
-      fs.errors.push({ offset: r.offset, reason: e instanceof Error ? e.message : String(e) });
+      fs.errors.push({ offset: t.offset[r], reason: e instanceof Error ? e.message : String(e) });
     }
-    r.decoded = true;
   }
 
   /** Sorts out overlaps and duplicates and returns the channels, logs and per-file reports. */
@@ -577,10 +559,10 @@ export class MiniSeedCollector {
     for (const fs of this.files) {
       for (; fs.cursor < fs.queue.length; fs.cursor++) {
         const r = fs.queue[fs.cursor];
-        r.status = 2;
-        r.decoded = true;
+        this.table.status[r] = 2;
+        this.table.decoded[r] = 1;
         fs.records--;
-        fs.errors.push({ offset: r.offset, reason: 'record was not given again for decoding (file changed or shortened between passes?)' });
+        fs.errors.push({ offset: this.table.offset[r], reason: 'record was not given again for decoding (file changed or shortened between passes?)' });
       }
     }
     const channels: ChannelData[] = [];
@@ -603,22 +585,25 @@ export class MiniSeedCollector {
   }
 
   private finishChannel(ch: ChannelBuild): ChannelData {
+    const t = this.table;
     let duplicatesDropped = 0;
-    const conflicting: RecordRef[] = [];
+    const conflicting: number[] = [];
     for (const r of ch.overlapping) {
-      if (r.status === 2) continue;
-      const seg = ch.plans[r.seg];
-      if (r.verdict === 0 && r.head) {
-        r.verdict = seg.kind === r.kind && heldState(seg, r) === 1 && sameSamples(seg.samples as SampleArray, r.heldAt, r.head) ? 1 : 2;
+      if (t.status[r] === 2) continue;
+      const plan = ch.plans[t.seg[r]];
+      const head = t.head.get(r);
+      if (t.verdict[r] === 0 && head) {
+        t.verdict[r] = plan.kind === sampleKindOf(t.encoding[r]) && heldState(t, plan, r) === 1
+          && sameSamples(plan.samples as SampleArray, t.heldAt[r], head) ? 1 : 2;
       }
-      if (r.verdict === 1) {
-        if (r.skip === r.count) duplicatesDropped++;
+      if (t.verdict[r] === 1) {
+        if (t.skip[r] === t.count[r]) duplicatesDropped++;
         continue;
       }
-      if (r.head) conflicting.push(r);
+      if (head) conflicting.push(r);
     }
     const segments: Segment[] = [];
-    for (const plan of ch.plans) pushPieces(ch.id, plan, segments);
+    for (const plan of ch.plans) pushPieces(t, ch.id, plan, segments);
     segments.sort((a, b) => a.start - b.start);
     const gaps: TimeSpan[] = [];
     for (let i = 1; i < segments.length; i++) {
@@ -627,7 +612,7 @@ export class MiniSeedCollector {
       const after = a.end + Math.round(1e6 / a.sampleRate);
       if (b.start > a.end + 1.5e6 / a.sampleRate) gaps.push({ start: after, end: b.start });
     }
-    return { id: ch.id, segments, gaps, overlaps: overlapsOf(ch.id, conflicting), duplicatesDropped };
+    return { id: ch.id, segments, gaps, overlaps: overlapsOf(t, ch.id, conflicting), duplicatesDropped };
   }
 }
 
@@ -635,26 +620,27 @@ export class MiniSeedCollector {
  * State of the held samples a record's first `skip` samples are compared with: 0 not all decoded
  * yet, 1 all decoded, 2 some of them failed to decode.
  */
-function heldState(seg: SegmentPlan, r: RecordRef): 0 | 1 | 2 {
-  const from = r.heldAt;
-  const to = r.heldAt + r.skip;
+function heldState(t: RecordTable, plan: SegmentPlan, r: number): 0 | 1 | 2 {
+  const from = t.heldAt[r];
+  const to = from + t.skip[r];
   if (from < 0) return 2;
-  const recs = seg.records;
+  const recs = plan.records;
+  const { at, count, skip, decoded, status } = t;
   // Records are in sample order: binary-search the first whose placed samples end after `from`.
   let lo = 0;
   let hi = recs.length;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
     const m = recs[mid];
-    if (m.at + m.count - m.skip <= from) lo = mid + 1;
+    if (at[m] + count[m] - skip[m] <= from) lo = mid + 1;
     else hi = mid;
   }
   let state: 0 | 1 | 2 = 1;
-  for (let k = lo; k < recs.length && recs[k].at < to; k++) {
+  for (let k = lo; k < recs.length && at[recs[k]] < to; k++) {
     const h = recs[k];
     if (h === r) continue;
-    if (h.decoded && h.status === 2) return 2;
-    if (!h.decoded) state = 0;
+    if (decoded[h] && status[h] === 2) return 2;
+    if (!decoded[h]) state = 0;
   }
   return state;
 }
@@ -670,90 +656,108 @@ function sameSamples(held: SampleArray | null, at: number, head: SampleArray): b
   return true;
 }
 
-function recordsToSegment(id: ChannelId, rate: number, samples: SampleArray, recs: RecordRef[], base: number): Segment {
-  const recordStarts = new Float64Array(recs.length);
-  const recordFirstSample = new Int32Array(recs.length);
+/**
+ * A segment of the records `recs[from .. to)` (table rows): record `recs[i]`'s first sample is at
+ * time `starts[i - from]` and sample index `firsts[i - from]` of `samples`; the last record
+ * contributes `lastCount` samples.
+ */
+function segmentOf(
+  t: RecordTable, id: ChannelId, rate: number, samples: SampleArray, recs: readonly number[], from: number, to: number,
+  starts: Float64Array, firsts: Int32Array, lastCount: number,
+): Segment {
   let qMin: number | null = null;
   let qMax: number | null = null;
   let locked = 0; let questionable = 0; let leap = 0; let mismatch = 0;
-  for (let i = 0; i < recs.length; i++) {
+  for (let i = from; i < to; i++) {
     const r = recs[i];
-    recordStarts[i] = r.start + Math.round((r.skip * 1e6) / r.rate);
-    recordFirstSample[i] = r.at - base;
-    if (r.timingQuality >= 0) {
-      qMin = qMin === null ? r.timingQuality : Math.min(qMin, r.timingQuality);
-      qMax = qMax === null ? r.timingQuality : Math.max(qMax, r.timingQuality);
+    const q = t.timingQuality[r];
+    if (q >= 0) {
+      qMin = qMin === null ? q : Math.min(qMin, q);
+      qMax = qMax === null ? q : Math.max(qMax, q);
     }
-    if (r.flags & 1) locked++;
-    if (r.flags & 2) questionable++;
-    if (r.flags & 4) leap++;
-    if (r.status === 1) mismatch++;
+    const flags = t.flags[r];
+    if (flags & 1) locked++;
+    if (flags & 2) questionable++;
+    if (flags & 4) leap++;
+    if (t.status[r] === 1) mismatch++;
   }
-  const last = recs[recs.length - 1];
-  const lastCount = last.count - last.skip;
-  const end = recordStarts[recs.length - 1] + Math.round(((lastCount - 1) * 1e6) / last.rate);
-  const first = recs[0];
+  const n = to - from;
+  const last = recs[to - 1];
+  const end = starts[n - 1] + Math.round(((lastCount - 1) * 1e6) / t.rate[last]);
+  const first = recs[from];
   return {
-    id, sampleRate: rate, start: recordStarts[0], end, samples,
-    recordStarts, recordFirstSample,
-    encoding: first.encoding, recordLength: first.recordLength, quality: first.quality,
+    id, sampleRate: rate, start: starts[0], end, samples,
+    recordStarts: starts, recordFirstSample: firsts,
+    encoding: t.encoding[first], recordLength: t.recordLength[first], quality: String.fromCharCode(t.quality[first]),
     timing: {
       qualityMin: qMin, qualityMax: qMax, clockLockedRecords: locked, questionableTimeRecords: questionable,
-      leapSecondRecords: leap, steimMismatchRecords: mismatch, records: recs.length,
+      leapSecondRecords: leap, steimMismatchRecords: mismatch, records: n,
     },
   };
 }
 
 /** A planned segment as output segments: split around records that failed to decode (views, no copy). */
-function pushPieces(id: ChannelId, plan: SegmentPlan, out: Segment[]): void {
+function pushPieces(t: RecordTable, id: ChannelId, plan: SegmentPlan, out: Segment[]): void {
   const samples = plan.samples as SampleArray;
-  let run: RecordRef[] = [];
-  const flush = () => {
-    if (run.length === 0) return;
-    const from = run[0].at;
-    const lastR = run[run.length - 1];
-    const to = lastR.at + lastR.count - lastR.skip;
-    const view = from === 0 && to === samples.length ? samples : samples.subarray(from, to);
-    out.push(recordsToSegment(id, plan.rate, view, run, from));
-    run = [];
+  const recs = plan.records;
+  const { at, count, skip, start, rate, status } = t;
+  const flush = (from: number, to: number) => {
+    if (to === from) return;
+    const base = at[recs[from]];
+    const last = recs[to - 1];
+    const lastCount = count[last] - skip[last];
+    const end = at[last] + lastCount;
+    const starts = new Float64Array(to - from);
+    const firsts = new Int32Array(to - from);
+    for (let i = from; i < to; i++) {
+      const r = recs[i];
+      starts[i - from] = start[r] + Math.round((skip[r] * 1e6) / rate[r]);
+      firsts[i - from] = at[r] - base;
+    }
+    const view = base === 0 && end === samples.length ? samples : samples.subarray(base, end);
+    out.push(segmentOf(t, id, plan.rate, view, recs, from, to, starts, firsts, lastCount));
   };
-  for (const r of plan.records) {
-    if (r.status === 2) flush();
-    else run.push(r);
+  let runFrom = 0;
+  for (let i = 0; i < recs.length; i++) {
+    if (status[recs[i]] !== 2) continue;
+    flush(runFrom, i);
+    runFrom = i + 1;
   }
-  flush();
+  flush(runFrom, recs.length);
 }
 
 /** Conflicting overlapping records as overlaps: contiguous ones joined, each kept with its samples. */
-function overlapsOf(id: ChannelId, recs: RecordRef[]): Overlap[] {
+function overlapsOf(t: RecordTable, id: ChannelId, recs: number[]): Overlap[] {
+  const { start, skip, rate, encoding } = t;
   const out: Overlap[] = [];
   let i = 0;
   while (i < recs.length) {
+    const a = recs[i];
     let j = i + 1;
-    let next = recs[i].start + (recs[i].skip * 1e6) / recs[i].rate;
-    let total = recs[i].skip;
+    let next = start[a] + (skip[a] * 1e6) / rate[a];
+    let total = skip[a];
     while (j < recs.length) {
       const r = recs[j];
-      const half = 5e5 / recs[i].rate;
-      if (r.kind !== recs[i].kind || !ratesCompatible(recs[i].rate, r.rate) || Math.abs(r.start - next) > half) break;
-      next = r.start + (r.skip * 1e6) / r.rate;
-      total += r.skip;
+      const half = 5e5 / rate[a];
+      if (sampleKindOf(encoding[r]) !== sampleKindOf(encoding[a]) || !ratesCompatible(rate[a], rate[r]) || Math.abs(start[r] - next) > half) break;
+      next = start[r] + (skip[r] * 1e6) / rate[r];
+      total += skip[r];
       j++;
     }
-    const group = recs.slice(i, j);
-    const samples = makeArray(group[0].kind, total);
-    const placed: RecordRef[] = [];
+    // Each record contributes its `skip` leading samples (the part at times already held).
+    const samples = makeArray(sampleKindOf(encoding[a]), total);
+    const starts = new Float64Array(j - i);
+    const firsts = new Int32Array(j - i);
     let at = 0;
-    for (const r of group) {
-      samples.set(r.head as never, at);
-      const p = new RecordRef(r.file, r.offset, r.start, r.rate, r.skip, r.encoding, r.littleEndian, r.recordLength,
-        r.dataOffset, r.flags, r.timingQuality, r.quality, r.order);
-      p.at = at;
-      p.status = r.status;
-      placed.push(p);
-      at += r.skip;
+    for (let k = i; k < j; k++) {
+      const r = recs[k];
+      samples.set(t.head.get(r) as never, at);
+      starts[k - i] = start[r];
+      firsts[k - i] = at;
+      at += skip[r];
     }
-    const segment = recordsToSegment(id, group[0].rate, samples, placed, 0);
+    const last = recs[j - 1];
+    const segment = segmentOf(t, id, rate[a], samples, recs, i, j, starts, firsts, skip[last]);
     out.push({ start: segment.start, end: segment.end, segment });
     i = j;
   }
