@@ -111,19 +111,26 @@ export function planeWaveFit(x: ArrayLike<number>, y: ArrayLike<number>, t: Arra
 export const DISTANT_APPARENT_VELOCITY: readonly [number, number] = [5, 10];
 
 /**
+ * Largest RMS misfit of that plane wave, s: a few times the P pick error on records like the demo's,
+ * and well under the misfit of a source inside a network some tens of km across (Daybreak's choice).
+ */
+export const PLANE_RMS_S = 0.2;
+
+/**
  * The earliest origin time an event's P picks allow, for widening the S window of distant events
  * (eventPicks.ts), or null when the picks give no reason to widen it. Two readings of the P picks of
  * the sites in `sites` (at least four):
  *
  * - A plane wave (planeWaveFit on the sites' positions projected onto a plane tangent at their mean,
  *   km): a source far beyond the network sends P across it as a nearly plane wave at a crustal or
- *   upper-mantle apparent velocity (DISTANT_APPARENT_VELOCITY). When the plane fits within 0.2 s RMS
- *   and better than half the location's RMS, the source is taken as distant and its distance as
- *   unknown: the origin may be up to `maxPTravelTime` seconds before the first P.
+ *   upper-mantle apparent velocity (DISTANT_APPARENT_VELOCITY). When the plane fits within
+ *   PLANE_RMS_S, the source is taken as distant and its distance as unknown: the origin may be up to
+ *   `maxPTravelTime` seconds before the first P. (A source inside the network gives a cone of
+ *   arrival times, which no plane fits; one right below it gives an apparent velocity above 10 km/s.)
  * - Else a P-only location (Geiger, `model`): its origin time less a margin of max(2 s, 3 sigma, 20 %
  *   of the first P's travel time), never more than `maxPTravelTime` before the first P; where the
- *   depth is not resolved (ill-conditioned), held at 10 km as is common practice. A location whose RMS
- *   residual exceeds 0.5 s (picks no source explains) gives null.
+ *   free solution fails (depth not resolved), the depth is held at 10 km as is common practice. A
+ *   location whose RMS residual exceeds 0.5 s (picks no source explains) gives null.
  *
  * (A P-only location of a distant source is weak: the plane wavefront leaves distance and origin time
  * traded off, and Geiger's iterations can settle near the network; hence the plane-wave test first.)
@@ -148,11 +155,10 @@ export function earliestOriginFromP(
   let r;
   try {
     r = locate(stations, locPicks, { model });
-    if (!r.ok && r.code === 'ill-conditioned') r = locate(stations, locPicks, { model, fixedDepthKm: 10 });
+    if (!r.ok && r.code !== 'too-few-phases') r = locate(stations, locPicks, { model, fixedDepthKm: 10 });
   } catch {
     r = null;
   }
-  const locRms = r && r.ok ? r.value.rmsS : Infinity;
   // Plane wave on a tangent plane (equirectangular about the mean position; ample over a network).
   const lat0 = stations.reduce((a, s) => a + s.latDeg, 0) / stations.length;
   const lon0 = stations.reduce((a, s) => a + s.lonDeg, 0) / stations.length;
@@ -163,7 +169,7 @@ export function earliestOriginFromP(
     locPicks.map((p) => (p.time - first) / 1e6),
   );
   const [vLo, vHi] = DISTANT_APPARENT_VELOCITY;
-  if (plane && plane.rmsS <= 0.2 && plane.rmsS <= 0.5 * locRms && plane.velocity >= vLo && plane.velocity <= vHi) return limit;
+  if (plane && plane.rmsS <= PLANE_RMS_S && plane.velocity >= vLo && plane.velocity <= vHi) return limit;
   if (!r || !r.ok || !(r.value.rmsS <= 0.5)) return null;
   const t0 = r.value.originTime;
   const travel = Math.max(0, (first - t0) / 1e6);

@@ -1,7 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { DEFAULT_MODEL, firstArrival, locate, MEAN_EARTH_RADIUS_KM } from '../../../core/location';
 import type { Pick } from '../../../core/pick';
-import { eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';
+import { earliestOriginFromP, eventOrigin, planeWaveFit, type SiteCoordinates } from '../../../core/scan/eventOrigin';
+import { Rng } from '../../../core/synth/random';
+import { numpy } from '../pick/numpy';
 
 // Picks timed from the model's first arrivals (core/location firstArrival, itself checked against
 // textbook formulas and a ray shoot in test/core/location) for a known hypocentre; the origin must
@@ -79,5 +81,63 @@ describe('eventOrigin', () => {
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.message.length).toBeGreaterThan(0);
     expect(() => eventOrigin('ev', picks, ids.slice(1), sites, DEFAULT_MODEL, 'default')).toThrow(/pickIds must match picks one to one \(12\), got 11/);
+  });
+});
+
+describe('planeWaveFit', () => {
+  it('gives numpy.linalg.lstsq\'s slowness and RMS residual for scattered times (numpy, see test/core/pick/numpy.ts)', () => {
+    const rng = new Rng(7);
+    const n = 9;
+    const x = Float64Array.from({ length: n }, () => rng.uniform(-20, 20));
+    const y = Float64Array.from({ length: n }, () => rng.uniform(-20, 20));
+    const t = Float64Array.from({ length: n }, (_v, i) => 3 + 0.11 * x[i] - 0.07 * y[i] + rng.normal() * 0.05);
+    const [ref] = numpy(`
+x, y, t = inputs
+A = np.column_stack([np.ones_like(x), x, y])
+c, *_ = np.linalg.lstsq(A, t, rcond=None)
+r = t - A @ c
+outputs = [np.array([c[0], c[1], c[2], np.sqrt(np.mean(r * r))])]`, [x, y, t]);
+    const f = planeWaveFit(x, y, t)!;
+    expect(f.t0).toBeCloseTo(ref[0], 12);
+    expect(f.sx).toBeCloseTo(ref[1], 12);
+    expect(f.sy).toBeCloseTo(ref[2], 12);
+    expect(f.rmsS).toBeCloseTo(ref[3], 12);
+    expect(f.velocity).toBeCloseTo(1 / Math.hypot(ref[1], ref[2]), 10);
+  });
+
+  it('gives null for fewer than three points or points on a line, and refuses arrays of different lengths', () => {
+    expect(planeWaveFit([0, 1], [0, 1], [0, 1])).toBeNull();
+    expect(planeWaveFit([0, 1, 2], [0, 2, 4], [0, 1, 2])).toBeNull();
+    expect(() => planeWaveFit([0, 1, 2], [0, 1], [0, 1, 2])).toThrow(/same length, got 3, 2, 3/);
+  });
+});
+
+describe('earliestOriginFromP', () => {
+  const pOnly = picks.filter((p) => p.phaseHint === 'P').map((pick) => ({ pick }));
+
+  it('for a source inside the network: about its origin time less 2 s (the local S window, 10 s before the first P, is not widened)', () => {
+    // P-only with the depth traded off against the origin time: the free solution may not converge
+    // and the depth is then held at 10 km (true 9 km), which moves the origin time by about 0.1 s.
+    const e = earliestOriginFromP(pOnly, sites, DEFAULT_MODEL, 60);
+    expect(e).not.toBeNull();
+    expect(Math.abs(e! - (T0 - 2_000_000))).toBeLessThan(300_000);
+    expect(e!).toBeGreaterThan(Math.min(...pOnly.map((p) => p.pick.time)) - 10_000_000);
+  });
+
+  it('for a source 200 km away (P from the model\'s first arrivals, a plane wave across the network): the first P less maxPTravelTime', () => {
+    // Source 200 km due south of the ring's centre.
+    const far = { lat: SRC.lat - 200 / 111.2, lon: SRC.lon };
+    const list = [...sites].map(([key, s]) => {
+      const tt = firstArrival(DEFAULT_MODEL, 'P', haversineKm(far.lat, far.lon, s.latitude, s.longitude), 10, 0).time;
+      return { pick: { ...picks[0], waveformId: { ...picks[0].waveformId, station: key.slice(3) }, time: T0 + Math.round(tt * 1e6) } };
+    });
+    const first = Math.min(...list.map((p) => p.pick.time));
+    expect(earliestOriginFromP(list, sites, DEFAULT_MODEL, 60)).toBe(first - 60_000_000);
+    expect(earliestOriginFromP(list, sites, DEFAULT_MODEL, 45)).toBe(first - 45_000_000);
+  });
+
+  it('gives null with fewer than four P sites, and refuses a maxPTravelTime that is not positive', () => {
+    expect(earliestOriginFromP(pOnly.slice(0, 3), sites, DEFAULT_MODEL, 60)).toBeNull();
+    expect(() => earliestOriginFromP(pOnly, sites, DEFAULT_MODEL, 0)).toThrow(/maxPTravelTime \(s\) must be > 0, got 0/);
   });
 });
