@@ -29,8 +29,8 @@ import { KEY_MAP, actionForKey, type KeyAction } from './keys';
 import { magnitudeRead, reviewMagnitude, withMagnitude } from '../core/review/reviewMagnitude';
 import { magnitudesToCsv } from '../core/review/magnitudeCsv';
 import { writeQuakeMl } from '../core/quakeml';
-import type { EventMagnitude } from '../core/magnitude';
-import { drawAmplitudes, type AmplitudeMarks } from './picks/amplitudeLayer';
+import type { ReviewMagnitude } from '../core/review/reviewMagnitude';
+import { AmplitudeTool, drawAmplitudes, magnitudeSummary } from './picks/amplitudeLayer';
 import { el } from './dom';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
@@ -68,7 +68,13 @@ export class Desk {
   private loadSeq = 0;
   private history: History | null = null;
   private panels: EventPanels | null = null;
-  private magnitude: EventMagnitude | null = null;
+  private magnitude: ReviewMagnitude | null = null;
+  /** Amplitude picks: selection, dragging, removal (renderer/picks/amplitudeLayer). */
+  private readonly amplitudeTool = new AmplitudeTool({
+    event: () => this.currentEv(), magnitude: () => this.magnitude, ref: () => this.ref,
+    secondsPerPixel: () => this.traces?.secondsPerPixel() ?? 0.01, apply: (edit) => this.apply(edit),
+    redraw: () => this.traces?.redrawMarks(), status: (text) => this.setStatus(text),
+  });
   private magnitudeFor: ReviewEvent | null = null;
   private magnitudeSeq = 0;
   private siteCoords = new Map<string, SiteLocation>();
@@ -202,7 +208,7 @@ export class Desk {
         return step >= 1 ? iso.slice(11, 19) : step >= 0.1 ? iso.slice(11, 21) : iso.slice(11, 23);
       },
       onWindow: (x0, x1) => this.overview?.setCursorSpan([this.ref + x0 * 1e6, this.ref + x1 * 1e6]),
-      drawMarks: (m) => { drawPicks(m, this.marks()); drawAmplitudes(m, this.amplitudeMarks()); },
+      drawMarks: (m) => { drawPicks(m, this.marks()); drawAmplitudes(m, this.amplitudeTool.marks()); },
       onPointerDown: (row, t, band) => this.pointerDown(row.key, t, band),
       onPointerDrag: (t) => this.pointerDrag(t),
       onPointerUp: (t) => this.pointerUp(t),
@@ -235,6 +241,18 @@ export class Desk {
     (window as unknown as { daybreakView: () => unknown }).daybreakView = () => {
       const [x0, x1] = this.traces?.window ?? [0, 0];
       return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.lastDrawMs ?? 0, frameMs: this.traces?.lastDrawMs ?? 0 };
+    };
+    // Read-only magnitude state for end-to-end tests: amplitudes (times µs), removed ones, station magnitudes, ML.
+    (window as unknown as { daybreakMagnitude: () => unknown }).daybreakMagnitude = () => {
+      const m = this.magnitude;
+      const key = (a: { waveformId: { network: string; station: string; location: string; channel: string } | null }) => (a.waveformId ? `${a.waveformId.network}.${a.waveformId.station}.${a.waveformId.location}.${a.waveformId.channel}` : '');
+      return m && {
+        event: this.magnitudeFor?.id ?? null, ref: this.ref, ml: m.magnitude?.mag ?? null, uncertainty: m.magnitude?.uncertainty ?? null, stationCount: m.magnitude?.stationCount ?? 0, evaluationMode: m.magnitude?.evaluationMode ?? null,
+        amplitudes: m.amplitudes.map((a) => ({ id: a.id, channel: key(a), time: a.time, value: a.value, mode: a.evaluationMode })),
+        removed: m.removed.map((a) => ({ id: a.id, channel: key(a), time: a.time, value: a.value })),
+        stationMagnitudes: m.stationMagnitudes.map((s) => ({ id: s.id, mag: s.mag, amplitudeId: s.amplitudeId })),
+        selected: this.amplitudeTool.selected,
+      };
     };
     const problems = this.session.problems.length;
     this.status.textContent = `${this.session.files.length} files read${problems ? ` \u00b7 ${problems} problems (see the log)` : ''}`;
@@ -356,8 +374,8 @@ export class Desk {
     if (seq !== this.magnitudeSeq) return;
     this.magnitude = reviewMagnitude(ev, loc, reply.pieces, (k) => this.session.channels.get(k)?.meta, this.siteCoords,
       undefined, { evaluationStatus: quakemlStatus(ev.state) });
-    const v = this.magnitude?.magnitude;
-    this.magnitudeText.textContent = v ? `ML ${v.mag.toFixed(1)} \u00b1 ${(v.uncertainty ?? 0).toFixed(1)} (${v.stationCount} stations)` : 'no ML';
+    this.magnitudeText.textContent = magnitudeSummary(this.magnitude, ev);
+    this.renderEventBar();
     this.traces?.redrawMarks();
   }
 
@@ -365,11 +383,6 @@ export class Desk {
 
   private channelMetas() {
     return [...this.session.channels.values()].flatMap((c) => (c.meta ? [c.meta] : []));
-  }
-
-  private amplitudeMarks(): AmplitudeMarks {
-    const m = this.magnitude;
-    return { amplitudes: m?.amplitudes ?? [], stationMagnitudes: m?.stationMagnitudes ?? [], selected: null, toView: (t) => (t - this.ref) / 1e6 };
   }
 
   private marks(): PickMarks {
@@ -457,6 +470,7 @@ export class Desk {
     if (!ev) return;
     this.currentEvent = id;
     this.selected = null;
+    this.amplitudeTool.clear();
     this.afterDocChange(false);
     await this.openWindow(ev.start, ev.end);
   }
@@ -495,7 +509,7 @@ export class Desk {
       el('span', { className: 'muted' }, ` ${p} P \u00b7 ${sCount} S `),
       this.magnitudeText,
       el('label', {}, 'State ', state), el('label', {}, 'Type ', type, ' ', certainty), accept, merge, split, note,
-      el('span', { className: 'selected-pick' }, this.selectedText(ev)));
+      el('span', { className: 'selected-pick' }, this.selectedText(ev) || this.amplitudeTool.selectedText()));
   }
 
   private splitAtCentre(): void {
@@ -521,6 +535,17 @@ export class Desk {
     const row = this.traces && this.currentEv() ? this.rowsBySite.get(site) : undefined;
     if (!row || !this.traces) return false;
     const hit = hitPick(row, band, t, this.traces.secondsPerPixel() * 6, this.marks());
+    // An amplitude mark nearer the pointer than the pick hit (if any) takes the press.
+    const amp = this.amplitudeTool.hit(row, band, t);
+    const tp = hit ? (hit.pick.time - this.ref) / 1e6 : 0;
+    const hitAt = !hit ? 0 : hit.part === 'line' ? tp : hit.part === 'lower' ? tp - hit.pick.lower : tp + hit.pick.upper;
+    if (amp && (!hit || amp.distance < Math.abs(t - hitAt))) {
+      this.selected = null;
+      this.amplitudeTool.press(amp.amplitude, t);
+      this.renderEventBar();
+      return true;
+    }
+    if (this.amplitudeTool.selected) { this.amplitudeTool.clear(); this.renderEventBar(); this.traces.redrawMarks(); }
     if (!hit) {
       if (this.selected) { this.selected = null; this.afterDocChange(false); }
       return false;
@@ -532,6 +557,7 @@ export class Desk {
   }
 
   private pointerDrag(t: number): void {
+    if (this.amplitudeTool.dragging) { this.amplitudeTool.dragTo(t); return; }
     if (!this.drag) return;
     if (this.drag.part === 'line') {
       const p = this.currentEv()?.picks.find((x) => x.id === this.drag!.pickId);
@@ -541,6 +567,7 @@ export class Desk {
   }
 
   private pointerUp(t: number): void {
+    if (this.amplitudeTool.dragging) { this.amplitudeTool.release(t); return; }
     const d = this.drag;
     this.drag = null;
     const ev = this.currentEv();
@@ -595,7 +622,8 @@ export class Desk {
         }
         return;
       }
-      case 'deletePick': onPick((d, a, b) => deletePick(d, a, b)); return;
+      case 'deletePick': if (!this.amplitudeTool.toggleSelected()) onPick((d, a, b) => deletePick(d, a, b)); return;
+      case 'toggleStationAmplitudes': if (!this.amplitudeTool.toggleStation()) this.setStatus('select an amplitude mark first (click it)'); return;
       case 'onsetImpulsive': onPick((d, a, b) => setPickAttributes(d, a, b, { onset: 'impulsive' })); return;
       case 'onsetEmergent': onPick((d, a, b) => setPickAttributes(d, a, b, { onset: 'emergent' })); return;
       case 'onsetQuestionable': onPick((d, a, b) => setPickAttributes(d, a, b, { onset: 'questionable' })); return;

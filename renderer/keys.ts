@@ -2,6 +2,8 @@
  * Daybreak's key map, designed for a left hand on the keyboard while the right hand holds the mouse.
  * Keys are grouped by finger column, top row to bottom row:
  *   index  R / F / V   place P at the pointer / place S at the pointer / delete the selected pick
+ *                      (on a selected amplitude mark V takes it out of ML or puts it back;
+ *                      Shift+V does so for all the station's horizontals)
  *   middle E / D / C   onset impulsive / emergent / questionable  (sharp at the top, vague at the bottom)
  *   ring   W / S / X   polarity positive (up) / undecidable / negative (down)
  *   pinky  Q / A / Z   widen the uncertainty / set it from the zoom / narrow it
@@ -11,7 +13,7 @@
  * ? shows this map.
  */
 export type KeyAction =
-  | 'placeP' | 'placeS' | 'deletePick'
+  | 'placeP' | 'placeS' | 'deletePick' | 'toggleStationAmplitudes'
   | 'onsetImpulsive' | 'onsetEmergent' | 'onsetQuestionable'
   | 'polarityPositive' | 'polarityUndecidable' | 'polarityNegative'
   | 'widen' | 'uncertaintyFromZoom' | 'narrow'
@@ -25,7 +27,9 @@ export interface KeyBinding { keys: string; action: KeyAction; what: string; gro
 export const KEY_MAP: readonly KeyBinding[] = [
   { group: 'Picks (index finger)', keys: 'R', action: 'placeP', what: 'place a P pick at the pointer' },
   { group: 'Picks (index finger)', keys: 'F', action: 'placeS', what: 'place an S pick at the pointer' },
-  { group: 'Picks (index finger)', keys: 'V', action: 'deletePick', what: 'delete the selected pick' },
+  { group: 'Picks (index finger)', keys: 'V', action: 'deletePick', what: 'delete the selected pick; on an amplitude mark: take it out of ML, or put it back' },
+  { group: 'Picks (index finger)', keys: 'Shift+V', action: 'toggleStationAmplitudes', what: 'amplitude mark: take the whole station out of ML, or put it back' },
+  { group: 'Picks (index finger)', keys: 'drag a green mark', action: 'deletePick', what: 'move an amplitude: its peak is measured again where it is dropped' },
   { group: 'Onset (middle finger)', keys: 'E', action: 'onsetImpulsive', what: 'onset impulsive' },
   { group: 'Onset (middle finger)', keys: 'D', action: 'onsetEmergent', what: 'onset emergent' },
   { group: 'Onset (middle finger)', keys: 'C', action: 'onsetQuestionable', what: 'onset questionable' },
@@ -72,5 +76,6 @@ export function actionForKey(e: Pick<KeyboardEvent, 'key' | 'ctrlKey' | 'metaKey
   }
   if (e.altKey) return null;
   if (e.key === 'Tab') return e.shiftKey ? 'previousEvent' : 'nextEvent';
+  if (e.shiftKey && (e.key === 'V' || e.key === 'v')) return 'toggleStationAmplitudes';
   return PLAIN[e.key.length === 1 ? e.key.toLowerCase() : e.key] ?? (e.key === '?' ? 'help' : null);
 }
