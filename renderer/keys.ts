@@ -8,6 +8,8 @@
  *   ring   W / S / X   polarity positive (up) / undecidable / negative (down)
  *   pinky  Q / A / Z   widen the uncertainty / set it from the zoom / narrow it
  *   index stretch T / G / B   zoom to the selected pick / whole window / accept every automatic pick
+ * Location: H holds the depth at the current solution's (or frees it), Y switches the horizontals
+ * between radial / transverse and as recorded.
  * Thumb and reach keys: Tab / Shift+Tab next / previous event, Enter marks the event done,
  * Backspace discards it, 1-6 filter presets, arrows pan, Ctrl+Z / Ctrl+Shift+Z undo / redo,
  * ? shows this map.
@@ -20,7 +22,8 @@ export type KeyAction =
   | 'zoomToPick' | 'wholeWindow' | 'acceptAutomatic'
   | 'nextEvent' | 'previousEvent' | 'markDone' | 'discardEvent'
   | 'filter1' | 'filter2' | 'filter3' | 'filter4' | 'filter5' | 'filter6'
-  | 'panLeft' | 'panRight' | 'undo' | 'redo' | 'help';
+  | 'panLeft' | 'panRight' | 'undo' | 'redo' | 'help'
+  | 'holdDepth' | 'radialTransverse';
 
 export interface KeyBinding { keys: string; action: KeyAction; what: string; group: string }
 
@@ -42,6 +45,8 @@ export const KEY_MAP: readonly KeyBinding[] = [
   { group: 'View and event (index stretch)', keys: 'T', action: 'zoomToPick', what: 'zoom to the selected pick' },
   { group: 'View and event (index stretch)', keys: 'G', action: 'wholeWindow', what: 'show the whole window' },
   { group: 'View and event (index stretch)', keys: 'B', action: 'acceptAutomatic', what: 'accept every automatic pick of the event' },
+  { group: 'Location', keys: 'H', action: 'holdDepth', what: 'hold the depth where the solution has it, or free a held depth' },
+  { group: 'Location', keys: 'Y', action: 'radialTransverse', what: 'horizontals as radial / transverse (from the location) or as recorded' },
   { group: 'Events', keys: 'Tab', action: 'nextEvent', what: 'next event' },
   { group: 'Events', keys: 'Shift+Tab', action: 'previousEvent', what: 'previous event' },
   { group: 'Events', keys: 'Enter', action: 'markDone', what: 'mark the event done' },
@@ -60,6 +65,7 @@ const PLAIN: Record<string, KeyAction> = {
   w: 'polarityPositive', s: 'polarityUndecidable', x: 'polarityNegative',
   q: 'widen', a: 'uncertaintyFromZoom', z: 'narrow',
   t: 'zoomToPick', g: 'wholeWindow', b: 'acceptAutomatic',
+  h: 'holdDepth', y: 'radialTransverse',
   Enter: 'markDone', Backspace: 'discardEvent', Delete: 'deletePick',
   '1': 'filter1', '2': 'filter2', '3': 'filter3', '4': 'filter4', '5': 'filter5', '6': 'filter6',
   ArrowLeft: 'panLeft', ArrowRight: 'panRight', '?': 'help',

@@ -1,0 +1,138 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { cpSync, existsSync, mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { openApp, screenshotPath, type RunningApp } from '../support/browserApp';
+import { DEMO_COMPLETE_MARKER } from '../../electron/host/service';
+import { REVIEW_FILE_NAME } from '../../electron/host/reviewStore';
+import { serializeReview } from '../../core/review/format';
+import type { ReviewEvent, ReviewPick } from '../../core/review/types';
+import { microsFromIso } from '../../core/time';
+import { readQuakeMl } from '../../core/quakeml';
+
+// The real records (../shared/data/real-microseismic), copied so the review file can be written beside
+// them; the review file holds one event with the analyst's own (manual) P and S picks of that event.
+const REAL = resolve(__dirname, '..', '..', '..', 'shared', 'data', 'real-microseismic');
+const EVENT_FILE = '2019-01-21T11-50-32-914c4.xml';
+
+function realEvent(file: string): ReviewEvent {
+  const iso = (t: string): string => t.replace(/(\.\d{6})\d*Z$/, '$1Z').replace(/:(\d\d)Z$/, ':$1.000000Z');
+  const rows = readFileSync(join(REAL, 'picks.csv'), 'utf8').trim().split('\n').slice(1).map((l) => l.split(','));
+  const picks: ReviewPick[] = rows.filter((r) => r[0] === file && r[10] === 'manual').map((r, i) => ({
+    id: `r${i}`, phase: r[7] as 'P' | 'S', channel: `${r[3]}.${r[4]}.${r[5]}.${r[6]}`, time: microsFromIso(iso(r[8])),
+    lower: Number(r[9]), upper: Number(r[9]), onset: 'impulsive', polarity: null, mode: 'manual', status: 'confirmed', snr: null, questionableTiming: false,
+  }));
+  const t = Math.min(...picks.map((p) => p.time));
+  return { id: 'real', source: 'analyst', start: t - 2_000_000, end: t + 6_000_000, state: 'started', type: null, typeCertainty: null, note: '', picks };
+}
+
+interface Saved { revision: number; events: { id: string; fixedDepthKm?: number }[] }
+
+describe('location in the review desk: fixed depth and radial/transverse rows (Chromium, browser mode)', () => {
+  let app: RunningApp;
+  let data: string;
+  const saved = (): Saved => JSON.parse(readFileSync(join(data, REVIEW_FILE_NAME), 'utf8'));
+  async function savedWhen(ok: (s: Saved) => boolean): Promise<Saved> {
+    for (let i = 0; i < 100; i++) {
+      const s = saved();
+      if (ok(s)) return s;
+      await new Promise((r) => setTimeout(r, 50));
+    }
+    throw new Error(`review file never reached the expected state: ${readFileSync(join(data, REVIEW_FILE_NAME), 'utf8').slice(0, 300)}`);
+  }
+  const summary = () => app.page.locator('.db-panels-summary').innerText();
+  const labels = () => app.page.locator('.trace-row:visible .comps').allInnerTexts();
+  const blur = () => app.page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+
+  beforeAll(async () => {
+    if (!existsSync(REAL)) throw new Error(`real test data missing: ${REAL}`);
+    data = mkdtempSync(join(tmpdir(), 'daybreak-locdata-'));
+    cpSync(REAL, data, { recursive: true, filter: (src) => !src.endsWith('.lock') });
+    writeFileSync(join(data, REVIEW_FILE_NAME), serializeReview({ revision: 1, nextSerial: 100, events: [realEvent(EVENT_FILE)] }));
+    const demoDir = mkdtempSync(join(tmpdir(), 'daybreak-demo-'));
+    writeFileSync(join(demoDir, DEMO_COMPLETE_MARKER), '{}');
+    app = await openApp({ demoDir, width: 1500, height: 900 });
+    await app.page.goto(app.server.url.replace('/#', `/?scan=off&dataset=${encodeURIComponent(data)}#`));
+    await app.page.locator('.trace-row').first().waitFor({ timeout: 60_000 });
+    await app.page.waitForFunction(() => /RMS/.test(document.querySelector('.db-panels-summary')?.textContent ?? ''), null, { timeout: 30_000 });
+    await app.page.waitForTimeout(300);
+  }, 120_000);
+  afterAll(async () => { await app?.close(); });
+
+  it('opens the event located, with its 68 % ellipse in the summary, and the horizontals as recorded', async () => {
+    const text = await summary();
+    expect(text).toMatch(/RMS \d+\.\d ms · 14 phases, 10 sites/);
+    expect(text).toMatch(/ellipse \d+ m × \d+ m \(68 %\)|errors ×\d+\.\d from the misfit/);
+    expect((await labels())[0]).toBe('DPZ DPN DPE');
+  });
+
+  it('Y shows radial and transverse rows with each site\'s back-azimuth, and Y again the recorded ones', async () => {
+    await app.page.keyboard.press('y');
+    await app.page.waitForFunction(() => /DPR DPT/.test(document.querySelector('.trace-row .comps')?.textContent ?? ''));
+    const shown = await labels();
+    expect(shown.length).toBeGreaterThan(5);
+    for (const l of shown) expect(l).toBe('DPZ DPR DPT');
+    const details = await app.page.locator('.trace-row:visible .detail').allInnerTexts();
+    for (const d of details) expect(d).toMatch(/baz \d{1,3}°$/);
+    expect(await app.page.locator('.sheet-toolbar input[type=checkbox]').last().isChecked()).toBe(true);
+    await app.page.screenshot({ path: screenshotPath('location-rt') });
+    await app.page.keyboard.press('y');
+    await app.page.waitForFunction(() => /DPN DPE/.test(document.querySelector('.trace-row .comps')?.textContent ?? ''));
+    expect((await labels())[0]).toBe('DPZ DPN DPE');
+  });
+
+  it('a depth typed in the event bar holds the location there, is saved in the review file, and undo frees it again', async () => {
+    const before = saved().revision;
+    await app.page.locator('.depth-input').fill('-250 m');
+    await app.page.locator('.depth-input').press('Enter');
+    const s = await savedWhen((x) => x.events[0].fixedDepthKm === -0.25);
+    expect(s.revision).toBeGreaterThan(before);
+    await app.page.waitForFunction(() => /\(fixed\)/.test(document.querySelector('.db-panels-summary')?.textContent ?? ''));
+    expect(await summary()).toMatch(/depth -250 m \(fixed\)/);
+    await blur();
+    await app.page.keyboard.press('y'); // R/T on for the screenshot with the depth held
+    await app.page.waitForFunction(() => /DPR DPT/.test(document.querySelector('.trace-row .comps')?.textContent ?? ''));
+    await app.page.screenshot({ path: screenshotPath('location-fixed-depth') });
+    await app.page.keyboard.press('y');
+    await app.page.keyboard.press('Control+z');
+    await savedWhen((x) => x.events[0].fixedDepthKm === undefined);
+    await app.page.waitForFunction(() => !/\(fixed\)/.test(document.querySelector('.db-panels-summary')?.textContent ?? ''));
+    expect(await app.page.locator('.depth-input').inputValue()).toBe('');
+  });
+
+  it('H holds the depth where the solution has it (to 10 m) and H again frees it', async () => {
+    const depthText = (await summary()).match(/depth (-?\d+) m ±/);
+    expect(depthText).not.toBeNull();
+    await app.page.keyboard.press('h');
+    const s = await savedWhen((x) => x.events[0].fixedDepthKm !== undefined);
+    expect(Math.abs((s.events[0].fixedDepthKm as number) * 1000 - Number(depthText![1]))).toBeLessThanOrEqual(5.01);
+    expect(await app.page.locator('.depth-control button').innerText()).toBe('Free');
+    await app.page.keyboard.press('h');
+    await savedWhen((x) => x.events[0].fixedDepthKm === undefined);
+  });
+
+  it('lists H and Y in the help overlay', async () => {
+    await app.page.keyboard.press('?');
+    const text = await app.page.locator('dialog#help').innerText();
+    expect(text).toContain('hold the depth where the solution has it, or free a held depth');
+    expect(text).toContain('horizontals as radial / transverse (from the location) or as recorded');
+    await app.page.keyboard.press('Escape');
+  });
+
+  it('exports the held depth as depthType "operator assigned" with no depth uncertainty, and says how the errors were obtained', async () => {
+    await app.page.locator('.depth-input').fill('-0.2');
+    await app.page.locator('.depth-input').press('Enter');
+    await savedWhen((x) => x.events[0].fixedDepthKm === -0.2);
+    await blur();
+    await app.page.getByRole('button', { name: 'Export QuakeML + CSV' }).click();
+    await app.page.getByText(/^exported /).waitFor();
+    const dir = join(data, 'daybreak-exports');
+    const file = readdirSync(dir).find((f) => f.endsWith('.quakeml.xml')) as string;
+    const xml = readFileSync(join(dir, file), 'utf8');
+    const origin = readQuakeMl(xml, file).events[0].origins[0];
+    expect(origin.depthType).toBe('operator assigned');
+    expect(origin.depthM).toBeCloseTo(-200, 6);
+    expect(origin.depthUncertaintyM).toBeNull();
+    expect(xml).toMatch(/<comment>\s*<text>uncertainties (from the pick uncertainties as stated|widened by \d+\.\d\d)[^<]*; depth held fixed at -200 m, not solved for<\/text>/);
+  });
+});
