@@ -180,8 +180,13 @@ export function reviewMagnitude(
       .filter((st) => st.traces.length > 0);
     removed = eventMagnitude(origin, only, { ...opts, idPrefix }).amplitudes.map((a) => ({ ...a, evaluationStatus: 'rejected' }));
   }
-  const manual = r.magnitude && amplitudeEdits.size > 0 ? { ...r.magnitude, evaluationMode: 'manual' as const } : r.magnitude;
-  return { ...r, magnitude: manual, skipped: [...skipped, ...r.skipped], removed };
+  let magnitude = r.magnitude;
+  if (magnitude && amplitudeEdits.size > 0) {
+    const out = removedKeys.size, moved = amplitudeEdits.size - out;
+    const said = [moved ? `moved ${moved} amplitude${moved > 1 ? 's' : ''} (measured again where dropped)` : '', out ? `took ${out} out` : ''].filter(Boolean).join(' and ');
+    magnitude = { ...magnitude, evaluationMode: 'manual', comment: `${magnitude.comment ? `${magnitude.comment}; ` : ''}the analyst ${said}` };
+  }
+  return { ...r, magnitude, skipped: [...skipped, ...r.skipped], removed };
 }
 
 /** `qe` with the magnitude's amplitudes, station magnitudes and (when there is one) preferred magnitude. */

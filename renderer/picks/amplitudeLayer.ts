@@ -290,7 +290,7 @@ export class AmplitudeTool {
     const removed = m.removed.find((a) => keyOf(a) === key);
     const a = removed ?? m.amplitudes.find((x) => keyOf(x) === key);
     if (!a) return '';
-    const sm = m.stationMagnitudes.find((s) => s.amplitudeId === a.id);
+    const sm = removed ? undefined : m.stationMagnitudes.find((s) => s.amplitudeId === a.id);
     const when = a.time !== null ? isoFromMicros(a.time).slice(11, 23) : '?';
     return `amplitude ${key} ${(a.value * 1e9).toPrecision(3)} nm at ${when} \u00b7 ${removed ? 'out of ML' : a.evaluationMode}${sm ? ` \u00b7 station ML ${sm.mag.toFixed(2)}` : ''}`;
   }

@@ -117,6 +117,7 @@ describe('reviewMagnitude with the analyst\'s amplitude edits (same generated ev
     // A magnitude made from data the analyst chose is manual; untouched amplitudes stay automatic.
     expect(m.magnitude!.evaluationMode).toBe('manual');
     expect(base.magnitude!.evaluationMode).toBe('automatic');
+    expect(m.magnitude!.comment).toMatch(/; the analyst took 2 out$/);
     expect(new Set(m.amplitudes.map((a) => a.evaluationMode))).toEqual(new Set(['automatic']));
   });
 

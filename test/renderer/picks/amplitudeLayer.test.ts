@@ -1,6 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { hitAmplitude, movedAmplitudeWindow, type AmplitudeMarks } from '../../../renderer/picks/amplitudeLayer';
-import type { QmlAmplitude } from '../../../core/quakeml';
+import {
+  AmplitudeTool, hitAmplitude, magnitudeSummary, movedAmplitudeWindow, searchHalfWidth, type AmplitudeMarks,
+} from '../../../renderer/picks/amplitudeLayer';
+import { EMPTY_REVIEW, History, addEvent, type ReviewDocument } from '../../../core/review';
+import type { ReviewMagnitude } from '../../../core/review/reviewMagnitude';
+import type { QmlAmplitude, QmlMagnitude } from '../../../core/quakeml';
 import type { SiteRow } from '../../../renderer/traces/traceView';
 
 const T = 1_700_000_000_000_000;
@@ -25,5 +29,83 @@ describe('amplitude picks on the traces', () => {
     expect(movedAmplitudeWindow(T)).toEqual({ start: T - 250_000, end: T + 250_000 });
     expect(movedAmplitudeWindow(T, 0.1)).toEqual({ start: T - 100_000, end: T + 100_000 });
     expect(() => movedAmplitudeWindow(T, 0)).toThrow('half width must be > 0 s, got 0');
+  });
+
+  it('looks for a dropped peak within 5 pixels either side, kept within 0.02-0.25 s', () => {
+    expect(searchHalfWidth(0.01)).toBe(0.05);
+    expect(searchHalfWidth(0.001)).toBe(0.02);
+    expect(searchHalfWidth(0.2)).toBe(0.25);
+    expect(() => searchHalfWidth(0)).toThrow('seconds per pixel must be > 0, got 0');
+  });
+});
+
+describe('AmplitudeTool: pointer and keys to review edits', () => {
+  function setup() {
+    const added = addEvent(EMPTY_REVIEW, T - 10e6, T + 50e6);
+    const history = new History(added.doc);
+    const n = amp('XX.A.00.HHN', 'HHN', 5);
+    const e = amp('XX.A.00.HHE', 'HHE', 5.1);
+    let magnitude: ReviewMagnitude = {
+      amplitudes: [n, e], removed: [], stationMagnitudes: [{ id: 's', originId: null, mag: 1.2, type: 'ML', amplitudeId: n.id, waveformId: n.waveformId }],
+      magnitude: null, skipped: [], network: null as never,
+    };
+    let spp = 0.01;
+    const tool = new AmplitudeTool({
+      event: () => history.doc.events[0], magnitude: () => magnitude, ref: () => T - 10e6, secondsPerPixel: () => spp,
+      apply: (edit: (d: ReviewDocument) => ReviewDocument) => { history.apply(edit(history.doc)); return true; },
+      redraw: () => {}, status: () => {},
+    });
+    return { history, tool, n, e, set: (m: Partial<ReviewMagnitude>) => { magnitude = { ...magnitude, ...m }; }, zoom: (s: number) => { spp = s; } };
+  }
+
+  it('dragging a mark by 0.3 s records the mark time + 0.3 s and the half-width at this zoom; a click without moving records nothing', () => {
+    const { history, tool, n } = setup();
+    // View seconds count from T - 10 s: the HHN mark (T + 5 s) is at 15 s.
+    const row2 = { ...row, key: 'XX.A' } as SiteRow;
+    const hit = tool.hit(row2, 1, 15.02)!;
+    expect(hit.amplitude.id).toBe(n.id);
+    expect(hit.distance).toBeCloseTo(0.02, 12);
+    tool.press(hit.amplitude, 15.02);
+    tool.release(15.02);
+    expect(history.canUndo).toBe(false);
+    tool.press(hit.amplitude, 15.02);
+    tool.dragTo(15.2);
+    expect(tool.marks().drag).toEqual({ channel: 'XX.A.00.HHN', t: 15 + 0.18, halfWidth: 0.05 });
+    tool.release(15.32);
+    expect(history.doc.events[0].amplitudeEdits).toEqual([{ channel: 'XX.A.00.HHN', kind: 'moved', time: T + 5.3e6, halfWidth: 0.05 }]);
+    expect(tool.dragging).toBe(false);
+  });
+
+  it('V takes the selected amplitude out and puts it back; Shift+V takes every horizontal of the station out, then back', () => {
+    const { history, tool, n, e, set } = setup();
+    tool.press(n, 15);
+    tool.release(15);
+    expect(tool.toggleSelected()).toBe(true);
+    expect(history.doc.events[0].amplitudeEdits).toEqual([{ channel: 'XX.A.00.HHN', kind: 'removed' }]);
+    set({ amplitudes: [e], removed: [{ ...n, evaluationStatus: 'rejected' }] });
+    expect(tool.selectedText()).toMatch(/^amplitude XX\.A\.00\.HHN 1\.00e\+3 nm at .* \u00b7 out of ML$/);
+    tool.toggleSelected();
+    expect(history.doc.events[0].amplitudeEdits).toBeUndefined();
+    set({ amplitudes: [n, e], removed: [] });
+    tool.toggleStation();
+    expect(history.doc.events[0].amplitudeEdits!.map((x) => [x.channel, x.kind])).toEqual([['XX.A.00.HHN', 'removed'], ['XX.A.00.HHE', 'removed']]);
+    set({ amplitudes: [], removed: [n, e] });
+    tool.toggleStation();
+    expect(history.doc.events[0].amplitudeEdits).toBeUndefined();
+    tool.clear();
+    expect(tool.toggleSelected()).toBe(false);
+  });
+
+  it('summarises ML with what the analyst changed', () => {
+    const { history, tool, n } = setup();
+    const mag: QmlMagnitude = { id: 'm', mag: 1.234, uncertainty: 0.06, type: 'ML', originId: null, stationCount: 3, azimuthalGap: null, contributions: [], evaluationMode: 'manual', evaluationStatus: 'preliminary' };
+    const m: ReviewMagnitude = { amplitudes: [], removed: [], stationMagnitudes: [], magnitude: mag, skipped: [], network: null as never };
+    expect(magnitudeSummary(m, history.doc.events[0])).toBe('ML 1.2 \u00b1 0.1 (3 stations)');
+    tool.press(n, 15);
+    tool.release(15);
+    tool.toggleStation();
+    expect(magnitudeSummary(m, history.doc.events[0])).toBe('ML 1.2 \u00b1 0.1 (3 stations) \u00b7 2 out of ML (A)');
+    expect(magnitudeSummary({ ...m, magnitude: null }, null)).toBe('no ML');
+    expect(magnitudeSummary(null, null)).toBe('');
   });
 });
