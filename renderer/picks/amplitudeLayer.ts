@@ -196,6 +196,8 @@ export class AmplitudeTool {
   /** Channel key of the selected amplitude, or null. */
   selected: string | null = null;
   private drag: { channel: string; markT: number; startT: number; t: number; halfWidth: number } | null = null;
+  /** A dropped mark shown where it was dropped until the magnitude measured with it arrives. */
+  private pending: { channel: string; t: number; halfWidth: number; before: ReviewMagnitude | null } | null = null;
 
   constructor(private readonly host: AmplitudeToolHost) {}
 
@@ -203,9 +205,12 @@ export class AmplitudeTool {
     const m = this.host.magnitude();
     const ref = this.host.ref();
     const d = this.drag;
+    if (this.pending && this.pending.before !== m) this.pending = null;
+    const p = this.pending;
     return {
       amplitudes: m?.amplitudes ?? [], stationMagnitudes: m?.stationMagnitudes ?? [], removed: m?.removed ?? [],
-      selected: this.selected, drag: d && d.t !== d.markT ? { channel: d.channel, t: d.t, halfWidth: d.halfWidth } : null,
+      selected: this.selected,
+      drag: d && d.t !== d.markT ? { channel: d.channel, t: d.t, halfWidth: d.halfWidth } : p ? { channel: p.channel, t: p.t, halfWidth: p.halfWidth } : null,
       toView: (t) => (t - ref) / 1e6,
     };
   }
@@ -242,7 +247,8 @@ export class AmplitudeTool {
     const ev = this.host.event();
     if (!d || !ev || t === d.startT) { this.host.redraw(); return; }
     const time = this.host.ref() + Math.round((d.markT + (t - d.startT)) * 1e6);
-    if (!this.host.apply((doc) => moveAmplitude(doc, ev.id, d.channel, time, d.halfWidth))) this.host.redraw();
+    this.pending = { channel: d.channel, t: d.markT + (t - d.startT), halfWidth: d.halfWidth, before: this.host.magnitude() };
+    if (!this.host.apply((doc) => moveAmplitude(doc, ev.id, d.channel, time, d.halfWidth))) { this.pending = null; this.host.redraw(); }
   }
 
   /** True when a drag is going on. */
@@ -254,6 +260,7 @@ export class AmplitudeTool {
   clear(): void {
     this.selected = null;
     this.drag = null;
+    this.pending = null;
   }
 
   /** Takes the selected amplitude out of the magnitude, or puts it back when it is out. False when none is selected. */

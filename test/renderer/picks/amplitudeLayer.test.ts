@@ -59,7 +59,7 @@ describe('AmplitudeTool: pointer and keys to review edits', () => {
   }
 
   it('dragging a mark by 0.3 s records the mark time + 0.3 s and the half-width at this zoom; a click without moving records nothing', () => {
-    const { history, tool, n } = setup();
+    const { history, tool, n, set } = setup();
     // View seconds count from T - 10 s: the HHN mark (T + 5 s) is at 15 s.
     const row2 = { ...row, key: 'XX.A' } as SiteRow;
     const hit = tool.hit(row2, 1, 15.02)!;
@@ -74,6 +74,10 @@ describe('AmplitudeTool: pointer and keys to review edits', () => {
     tool.release(15.32);
     expect(history.doc.events[0].amplitudeEdits).toEqual([{ channel: 'XX.A.00.HHN', kind: 'moved', time: T + 5.3e6, halfWidth: 0.05 }]);
     expect(tool.dragging).toBe(false);
+    // Shown where it was dropped until the magnitude measured with the edit arrives, then as measured.
+    expect(tool.marks().drag).toEqual({ channel: 'XX.A.00.HHN', t: 15.3, halfWidth: 0.05 });
+    set({ amplitudes: [] });
+    expect(tool.marks().drag).toBeNull();
   });
 
   it('V takes the selected amplitude out and puts it back; Shift+V takes every horizontal of the station out, then back', () => {
