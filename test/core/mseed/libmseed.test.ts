@@ -260,6 +260,23 @@ describe('reader agrees with libmseed 2.19 on files assembled from libmseed reco
     expect(result.channels[0].overlaps[0].segment.start).toBe(start + 2_000_000);
   });
 
+  it('several thousand records of three channels interleaved, with a resent and a conflicting record late in the file', () => {
+    // More records (3 x 900 INT32 records of 256 bytes, 48 samples each) than the collector's record table first
+    // allocates rows for (1,024), so its columns grow twice while the file is read.
+    const channels = ['HHZ', 'HHN', 'HHE'].map((channel, k) =>
+      records(libmseedPack({ samples: intSignal(900 * 48, 20 + k), encoding: 3, byteorder: 1, reclen: 256, rate, start, channel }).bytes, 256));
+    expect(channels.map((c) => c.length)).toEqual([900, 900, 900]);
+    const parts: Uint8Array[] = [];
+    for (let i = 0; i < 900; i++) for (const c of channels) parts.push(c[i]);
+    const other = libmseedPack({ samples: intSignal(48, 98), encoding: 3, byteorder: 1, reclen: 256, rate, start: start + 700 * 480_000, channel: 'HHN' });
+    parts.push(channels[0][850], other.bytes);
+    const bytes = concat(parts);
+    const reading = libmseedDecodeBytes(bytes);
+    const { result } = expectAgreement(bytes, reading);
+    expect(result.files[0].records).toBe(2702);
+    expect(result.channels.map((c) => [c.id.channel, c.duplicatesDropped, c.overlaps.length])).toEqual([['HHE', 0, 0], ['HHN', 0, 1], ['HHZ', 1, 0]]);
+  });
+
   it('several channels, encodings, byte orders and record lengths in one file', () => {
     const parts = [
       libmseedPack({ samples: intSignal(3000, 1), encoding: 11, byteorder: 1, reclen: 512, rate: 100, start, channel: 'HHZ' }),
