@@ -4,6 +4,7 @@
  */
 import type { FilterRequest } from '../../core/dsp';
 import type { Micros } from '../../core/time';
+import type { Envelope } from '../../core/view/envelope';
 
 export interface SegmentSummary {
   start: Micros;
@@ -58,6 +59,8 @@ export interface WindowRequest {
   zeroPhase: boolean;
   /** Identifies the decoded data; when the worker still holds data under this key, `chunks` is empty and it is reused. */
   cacheKey: string;
+  /** Keep the decoded data for the next request (windows of the view); other reads leave the kept data alone. */
+  keep: boolean;
 }
 /** A continuous piece of a channel inside the window. */
 export interface WindowPiece {
@@ -70,13 +73,23 @@ export interface WindowPiece {
   rawPeak: number;
   /** The raw samples sit flat at their peak for 4 samples or more: clipped. */
   clipped: boolean;
+  /** Min/max pyramid of `samples` for drawing, built in the worker once per filter. */
+  envelope: Envelope;
 }
 export interface WindowReply {
   type: 'window'; id: number;
   pieces: WindowPiece[];
   notes: string[];
   errors: { path: string; offset: number; reason: string }[];
+  /** Where the worker spent its time, ms: decoding (0 when the kept data was reused), filtering, trimming and building pyramids. */
+  timing: { decodeMs: number; filterMs: number; packMs: number };
 }
+
+/** Decoded view windows (or parts of one) a worker keeps; the oldest is dropped beyond this. */
+export const KEPT_WINDOWS = 4;
+
+/** The worker no longer holds the data a request without chunks asked for (the caller reads it again). */
+export const NOT_KEPT = 'window data not kept';
 
 export interface FailReply { type: 'fail'; id: number; message: string }
 

@@ -5,11 +5,13 @@
 import { MiniSeedCollector, readMiniSeedBuffer } from '../../core/mseed';
 import { indexRecords } from '../../core/mseed/recordIndex';
 import { levelBins } from '../../core/view/levels';
+import { buildEnvelope } from '../../core/view/envelope';
 import { channelKey, sampleTime, type Segment } from '../../core/model';
 import { designForChannel, filterSegments } from '../../core/dsp';
 import type {
   ChannelLevels, ChannelSummary, IndexReply, IndexRequest, WindowPiece, WindowReply, WindowRequest, WorkerReply, WorkerRequest,
 } from './protocol';
+import { KEPT_WINDOWS, NOT_KEPT } from './protocol';
 
 const post = (msg: WorkerReply, transfer: Transferable[] = []) => (self as unknown as Worker).postMessage(msg, transfer);
 
@@ -71,31 +73,57 @@ function handleIndex(msg: IndexRequest): void {
   post(reply, transfer);
 }
 
-/** The last decoded window, kept so that a new filter on the same window needs no reading or decoding. */
-let cached: { key: string; result: ReturnType<MiniSeedCollector['finish']> } | null = null;
+type Decoded = ReturnType<MiniSeedCollector['finish']>;
+type DecodedChannel = Decoded['channels'][number];
+
+/**
+ * What this worker keeps of the view's last windows (window key -> channel key -> decoded channel),
+ * so that a new filter on the same window, or more rows of it, needs no reading or decoding of what
+ * is already here. Only channels asked for are kept (a read range may hold parts of others). The
+ * oldest window goes first.
+ */
+const kept = new Map<string, Map<string, DecodedChannel>>();
 
 function handleWindow(msg: WindowRequest): void {
-  let res;
-  if (msg.chunks.length === 0 && cached && cached.key === msg.cacheKey) {
-    res = cached.result;
+  const t0 = performance.now();
+  let channels: DecodedChannel[];
+  let errors: WindowReply['errors'] = [];
+  if (msg.chunks.length === 0) {
+    const had = kept.get(msg.cacheKey);
+    if (!had || msg.channels.some((c) => !had.has(c))) {
+      post({ type: 'fail', id: msg.id, message: NOT_KEPT });
+      return;
+    }
+    channels = msg.channels.map((c) => had.get(c)!);
   } else {
     const c = new MiniSeedCollector();
     const files = msg.chunks.map((ch) => c.addFile(ch.path));
     msg.chunks.forEach((ch, i) => c.scan(files[i], ch.bytes, ch.base, true));
     c.plan();
     msg.chunks.forEach((ch, i) => c.decode(files[i], ch.bytes, ch.base));
-    res = c.finish();
-    cached = { key: msg.cacheKey, result: res };
+    const res = c.finish();
+    errors = res.files.flatMap((f) => f.errors.map((e) => ({ path: f.path, ...e })));
+    const wanted = new Set(msg.channels);
+    channels = res.channels.filter((ch) => wanted.has(channelKey(ch.id)));
+    if (msg.keep) {
+      const into = kept.get(msg.cacheKey) ?? new Map<string, DecodedChannel>();
+      kept.delete(msg.cacheKey);
+      kept.set(msg.cacheKey, into);
+      for (const ch of channels) into.set(channelKey(ch.id), ch);
+      while (kept.size > KEPT_WINDOWS) kept.delete(kept.keys().next().value!);
+    }
   }
-  const wanted = new Set(msg.channels);
+  const t1 = performance.now();
+  let filterMs = 0;
   const pieces: WindowPiece[] = [];
   const notes: string[] = [];
   const transfer: Transferable[] = [];
-  for (const ch of res.channels) {
+  for (const ch of channels) {
     const key = channelKey(ch.id);
-    if (!wanted.has(key) || ch.segments.length === 0) continue;
+    if (ch.segments.length === 0) continue;
     let filtered: Float64Array[] | null = null;
     if (msg.filter) {
+      const f0 = performance.now();
       try {
         const f = designForChannel(msg.filter, ch.segments[0].sampleRate);
         if (f.note) notes.push(`${key}: ${f.note}`);
@@ -103,14 +131,18 @@ function handleWindow(msg: WindowRequest): void {
       } catch (err) {
         notes.push(`${key}: not filtered: ${err instanceof Error ? err.message : err}`);
       }
+      filterMs += performance.now() - f0;
     }
     ch.segments.forEach((seg, si) => {
       const piece = trim(key, seg, filtered ? filtered[si] : null, msg.start, msg.end);
-      if (piece) { pieces.push(piece); transfer.push(piece.samples.buffer); }
+      if (!piece) return;
+      pieces.push(piece);
+      transfer.push(piece.samples.buffer);
+      for (const lv of piece.envelope.levels) transfer.push(lv.min.buffer, lv.max.buffer);
     });
   }
-  const errors = res.files.flatMap((f) => f.errors.map((e) => ({ path: f.path, ...e })));
-  const reply: WindowReply = { type: 'window', id: msg.id, pieces, notes, errors };
+  const packMs = performance.now() - t1 - filterMs;
+  const reply: WindowReply = { type: 'window', id: msg.id, pieces, notes, errors, timing: { decodeMs: msg.chunks.length ? t1 - t0 : 0, filterMs, packMs } };
   post(reply, transfer);
 }
 
@@ -131,7 +163,10 @@ function trim(key: string, seg: Segment, values: Float64Array | null, start: num
     const r = Math.abs(seg.samples[i]);
     if (r > rawPeak) rawPeak = r;
   }
-  return { key, start: sampleTime(seg, i0), sampleRate: rate, samples: out, rawPeak, clipped: flatTopped(seg.samples, i0, i1, rawPeak) };
+  return {
+    key, start: sampleTime(seg, i0), sampleRate: rate, samples: out, rawPeak, clipped: flatTopped(seg.samples, i0, i1, rawPeak),
+    envelope: buildEnvelope(out),
+  };
 }
 
 /**

@@ -22,6 +22,11 @@ export class WorkerPool {
     }
   }
 
+  /** Number of workers. */
+  get size(): number {
+    return this.workers.length;
+  }
+
   /** Sends a request to the least busy worker; `transfer` hands buffers over without copying. */
   request<R extends WorkerReply>(req: Unnumbered<WorkerRequest>, transfer: Transferable[] = [], worker?: number): Promise<R> {
     const id = this.nextId++;

@@ -8,7 +8,7 @@
  */
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
-import { rowColumns, type ComponentTrace } from './rowData';
+import { placeColumn, rowColumns, type ComponentTrace } from './rowData';
 
 export interface SiteRow {
   /** "NET.STA". */
@@ -62,6 +62,8 @@ interface PlotSlot {
   series: number;
   rowIndex: number;
   row: SiteRow | null;
+  /** What the plot last drew, so an unchanged row is not drawn again. */
+  drawn: { row: SiteRow; x0: number; x1: number; width: number; amplitude: 'trace' | 'common'; common: number; ranges: [number, number][] } | null;
 }
 
 const TRACE_COLOURS = ['var(--trace)', 'var(--trace)', 'var(--trace)'];
@@ -99,10 +101,11 @@ export class TraceView {
     this.scroller.append(this.spacer);
     this.root.append(this.axisHost, this.scroller, this.selectBox);
     container.append(this.root);
-    this.scroller.addEventListener('scroll', () => this.schedule());
+    this.scroller.addEventListener('scroll', () => { this.box = null; this.schedule(); });
     this.bindPointer();
-    this.resizeObserver = new ResizeObserver(() => { this.rebuildAxis(); this.schedule(true); });
+    this.resizeObserver = new ResizeObserver(() => { this.box = null; this.rebuildAxis(); this.schedule(true); });
     this.resizeObserver.observe(this.root);
+    this.resizeObserver.observe(this.scroller);
   }
 
   destroy(): void {
@@ -125,6 +128,34 @@ export class TraceView {
     this.drawNow(true);
     // Same span, new reference time: the labels must be formatted again.
     this.axis?.redraw(false, true);
+  }
+
+  /**
+   * Replaces the rows on the same span and keeps the zoom; only rows whose objects changed are drawn
+   * again (e.g. rows whose samples arrived after the rows in view were drawn).
+   */
+  updateRows(rows: SiteRow[]): void {
+    this.rows = rows;
+    this.layout();
+    this.schedule();
+  }
+
+  /** Indices [first, last] of the rows of `rows` that the view would show at its scroll position. */
+  rowsInView(rows: readonly SiteRow[]): [number, number] {
+    const { top, height } = this.viewBox();
+    const bottom = top + Math.max(height, 1);
+    let first = -1;
+    let last = -1;
+    let y = 0;
+    for (let i = 0; i < rows.length && y <= bottom; i++) {
+      const h = this.rowHeight(rows[i]);
+      if (y + h >= top) {
+        if (first < 0) first = i;
+        last = i;
+      }
+      y += h;
+    }
+    return [first, last];
   }
 
   /** Re-draws after the samples of some rows changed (e.g. a new filter). */
@@ -200,9 +231,20 @@ export class TraceView {
   revealRow(index: number): void {
     const top = this.rowTop(index);
     const h = this.rowHeight(this.rows[index]);
+    this.box = null;
     if (top < this.scroller.scrollTop) this.scroller.scrollTop = top;
     else if (top + h > this.scroller.scrollTop + this.scroller.clientHeight) this.scroller.scrollTop = top + h - this.scroller.clientHeight;
   }
+
+  /**
+   * The scroller's scroll position and size, read once and kept until it scrolls or resizes: reading
+   * them while the page has pending changes would force a layout in the middle of drawing.
+   */
+  private viewBox(): { top: number; height: number; width: number } {
+    this.box ??= { top: this.scroller.scrollTop, height: this.scroller.clientHeight, width: this.scroller.clientWidth };
+    return this.box;
+  }
+  private box: { top: number; height: number; width: number } | null = null;
 
   private plotRect(): { left: number; width: number } {
     const r = this.scroller.getBoundingClientRect();
@@ -266,35 +308,66 @@ export class TraceView {
 
   private drawNow(rebuild: boolean): void {
     const t0 = performance.now();
-    this.drawRows(rebuild);
+    const margin = this.drawRows(rebuild, false);
     this.lastDrawMs = performance.now() - t0;
+    // Rows just below the view (ready for scrolling) are drawn in the next frame, after the visible
+    // rows have been painted; anything drawn since supersedes this.
+    if (margin && !this.rafPending) {
+      const seq = ++this.marginSeq;
+      requestAnimationFrame(() => { if (seq === this.marginSeq && !this.rafPending) this.drawRows(false, true); });
+    }
   }
+  private marginSeq = 0;
 
-  private drawRows(rebuild: boolean): void {
+  /**
+   * Draws the rows in view (with `withMargin`, also the rows of half a screen below them); returns
+   * whether rows of that margin were left out.
+   */
+  private drawRows(rebuild: boolean, withMargin: boolean): boolean {
+    this.marginSeq++;
     const [x0, x1] = this.win;
     this.axis?.setScale('x', { min: x0, max: x1 });
-    const viewTop = this.scroller.scrollTop;
-    const viewBottom = viewTop + this.scroller.clientHeight;
-    const width = Math.max(50, this.scroller.clientWidth - this.opts.labelWidth);
-    // Rows in view (plus one screen of margin below for smooth scrolling).
+    const box = this.viewBox();
+    const viewTop = box.top;
+    const viewBottom = viewTop + box.height;
+    const width = Math.max(50, box.width - this.opts.labelWidth);
+    // Rows in view (plus half a screen of margin below for smooth scrolling).
     const wanted: number[] = [];
+    const keep = new Set<number>();
+    let marginLeft = false;
     let y = 0;
     for (let i = 0; i < this.rows.length; i++) {
       const h = this.rowHeight(this.rows[i]);
-      if (y + h >= viewTop && y <= viewBottom + this.scroller.clientHeight * 0.5) wanted.push(i);
+      if (y + h >= viewTop && y <= viewBottom) wanted.push(i);
+      else if (y + h >= viewTop && y <= viewBottom + box.height * 0.5) {
+        // A margin row keeps its slot (and what it shows) until it is drawn again.
+        if (withMargin) wanted.push(i);
+        else marginLeft = true;
+        keep.add(i);
+      }
       y += h;
     }
+    for (const i of wanted) keep.add(i);
     // Free slots whose rows left the view.
-    const keep = new Set(wanted);
     const free: PlotSlot[] = [];
     for (const s of this.slots) if (!keep.has(s.rowIndex)) { s.rowIndex = -1; s.el.style.display = 'none'; free.push(s); }
     const byRow = new Map(this.slots.filter((s) => s.rowIndex >= 0).map((s) => [s.rowIndex, s]));
+    if (rebuild) for (const s of this.slots) s.drawn = null;
     let common = 0;
     const rowsData = new Map<number, ReturnType<typeof rowColumns>>();
+    const unchanged = new Set<number>();
     for (const i of wanted) {
-      const d = rowColumns(this.rows[i].components, x0, x1, width);
-      rowsData.set(i, d);
-      for (const [lo, hi] of d.ranges) if (Number.isFinite(lo)) common = Math.max(common, (hi - lo) / 2);
+      const had = byRow.get(i)?.drawn;
+      let ranges: [number, number][];
+      if (had && had.row === this.rows[i] && had.x0 === x0 && had.x1 === x1 && had.width === width) {
+        unchanged.add(i);
+        ranges = had.ranges;
+      } else {
+        const d = rowColumns(this.rows[i].components, x0, x1, width);
+        rowsData.set(i, d);
+        ranges = d.ranges;
+      }
+      for (const [lo, hi] of ranges) if (Number.isFinite(lo)) common = Math.max(common, (hi - lo) / 2);
     }
     for (const i of wanted) {
       const row = this.rows[i];
@@ -315,16 +388,17 @@ export class TraceView {
       slot.el.style.top = `${this.rowTop(i)}px`;
       const h = this.rowHeight(row);
       slot.el.style.height = `${h}px`;
-      const d = rowsData.get(i)!;
+      const drawn = slot.drawn;
+      if (unchanged.has(i) && drawn && drawn.amplitude === this.amplitude && (this.amplitude === 'trace' || drawn.common === common)) continue;
+      const d = rowsData.get(i) ?? rowColumns(row.components, x0, x1, width);
+      slot.drawn = { row, x0, x1, width, amplitude: this.amplitude, common, ranges: d.ranges };
       const nComp = row.components.length;
-      const ys = d.data.slice(1) as (number | null | undefined)[][];
-      const placed: (number | null | undefined)[][] = ys.map((col, c) => {
+      const placed = d.data.slice(1).map((col, c) => {
         const [lo, hi] = d.ranges[c];
         const mid = (lo + hi) / 2;
         const half = this.amplitude === 'common' ? common : (hi - lo) / 2;
         const scale = half > 0 ? 0.46 / half : 0;
-        const centre = nComp - c - 0.5;
-        return col.map((v) => (v === null || v === undefined ? v : centre + (v - mid) * scale));
+        return placeColumn(col, nComp - c - 0.5, mid, scale);
       });
       const data = [d.data[0], ...placed] as uPlot.AlignedData;
       if (!slot.plot || slot.series !== nComp || slot.plot.width !== width || slot.plot.height !== h - 4) {
@@ -339,6 +413,7 @@ export class TraceView {
       }
     }
     void rebuild;
+    return marginLeft;
   }
 
   private newSlot(): PlotSlot {
@@ -351,7 +426,7 @@ export class TraceView {
     plotHost.className = 'trace-plot';
     el.append(label, plotHost);
     this.spacer.append(el);
-    const slot: PlotSlot = { el, label, plotHost, plot: null, series: 0, rowIndex: -1, row: null };
+    const slot: PlotSlot = { el, label, plotHost, plot: null, series: 0, rowIndex: -1, row: null, drawn: null };
     this.slots.push(slot);
     return slot;
   }
