@@ -35,6 +35,9 @@ import { writeQuakeMl } from '../core/quakeml';
 import type { ReviewMagnitude } from '../core/review/reviewMagnitude';
 import { AmplitudeTool, drawAmplitudes, magnitudeSummary } from './picks/amplitudeLayer';
 import { el } from './dom';
+import { RadialTransverseRows, horizontalAzimuth } from './traces/radialTransverse';
+import { DepthControl, holdDepthKm } from './panels/depthControl';
+import { setFixedDepth } from '../core/location/reviewDepth';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
 
@@ -87,6 +90,14 @@ export class Desk {
   private magnitudeFor: ReviewEvent | null = null;
   private magnitudeSeq = 0;
   private siteCoords = new Map<string, SiteLocation>();
+  /** Horizontals as radial/transverse from the current location (view option, renderer/traces/radialTransverse). */
+  private readonly rotation = new RadialTransverseRows(() => this.siteCoords, (k) => horizontalAzimuth(k, this.session.channels.get(k)?.meta?.azimuth));
+  private readonly rotationBox = el('input', { type: 'checkbox', checked: false });
+  /** The event bar's fixed-depth field (renderer/panels/depthControl). */
+  private readonly depthField = new DepthControl({
+    solvedDepthKm: () => this.solvedDepthKm(), onError: (m) => this.setStatus(m),
+    onSet: (km) => { const ev = this.currentEv(); if (ev) this.apply((d) => setFixedDepth(d, ev.id, km)); },
+  });
   private model: VelocityModel = DEFAULT_MODEL;
   private modelName = 'default-model';
   private saver: ReviewSaver | null = null;
@@ -196,6 +207,7 @@ export class Desk {
     this.limitToggle.addEventListener('click', () => { this.showAllSites = !this.showAllSites; void this.reload(); });
     const amp = el('select', { title: 'Amplitude scaling' }, el('option', { value: 'trace' }, 'each trace'), el('option', { value: 'common' }, 'common'));
     amp.addEventListener('change', () => this.traces?.setAmplitudeMode(amp.value as 'trace' | 'common'));
+    this.rotationBox.addEventListener('change', () => this.run('radialTransverse'));
     const reset = el('button', { title: 'Show the whole window' }, 'Full window');
     reset.addEventListener('click', () => this.traces?.resetWindow());
     const toolbar = el('div', { className: 'sheet-toolbar' },
@@ -204,6 +216,7 @@ export class Desk {
       el('label', {}, 'Filter ', filterSelect),
       el('label', { className: 'zero-phase', title: 'Forward and backward filtering moves energy ahead of onsets: for viewing, not for picking' }, zp, ' zero-phase (view only)'),
       el('label', {}, vo, ' vertical only'),
+      el('label', { title: 'Horizontals rotated to radial and transverse with the back-azimuth from each site to the current epicentre (Y)' }, this.rotationBox, ' R/T'),
       el('label', {}, 'Show ', limit), el('label', {}, 'within ', within), this.limitToggle,
       el('label', {}, 'Scale ', amp),
       reset);
@@ -410,7 +423,7 @@ export class Desk {
     const flags = this.siteFlags(s);
     for (const key of s.channels) if ((byKey.get(key) ?? []).some((p) => p.clipped)) flags.push(`${key.split('.')[3]} clipped in this window`);
     const where = [s.stream.split('.').slice(2).join('.'), x.distanceKm === null ? '' : `${x.distanceKm.toFixed(1)} km`].filter(Boolean).join(' \u00b7 ');
-    return { key: s.site, label: s.site.split('.')[1], detail: where || undefined, components: comps, flags };
+    return this.rotation.shown({ key: s.site, label: s.site.split('.')[1], detail: where || undefined, components: comps, flags });
   }
 
   /** Last measured window load (for the status line and the benchmark). */
@@ -510,6 +523,7 @@ export class Desk {
     const h = located?.location?.ok ? located.location.value.hypocentre : null;
     this.located = ev && h ? { event: ev, epicentre: { latitude: h.latDeg, longitude: h.lonDeg } } : null;
     if (located?.location && !located.location.ok && ev && ev.picks.length > 0) this.setStatus(`not located: ${located.location.message}`);
+    if (this.rotation.setEpicentre(located?.location?.ok ? located.location.value.hypocentre : null)) this.showRotation();
     // The magnitude follows the event's picks (not selection changes): same event object, no work.
     if (ev !== this.magnitudeFor) {
       this.magnitudeFor = ev;
@@ -574,7 +588,9 @@ export class Desk {
       el('span', { className: 'ev-id' }, ev.id),
       el('span', { className: 'muted' }, ` ${p} P \u00b7 ${sCount} S `),
       this.magnitudeText,
-      el('label', {}, 'State ', state), el('label', {}, 'Type ', type, ' ', certainty), accept, merge, split, note,
+      el('label', {}, 'State ', state), el('label', {}, 'Type ', type, ' ', certainty),
+      this.depthField.show(ev),
+      accept, merge, split, note,
       el('span', { className: 'selected-pick' }, this.selectedText(ev) || this.amplitudeTool.selectedText()));
   }
 
@@ -734,7 +750,36 @@ export class Desk {
       case 'undo': if (this.history?.undo()) this.afterDocChange(true); return;
       case 'redo': if (this.history?.redo()) this.afterDocChange(true); return;
       case 'help': this.toggleHelp(); return;
+      case 'holdDepth': {
+        const z = this.solvedDepthKm();
+        if (ev && ev.fixedDepthKm !== undefined) this.apply((d) => setFixedDepth(d, ev.id, null));
+        else if (ev && z !== null) this.apply((d) => setFixedDepth(d, ev.id, holdDepthKm(z)));
+        else this.setStatus('no located event to hold the depth of');
+        return;
+      }
+      case 'radialTransverse': {
+        this.rotation.on = !this.rotation.on;
+        this.rotationBox.checked = this.rotation.on;
+        this.showRotation();
+        return;
+      }
     }
+  }
+
+  /** The open event's solved depth, km (null when not located). */
+  private solvedDepthKm(): number | null {
+    const loc = this.panels?.current.location;
+    return loc?.ok ? loc.value.hypocentre.depthKm : null;
+  }
+
+  /** Shows the rows read last again, rotated to R/T or as recorded (no new read). */
+  private showRotation(): void {
+    if (!this.traces) return;
+    const rows = this.rotation.reshow([...this.rowsBySite.values()]);
+    this.rowsBySite = new Map(rows.map((r) => [r.key, r]));
+    this.traces.updateRows(rows);
+    if (this.rotation.on && !this.rotation.active) this.setStatus('R/T needs a location of the open event');
+    else if (this.rotation.active && this.rotation.skipped.size) this.setStatus(`R/T: ${this.rotation.skipped.size} sites as recorded (${[...this.rotation.skipped.values()].slice(0, 3).join('; ')})`);
   }
 
   private helpDialog: HTMLDialogElement | null = null;
