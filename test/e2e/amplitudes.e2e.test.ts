@@ -19,7 +19,7 @@ import { searchHalfWidth } from '../../renderer/picks/amplitudeLayer';
 
 interface AmpState { id: string; channel: string; time: number; value: number; mode?: string }
 interface MagState {
-  event: string | null; ref: number; ml: number | null; uncertainty: number | null; stationCount: number; evaluationMode: string | null;
+  event: string | null; ref: number; ml: number | null; uncertainty: number | null; computeMs: number; stationCount: number; evaluationMode: string | null;
   amplitudes: AmpState[]; removed: AmpState[]; stationMagnitudes: { id: string; mag: number; amplitudeId: string | null }[]; selected: string | null;
 }
 interface SavedEdit { channel: string; kind: 'moved' | 'removed'; time?: string; halfWidth?: number }
@@ -140,7 +140,7 @@ describe('amplitude picks in the review desk: move, remove, undo, reload, export
     const moved = (microsFromIso(e.time!) - a.time) / 1e6;
     expect(moved).toBeCloseTo(60 * secondsPerPixel, 5);
     const after = (await until('ML after the move', magnitude, (m) => m !== null && m.amplitudes.some((x) => x.channel === a.channel && x.mode === 'manual')))!;
-    console.log(`amplitude moved ${moved.toFixed(3)} s (60 px at ${secondsPerPixel.toFixed(4)} s/px); ML ${first.ml!.toFixed(3)} -> ${after.ml!.toFixed(3)}; redrawn ${Date.now() - released} ms after release`);
+    console.log(`amplitude moved ${moved.toFixed(3)} s (60 px at ${secondsPerPixel.toFixed(4)} s/px); ML ${first.ml!.toFixed(3)} -> ${after.ml!.toFixed(3)}; redrawn ${Date.now() - released} ms after release (the magnitude's computation ${after.computeMs.toFixed(0)} ms)`);
     const b = after.amplitudes.find((x) => x.channel === a.channel)!;
     // Measured again: the peak within the search half-width of where it was dropped, smaller than the S peak it left.
     expect(Math.abs(b.time - microsFromIso(e.time!))).toBeLessThanOrEqual(e.halfWidth! * 1e6 + 1);
