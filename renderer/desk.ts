@@ -10,6 +10,9 @@ import { siteStreams, type SiteStreams } from './data/sites';
 import { Overview } from './overview';
 import { TraceView, type SiteRow } from './traces/traceView';
 import { makePiece, type ComponentTrace } from './traces/rowData';
+import { sheetSites, type SheetLimit, type SheetSite, type SheetSites } from './traces/sheetSites';
+import { piecesByChannel } from './data/session';
+import type { WindowPiece } from './data/protocol';
 import { EventList } from './eventList';
 import { drawPicks, hitPick, type PickMarks } from './picks/pickLayer';
 import { openReview, ReviewSaver } from './data/reviewSync';
@@ -32,6 +35,9 @@ import { writeQuakeMl } from '../core/quakeml';
 import type { ReviewMagnitude } from '../core/review/reviewMagnitude';
 import { AmplitudeTool, drawAmplitudes, magnitudeSummary } from './picks/amplitudeLayer';
 import { el } from './dom';
+import { RadialTransverseRows, horizontalAzimuth } from './traces/radialTransverse';
+import { DepthControl, holdDepthKm } from './panels/depthControl';
+import { setFixedDepth } from '../core/location/reviewDepth';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
 
@@ -61,8 +67,14 @@ export class Desk {
   private filterIndex = 1;
   private zeroPhase = false;
   private verticalOnly = false;
-  /** Sites shown: 0 for all, else the first N in arrival order. */
-  private siteLimit = 0;
+  /** Sites shown: the first N in arrival order and those within a distance (0: no limit). */
+  private siteLimit: SheetLimit = { count: 0, km: 0 };
+  /** Show the sites the limit leaves out too (after the others). */
+  private showAllSites = false;
+  private sheet: SheetSites | null = null;
+  /** The open event's epicentre as last located (for the distance limit). */
+  private located: { event: ReviewEvent; epicentre: { latitude: number; longitude: number } } | null = null;
+  private readonly limitToggle = el('button', { className: 'limit-toggle', hidden: true });
   private windowSpan: [Micros, Micros] | null = null;
   private ref: Micros = 0;
   private loadSeq = 0;
@@ -78,6 +90,14 @@ export class Desk {
   private magnitudeFor: ReviewEvent | null = null;
   private magnitudeSeq = 0;
   private siteCoords = new Map<string, SiteLocation>();
+  /** Horizontals as radial/transverse from the current location (view option, renderer/traces/radialTransverse). */
+  private readonly rotation = new RadialTransverseRows(() => this.siteCoords, (k) => horizontalAzimuth(k, this.session.channels.get(k)?.meta?.azimuth));
+  private readonly rotationBox = el('input', { type: 'checkbox', checked: false });
+  /** The event bar's fixed-depth field (renderer/panels/depthControl). */
+  private readonly depthField = new DepthControl({
+    solvedDepthKm: () => this.solvedDepthKm(), onError: (m) => this.setStatus(m),
+    onSet: (km) => { const ev = this.currentEv(); if (ev) this.apply((d) => setFixedDepth(d, ev.id, km)); },
+  });
   private model: VelocityModel = DEFAULT_MODEL;
   private modelName = 'default-model';
   private saver: ReviewSaver | null = null;
@@ -178,11 +198,16 @@ export class Desk {
     zp.addEventListener('change', () => { this.zeroPhase = zp.checked; void this.reload(); });
     const vo = el('input', { type: 'checkbox', checked: this.verticalOnly });
     vo.addEventListener('change', () => { this.verticalOnly = vo.checked; void this.reload(); });
-    const limit = el('select', { title: 'How many sites to show: all, or the first N in arrival order (the rest stay a scroll away when all are shown)' },
-      ...[['0', 'all sites'], ['6', 'first 6'], ['12', 'first 12'], ['24', 'first 24']].map(([v, label]) => el('option', { value: v, selected: Number(v) === this.siteLimit }, label)));
-    limit.addEventListener('change', () => { this.siteLimit = Number(limit.value); void this.reload(); });
+    const limit = el('select', { className: 'limit-count', title: 'How many sites to show: all, or the first N in arrival order (the rest stay a toggle away)' },
+      ...[['0', 'all sites'], ['6', 'first 6'], ['12', 'first 12'], ['24', 'first 24']].map(([v, label]) => el('option', { value: v, selected: Number(v) === this.siteLimit.count }, label)));
+    limit.addEventListener('change', () => { this.siteLimit = { ...this.siteLimit, count: Number(limit.value) }; this.showAllSites = false; void this.reload(); });
+    const within = el('select', { className: 'limit-km', title: 'Only sites within this distance of the epicentre (of the first-arriving site when the event is not located)' },
+      ...[0, 10, 20, 30, 50, 100].map((v) => el('option', { value: String(v), selected: v === this.siteLimit.km }, v ? `${v} km` : 'any distance')));
+    within.addEventListener('change', () => { this.siteLimit = { ...this.siteLimit, km: Number(within.value) }; this.showAllSites = false; void this.reload(); });
+    this.limitToggle.addEventListener('click', () => { this.showAllSites = !this.showAllSites; void this.reload(); });
     const amp = el('select', { title: 'Amplitude scaling' }, el('option', { value: 'trace' }, 'each trace'), el('option', { value: 'common' }, 'common'));
     amp.addEventListener('change', () => this.traces?.setAmplitudeMode(amp.value as 'trace' | 'common'));
+    this.rotationBox.addEventListener('change', () => this.run('radialTransverse'));
     const reset = el('button', { title: 'Show the whole window' }, 'Full window');
     reset.addEventListener('click', () => this.traces?.resetWindow());
     const toolbar = el('div', { className: 'sheet-toolbar' },
@@ -191,7 +216,8 @@ export class Desk {
       el('label', {}, 'Filter ', filterSelect),
       el('label', { className: 'zero-phase', title: 'Forward and backward filtering moves energy ahead of onsets: for viewing, not for picking' }, zp, ' zero-phase (view only)'),
       el('label', {}, vo, ' vertical only'),
-      el('label', {}, 'Show ', limit),
+      el('label', { title: 'Horizontals rotated to radial and transverse with the back-azimuth from each site to the current epicentre (Y)' }, this.rotationBox, ' R/T'),
+      el('label', {}, 'Show ', limit), el('label', {}, 'within ', within), this.limitToggle,
       el('label', {}, 'Scale ', amp),
       reset);
     const traceHost = el('div', { className: 'trace-host' });
@@ -314,45 +340,94 @@ export class Desk {
   private async reload(): Promise<void> {
     if (!this.windowSpan || !this.traces) return;
     const seq = ++this.loadSeq;
+    let drawn = () => {};
+    this.sheetDrawn = new Promise<void>((r) => { drawn = r; });
+    try {
+      await this.loadWindow(seq, drawn);
+    } finally {
+      drawn();
+    }
+  }
+
+  /** Resolves once the window being loaded has its rows in view drawn (or was superseded). */
+  private sheetDrawn: Promise<void> = Promise.resolve();
+
+  private async loadWindow(seq: number, drawn: () => void): Promise<void> {
+    if (!this.windowSpan || !this.traces) return;
     const [start, end] = this.windowSpan;
     const preset = FILTER_PRESETS[this.filterIndex];
     this.sheetTitle.textContent = `${isoFromMicros(start).slice(0, 19).replace('T', ' ')} UTC \u00b7 ${Math.round((end - start) / 1e6)} s \u00b7 ${preset.label}${this.zeroPhase && preset.filter ? ' (zero-phase view)' : ''}`;
-    const keys = this.sites.flatMap((s) => (this.verticalOnly ? s.channels.slice(0, 1) : s.channels));
+    // Order and limit the sites first (picks and coordinates only), then read the rows in view before
+    // the others, so the sheet is drawn while the rest is still being read and filtered.
+    const ev = this.currentEv();
+    const epi = this.located && this.located.event === ev ? this.located.epicentre : null;
+    const sheet = sheetSites(this.sites, ev?.picks ?? [], this.siteCoords, epi, this.showAllSites ? { count: 0, km: 0 } : this.siteLimit);
+    this.sheet = sheet;
+    const listed = this.showAllSites ? [...sheet.shown, ...sheet.hidden] : sheet.shown;
+    const channelsOf = (list: SheetSite[]) => list.flatMap((x) => (this.verticalOnly ? x.streams.channels.slice(0, 1) : x.streams.channels));
+    const empty = new Map<string, WindowPiece[]>();
+    const blank = listed.map((x) => this.siteRow(x, empty));
+    const [a, b] = this.traces.rowsInView(blank);
+    const head = a < 0 ? listed : listed.slice(a, b + 1);
     const t0 = performance.now();
-    const reply = await this.session.window(keys, start, end, preset.filter, this.zeroPhase);
+    const reply = await this.session.window(channelsOf(head), start, end, preset.filter, this.zeroPhase);
     if (seq !== this.loadSeq) return;
-    const byKey = new Map<string, typeof reply.pieces>();
-    for (const p of reply.pieces) byKey.set(p.key, [...(byKey.get(p.key) ?? []), p]);
-    const rows: SiteRow[] = [];
-    for (const s of this.sites) {
-      const comps: ComponentTrace[] = [];
-      for (const key of this.verticalOnly ? s.channels.slice(0, 1) : s.channels) {
-        const pieces = (byKey.get(key) ?? []).map((p) => makePiece((p.start - this.ref) / 1e6, p.sampleRate, p.samples));
-        comps.push({ key, label: key.split('.')[3], pieces });
-      }
-      const flags = this.siteFlags(s);
-      for (const key of s.channels) if ((byKey.get(key) ?? []).some((p) => p.clipped)) flags.push(`${key.split('.')[3]} clipped in this window`);
-      rows.push({ key: s.site, label: s.site.split('.')[1], detail: s.stream.split('.').slice(2).join('.') || undefined, components: comps, flags });
-    }
-    // Sites with picks in the open event first, in order of their first pick; then the others.
-    const first = new Map<string, number>();
-    for (const p of this.currentEv()?.picks ?? []) {
-      const site = p.channel.split('.').slice(0, 2).join('.');
-      first.set(site, Math.min(first.get(site) ?? Infinity, p.time));
-    }
-    rows.sort((a, b) => (first.get(a.key) ?? Infinity) - (first.get(b.key) ?? Infinity));
-    if (this.siteLimit > 0 && rows.length > this.siteLimit) rows.length = this.siteLimit;
+    const byKey = piecesByChannel(reply.pieces);
+    const rows = listed.map((x, i) => (a < 0 || (i >= a && i <= b) ? this.siteRow(x, byKey) : blank[i]));
     this.rowsBySite = new Map(rows.map((r) => [r.key, r]));
+    this.renderSheetLimit();
     const t1 = performance.now();
     this.traces.setRows(rows, [0, (end - start) / 1e6]);
-    await new Promise((r) => requestAnimationFrame(() => r(null)));
+    // Until painted: the frame that shows the rows, then a task after its paint.
+    await new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0)));
     const t2 = performance.now();
-    this.timings = { readMs: t1 - t0, drawMs: t2 - t1, rows: rows.length, channels: keys.length };
-    this.setStatus(`window read in ${Math.round(t1 - t0)} ms, drawn in ${Math.round(t2 - t1)} ms${reply.notes.length ? ` \u00b7 ${reply.notes[0]}` : ''}`);
+    drawn();
+    const window1 = this.session.lastWindowTiming;
+    this.timings = { readMs: t1 - t0, drawMs: t2 - t1, rows: rows.length, channels: channelsOf(listed).length, rowsDrawMs: this.traces.lastDrawMs, window: window1, allMs: t2 - t0, complete: false };
+    const notes = [...reply.notes];
+    const rest = listed.filter((_, i) => a >= 0 && (i < a || i > b));
+    if (rest.length === 0) this.timings.complete = true;
+    else {
+      const more = await this.session.window(channelsOf(rest), start, end, preset.filter, this.zeroPhase);
+      if (seq !== this.loadSeq) return;
+      const moreByKey = piecesByChannel(more.pieces);
+      const all = listed.map((x, i) => (i >= a && i <= b ? rows[i] : this.siteRow(x, moreByKey)));
+      this.rowsBySite = new Map(all.map((r) => [r.key, r]));
+      this.traces.updateRows(all);
+      await new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0)));
+      this.timings = { ...this.timings, allMs: performance.now() - t0, rest: this.session.lastWindowTiming, complete: true };
+      notes.push(...more.notes);
+    }
+    this.setStatus(`window read in ${Math.round(t1 - t0)} ms, drawn in ${Math.round(t2 - t1)} ms${notes.length ? ` \u00b7 ${notes[0]}` : ''}`);
+  }
+
+  /** The toggle beside the limits: how many sites the limits leave out, and from where distances count. */
+  private renderSheetLimit(): void {
+    const sh = this.sheet;
+    const hidden = sh?.hidden.length ?? 0;
+    this.limitToggle.hidden = hidden === 0;
+    const from = sh?.reference ? (sh.reference.kind === 'epicentre' ? 'from the epicentre' : `from ${sh.reference.site?.split('.')[1]} (first arrival)`) : 'no reference point';
+    this.limitToggle.textContent = this.showAllSites ? `hide the ${hidden} beyond the limit` : `+${hidden} more`;
+    this.limitToggle.title = `${sh?.shown.length ?? 0} sites within the limit, ${hidden} beyond it; distances ${from}`;
+    this.limitToggle.dataset.hidden = String(hidden);
+  }
+
+  /** The row of one site from its pieces (channels without pieces draw empty). */
+  private siteRow(x: SheetSite, byKey: ReadonlyMap<string, WindowPiece[]>): SiteRow {
+    const s = x.streams;
+    const comps: ComponentTrace[] = [];
+    for (const key of this.verticalOnly ? s.channels.slice(0, 1) : s.channels) {
+      const pieces = (byKey.get(key) ?? []).map((p) => makePiece((p.start - this.ref) / 1e6, p.sampleRate, p.samples, p.envelope));
+      comps.push({ key, label: key.split('.')[3], pieces });
+    }
+    const flags = this.siteFlags(s);
+    for (const key of s.channels) if ((byKey.get(key) ?? []).some((p) => p.clipped)) flags.push(`${key.split('.')[3]} clipped in this window`);
+    const where = [s.stream.split('.').slice(2).join('.'), x.distanceKm === null ? '' : `${x.distanceKm.toFixed(1)} km`].filter(Boolean).join(' \u00b7 ');
+    return this.rotation.shown({ key: s.site, label: s.site.split('.')[1], detail: where || undefined, components: comps, flags });
   }
 
   /** Last measured window load (for the status line and the benchmark). */
-  timings = { readMs: 0, drawMs: 0, rows: 0, channels: 0 };
+  timings: Record<string, unknown> & { readMs: number; drawMs: number; rows: number; channels: number } = { readMs: 0, drawMs: 0, rows: 0, channels: 0 };
 
   // ----- review document -----------------------------------------------------------------------
 
@@ -458,11 +533,16 @@ export class Desk {
     }
     this.renderEventBar();
     const located = this.panels?.update(this.currentEv(), this.siteCoords, this.model);
+    const h = located?.location?.ok ? located.location.value.hypocentre : null;
+    this.located = ev && h ? { event: ev, epicentre: { latitude: h.latDeg, longitude: h.lonDeg } } : null;
     if (located?.location && !located.location.ok && ev && ev.picks.length > 0) this.setStatus(`not located: ${located.location.message}`);
+    if (this.rotation.setEpicentre(located?.location?.ok ? located.location.value.hypocentre : null)) this.showRotation();
     // The magnitude follows the event's picks (not selection changes): same event object, no work.
     if (ev !== this.magnitudeFor) {
       this.magnitudeFor = ev;
-      void this.updateMagnitude(ev, located?.location?.ok ? located.location.value : null);
+      const loc = located?.location?.ok ? located.location.value : null;
+      // After the sheet's rows in view are drawn (a window being opened now starts before this runs).
+      void Promise.resolve().then(() => this.sheetDrawn).then(() => this.updateMagnitude(ev, loc));
     }
     this.traces?.redrawMarks();
   }
@@ -521,7 +601,9 @@ export class Desk {
       el('span', { className: 'ev-id' }, ev.id),
       el('span', { className: 'muted' }, ` ${p} P \u00b7 ${sCount} S `),
       this.magnitudeText,
-      el('label', {}, 'State ', state), el('label', {}, 'Type ', type, ' ', certainty), accept, merge, split, note,
+      el('label', {}, 'State ', state), el('label', {}, 'Type ', type, ' ', certainty),
+      this.depthField.show(ev),
+      accept, merge, split, note,
       el('span', { className: 'selected-pick' }, this.selectedText(ev) || this.amplitudeTool.selectedText()));
   }
 
@@ -681,7 +763,36 @@ export class Desk {
       case 'undo': if (this.history?.undo()) this.afterDocChange(true); return;
       case 'redo': if (this.history?.redo()) this.afterDocChange(true); return;
       case 'help': this.toggleHelp(); return;
+      case 'holdDepth': {
+        const z = this.solvedDepthKm();
+        if (ev && ev.fixedDepthKm !== undefined) this.apply((d) => setFixedDepth(d, ev.id, null));
+        else if (ev && z !== null) this.apply((d) => setFixedDepth(d, ev.id, holdDepthKm(z)));
+        else this.setStatus('no located event to hold the depth of');
+        return;
+      }
+      case 'radialTransverse': {
+        this.rotation.on = !this.rotation.on;
+        this.rotationBox.checked = this.rotation.on;
+        this.showRotation();
+        return;
+      }
     }
+  }
+
+  /** The open event's solved depth, km (null when not located). */
+  private solvedDepthKm(): number | null {
+    const loc = this.panels?.current.location;
+    return loc?.ok ? loc.value.hypocentre.depthKm : null;
+  }
+
+  /** Shows the rows read last again, rotated to R/T or as recorded (no new read). */
+  private showRotation(): void {
+    if (!this.traces) return;
+    const rows = this.rotation.reshow([...this.rowsBySite.values()]);
+    this.rowsBySite = new Map(rows.map((r) => [r.key, r]));
+    this.traces.updateRows(rows);
+    if (this.rotation.on && !this.rotation.active) this.setStatus('R/T needs a location of the open event');
+    else if (this.rotation.active && this.rotation.skipped.size) this.setStatus(`R/T: ${this.rotation.skipped.size} sites as recorded (${[...this.rotation.skipped.values()].slice(0, 3).join('; ')})`);
   }
 
   private helpDialog: HTMLDialogElement | null = null;
