@@ -79,6 +79,22 @@ describe('location in the review desk: fixed depth and radial/transverse rows (C
     await app.page.keyboard.press('y');
     await app.page.waitForFunction(() => /DPN DPE/.test(document.querySelector('.trace-row .comps')?.textContent ?? ''));
     expect((await labels())[0]).toBe('DPZ DPN DPE');
+    // Switching costs a rotation of every row and a redraw (no read): time from the key to the frame
+    // after, in the page, best of 3 (12 sites x 2 horizontals x 4,000 samples here).
+    const ms = await app.page.evaluate(async () => {
+      const one = async () => {
+        const t0 = performance.now();
+        document.dispatchEvent(new KeyboardEvent('keydown', { key: 'y', bubbles: true }));
+        await new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0)));
+        return performance.now() - t0;
+      };
+      const times: number[] = [];
+      for (let i = 0; i < 6; i++) times.push(await one());
+      return times;
+    });
+    console.log(`R/T switch to the painted frame: ${ms.map((x) => x.toFixed(0)).join(', ')} ms (on, off, ...)`);
+    expect(Math.min(...ms)).toBeLessThan(500);
+    expect((await labels())[0]).toBe('DPZ DPN DPE');
   });
 
   it('a depth typed in the event bar holds the location there, is saved in the review file, and undo frees it again', async () => {
