@@ -8,6 +8,7 @@ import { DEMO_MODEL } from '../../../core/synth/demo';
 import { renderStation } from '../../../core/synth/render';
 import { stationTruth, type TruthArrival } from '../../../core/synth/truth';
 import type { Pick } from '../../../core/pick';
+import { offsetPoint } from '../../../core/synth/geometry';
 import { quake, ringStations, tinyScenario } from '../synth/scenarioFixtures';
 import { LOCAL_SCAN_SETTINGS } from '../../../core/scan/settings';
 import { Rng } from '../../../core/synth/random';
@@ -195,5 +196,45 @@ describe('eventPicks on a distant event (S more than 10 s of P travel after the 
   it('misses those S with the local window alone (no location given)', () => {
     const errs = sErrors(eventPicks(ev, sites, sosAt, LOCAL_SCAN_SETTINGS));
     expect(errs.filter((e) => e <= 0.2)).toHaveLength(0);
+  });
+});
+
+// A local event inside the 15 km ring and one more site 110 km away that did not trigger: its P is
+// found by the re-trigger from the network's first P, and its S, some 13 s after that P, lies in the
+// window the network's first P allows (P travel time up to tP - tP_first + firstTravelMax).
+describe('eventPicks at a distant site of a local event (no trigger there)', () => {
+  it('picks P within 0.1 s and the late S within 0.2 s at the distant site', () => {
+    const ring = ringStations(6, 15);
+    const p = offsetPoint(ring[0].latitude, ring[0].longitude, 95, 0);
+    const far = { ...ring[0], code: 'T99', latitude: p.latitude, longitude: p.longitude };
+    const stations = [...ring, far];
+    const sc = tinyScenario(stations, [quake('near', 10, 2.8, 8, { strike: 120, dip: 50, rake: -60 }, 3, -2)], 70);
+    const sites = new Map<string, PickSite>();
+    const truth = new Map<string, TruthArrival[]>();
+    for (const st of stations) {
+      const rs = renderStation(sc, st.code);
+      truth.set(st.code, stationTruth(sc, rs).get('near')!);
+      const chans = rs.channels.filter((c) => c.id.location === rs.channels[0].id.location);
+      const pc = (c: (typeof chans)[number]) => ({
+        id: c.id, azimuth: c.spec.azimuth,
+        segments: [{ ...segment(c.id, Float64Array.from(c.samples)), sampleRate: c.sampleRate, start: c.start, end: c.start + ((c.samples.length - 1) * 1e6) / c.sampleRate }],
+      });
+      const hs = chans.filter((c) => Math.abs(c.spec.dip) <= 45);
+      sites.set(`XX.${st.code}`, {
+        vertical: pc(chans.find((c) => Math.abs(c.spec.dip) > 45)!), polarity: 1, position: { latitude: st.latitude, longitude: st.longitude },
+        horizontals: hs.length === 2 ? [pc(hs[0]), pc(hs[1])] : null,
+      });
+    }
+    const trig = ring.map((st) => {
+      const on = truth.get(st.code)![0].timeMicros + 300_000;
+      return { id: { network: 'XX', station: st.code, location: '', channel: 'HHZ' }, on, off: on + 5e6, peakRatio: 10, peakTime: on, start: on - 10e6, end: on + 30e6, endedBy: 'ratio' as const };
+    }).sort((a, b) => a.on - b.on);
+    const ev: CandidateEvent = { id: 'XX.near', time: trig[0].on, start: trig[0].start, end: trig[5].end, sites: trig.map((t) => `XX.${t.id.station}`), triggers: trig, secondary: [] };
+    const picks = eventPicks(ev, sites, (rate) => butterworth(4, [2, 15], 'bandpass', rate), LOCAL_SCAN_SETTINGS);
+    const [tp, ts] = truth.get('T99')!;
+    expect((ts.timeMicros - tp.timeMicros) / 1e6).toBeGreaterThan(10);
+    const at = (phase: 'P' | 'S') => picks.find((k) => k.waveformId.station === 'T99' && k.phaseHint === phase);
+    expect(Math.abs(at('P')!.time - tp.timeMicros) / 1e6).toBeLessThanOrEqual(0.1);
+    expect(Math.abs(at('S')!.time - ts.timeMicros) / 1e6).toBeLessThanOrEqual(0.2);
   });
 });
