@@ -19,7 +19,11 @@
  *   travel time; coincidence with core/pick's default slowest velocity, 3 km/s. Daybreak's choices:
  *   the windows follow the rule "scale them with the dominant period"; the band was chosen among
  *   10-120, 2-200 and 5-150 Hz on the five real events of ../shared/data/real-microseismic (so the
- *   test on those events is not independent of this choice).
+ *   test on those events is not independent of this choice). pickEventSites runs without its phase
+ *   check (sShare 1: no onset is taken as S): geophones at distances comparable to the source depth
+ *   see P arrive far from vertical, so P energy need not be mostly vertical; on the real events the
+ *   check took one P for S and lost it. Its other windows are scaled as above (energy share over
+ *   0.05 s, P sought at most 0.5 s before an onset).
  */
 import type { FilterRequest } from '../dsp/designForChannel';
 import { LOCAL_EARTHQUAKE_BUSY, type EventPickOptions, type OnsetOptions, type StaLtaOptions, type SWindowOptions } from '../pick';
@@ -87,7 +91,7 @@ export const NEAR_SCAN_SETTINGS: ScanSettings = Object.freeze<ScanSettings>({
   sWindow: {},
   firstTravelMax: 0.5,
   maxPTravelTime: 0.5,
-  eventPicking: { shareSeconds: 0.05, maxSMinusP: 0.5 },
+  eventPicking: { sShare: 1, shareSeconds: 0.05, maxSMinusP: 0.5 },
   chunkSeconds: 600,
   filterPad: 1,
 });
