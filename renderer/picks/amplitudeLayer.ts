@@ -118,6 +118,19 @@ export function drawAmplitudes(m: RowMarksContext, marks: AmplitudeMarks): void 
     ctx.stroke();
     ctx.fillText('out of ML', x + 6 * pxRatio, y0);
   }
+  // A station magnitude from a channel the row does not show (e.g. a strong-motion sensor beside
+  // the broadband): its label at the peak time in the first horizontal band, naming the channel.
+  const shown = new Set(row.components.map((c) => c.key));
+  const ampById = new Map(marks.amplitudes.map((a) => [a.id, a]));
+  for (const sm of marks.stationMagnitudes) {
+    const a = sm.amplitudeId ? ampById.get(sm.amplitudeId) : undefined;
+    const key = a ? keyOf(a) : null;
+    if (!a || a.time === null || key === null || shown.has(key) || !key.startsWith(`${row.key}.`) || row.components.length < 2) continue;
+    const [bTop] = m.band(1);
+    const x = m.xOf(marks.toView(a.time));
+    ctx.fillStyle = AMPLITUDE_COLOUR;
+    ctx.fillText(`ML ${sm.mag.toFixed(1)} (${key.split('.').slice(2).join('.')})`, x + 6 * pxRatio, bTop + 3 * pxRatio);
+  }
   const d = marks.drag;
   if (d) {
     const band = row.components.findIndex((c) => c.key === d.channel);

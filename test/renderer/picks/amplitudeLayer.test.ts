@@ -1,11 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import {
-  AmplitudeTool, hitAmplitude, magnitudeSummary, movedAmplitudeWindow, searchHalfWidth, type AmplitudeMarks,
+  AmplitudeTool, drawAmplitudes, hitAmplitude, magnitudeSummary, movedAmplitudeWindow, searchHalfWidth, type AmplitudeMarks,
 } from '../../../renderer/picks/amplitudeLayer';
 import { EMPTY_REVIEW, History, addEvent, type ReviewDocument } from '../../../core/review';
 import type { ReviewMagnitude } from '../../../core/review/reviewMagnitude';
 import type { QmlAmplitude, QmlMagnitude } from '../../../core/quakeml';
-import type { SiteRow } from '../../../renderer/traces/traceView';
+import type { RowMarksContext, SiteRow } from '../../../renderer/traces/traceView';
 
 const T = 1_700_000_000_000_000;
 function amp(id: string, channel: string, dt: number): QmlAmplitude {
@@ -111,5 +111,32 @@ describe('AmplitudeTool: pointer and keys to review edits', () => {
     expect(magnitudeSummary(m, history.doc.events[0])).toBe('ML 1.2 \u00b1 0.1 (3 stations) \u00b7 2 out of ML (A)');
     expect(magnitudeSummary({ ...m, magnitude: null }, null)).toBe('no ML');
     expect(magnitudeSummary(null, null)).toBe('');
+  });
+});
+
+describe('drawAmplitudes', () => {
+  /** A canvas context that records the text drawn and ignores the rest. */
+  function recorder(): { ctx: CanvasRenderingContext2D; texts: [string, number][] } {
+    const texts: [string, number][] = [];
+    const ctx = new Proxy({} as Record<string | symbol, unknown>, {
+      get: (t, k) => (k === 'fillText' ? (text: string, x: number) => texts.push([text, x]) : k in t ? t[k] : () => {}),
+      set: (t, k, v) => { t[k] = v; return true; },
+    }) as unknown as CanvasRenderingContext2D;
+    return { ctx, texts };
+  }
+  const context = (ctx: CanvasRenderingContext2D): RowMarksContext => ({
+    row, ctx, left: 0, top: 0, width: 1000, height: 102, pxRatio: 1, xOf: (t) => t * 100, band: (c) => [c * 34, c * 34 + 34],
+  });
+
+  it('labels the station magnitude at its channel, struck-out marks "out of ML", and names a channel the row does not show', () => {
+    const { ctx, texts } = recorder();
+    const hidden = { ...amp('hn', 'HNN', 6), waveformId: { network: 'XX', station: 'A', location: '10', channel: 'HNN' } };
+    drawAmplitudes(context(ctx), {
+      amplitudes: [amp('n', 'HHN', 5), hidden], removed: [amp('e', 'HHE', 5.1)],
+      stationMagnitudes: [{ id: 's1', originId: null, mag: 1.26, type: 'ML', amplitudeId: 'n', waveformId: null }, { id: 's2', originId: null, mag: 1.71, type: 'ML', amplitudeId: 'hn', waveformId: null }],
+      selected: null, toView: (t) => (t - T) / 1e6,
+    });
+    // x = 100 px per second of view time, labels 6 px right of their mark.
+    expect(texts).toEqual([['ML 1.3', 506], ['out of ML', 516], ['ML 1.7 (10.HNN)', 606]]);
   });
 });
