@@ -38,6 +38,7 @@ import { el } from './dom';
 import { RadialTransverseRows, horizontalAzimuth } from './traces/radialTransverse';
 import { DepthControl, holdDepthKm } from './panels/depthControl';
 import { setFixedDepth } from '../core/location/reviewDepth';
+import { NoteField } from './noteField';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
 
@@ -98,6 +99,8 @@ export class Desk {
     solvedDepthKm: () => this.solvedDepthKm(), onError: (m) => this.setStatus(m),
     onSet: (km) => { const ev = this.currentEv(); if (ev) this.apply((d) => setFixedDepth(d, ev.id, km)); },
   });
+  /** The event bar's note field, kept across redraws (renderer/noteField). */
+  private readonly noteField = new NoteField((id, text) => { this.apply((d) => setNote(d, id, text)); });
   private model: VelocityModel = DEFAULT_MODEL;
   private modelName = 'default-model';
   private saver: ReviewSaver | null = null;
@@ -571,6 +574,7 @@ export class Desk {
   private renderEventBar(): void {
     const ev = this.currentEv();
     if (!ev) {
+      this.noteField.flush();
       const make = el('button', { title: 'Add an event the detector missed, over this window' }, 'Make this window an event');
       make.addEventListener('click', () => { this.ensureEvent(); });
       this.eventBar.replaceChildren(el('span', { className: 'muted' }, 'Browsing: no event open. '), make);
@@ -589,14 +593,16 @@ export class Desk {
     accept.addEventListener('click', () => this.apply((d) => acceptAutomatic(d, ev.id)));
     const p = ev.picks.filter((x) => x.phase === 'P').length;
     const sCount = ev.picks.length - p;
-    const note = el('input', { type: 'text', value: ev.note, placeholder: 'note', className: 'note', title: 'A note on this event (saved when you leave the field)' });
-    note.addEventListener('change', () => this.apply((d) => setNote(d, ev.id, note.value)));
+    const note = this.noteField.show(ev);
     const events = this.doc?.events ?? [];
     const next = events[events.findIndex((e) => e.id === ev.id) + 1];
     const merge = el('button', { title: next ? `Merge the next event (${isoFromMicros(next.start).slice(11, 19)}) into this one: they are one event` : 'No later event to merge', disabled: !next }, 'Merge next');
     merge.addEventListener('click', () => { if (next) this.apply((d) => mergeEvents(d, ev.id, next.id)); void this.openEvent(ev.id); });
     const split = el('button', { title: 'Split this event in two at the centre of the view: picks before stay, picks after go to a new event' }, 'Split at centre');
     split.addEventListener('click', () => this.splitAtCentre());
+    // The note and depth fields are kept across redraws; re-attaching one drops its focus and caret.
+    const typing = document.activeElement instanceof HTMLInputElement && this.eventBar.contains(document.activeElement) ? document.activeElement : null;
+    const caret = typing ? [typing.selectionStart, typing.selectionEnd] as const : null;
     this.eventBar.replaceChildren(
       el('span', { className: 'ev-id' }, ev.id),
       el('span', { className: 'muted' }, ` ${p} P \u00b7 ${sCount} S `),
@@ -605,6 +611,10 @@ export class Desk {
       this.depthField.show(ev),
       accept, merge, split, note,
       el('span', { className: 'selected-pick' }, this.selectedText(ev) || this.amplitudeTool.selectedText()));
+    if (typing?.isConnected && caret && document.activeElement !== typing) {
+      typing.focus();
+      typing.setSelectionRange(caret[0], caret[1]);
+    }
   }
 
   private splitAtCentre(): void {

@@ -12,7 +12,7 @@ import { readQuakeMl } from '../../core/quakeml';
 const REAL = resolve(__dirname, '..', '..', '..', 'shared', 'data', 'real-microseismic');
 
 interface SavedPick { id: string; phase: string; channel: string; time: string; lower: number; upper: number; onset: string; polarity: string | null; mode: string }
-interface Saved { revision: number; events: { id: string; start: string; end: string; state: string; picks: SavedPick[] }[] }
+interface Saved { revision: number; events: { id: string; start: string; end: string; state: string; note: string; picks: SavedPick[] }[] }
 
 describe('editing picks in the review desk (Chromium, browser mode)', () => {
   let app: RunningApp;
@@ -175,6 +175,19 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     expect(saved()).toEqual(before);
     expect(await app.page.locator('.event-list li').count()).toBe(before.events.length);
     await app.page.screenshot({ path: screenshotPath('picking-reloaded') });
+  });
+
+  it('saves a note while it is typed, and keeps typing going through the redraws that saving causes', async () => {
+    const note = app.page.locator('.event-bar input.note');
+    await note.click();
+    await note.fill('');
+    await note.pressSequentially('felt nearby');
+    // Saved after a pause in typing, without leaving the field.
+    await savedWhen((x) => x.events.some((e) => e.note === 'felt nearby'));
+    await note.pressSequentially(', two reports');
+    expect(await note.inputValue()).toBe('felt nearby, two reports');
+    await savedWhen((x) => x.events.some((e) => e.note === 'felt nearby, two reports'));
+    await note.blur();
   });
 
   it('exports QuakeML and a CSV of the picks with the analyst and agency from the settings', async () => {
