@@ -210,6 +210,7 @@ async function main(): Promise<void> {
     let best = Infinity;
     let touchBest = Infinity;
     const roundRatios: number[] = [];
+    let faults = 0;
     for (let round = 0; round < ROUNDS; round++) {
       // Filling freshly allocated arrays as large as the decoded output (page faults, memory
       // bandwidth): a floor for any reader that returns the samples.
@@ -223,9 +224,11 @@ async function main(): Promise<void> {
       let roundBest = Infinity;
       for (let pass = 0; pass < 2; pass++) {
         release();
+        const faults0 = process.resourceUsage().minorPageFault;
         t0 = performance.now();
         const result = readMiniSeedBuffer(file, path);
         roundBest = Math.min(roundBest, (performance.now() - t0) / 1000);
+        faults = process.resourceUsage().minorPageFault - faults0;
         if (round === 0 && pass === 0) {
           const n = result.channels.reduce((m, ch) => m + ch.segments.reduce((k, s) => k + s.samples.length, 0), 0);
           const sum = sumSamples(result.channels.flatMap((ch) => ch.segments.map((s) => s.samples)));
@@ -260,7 +263,8 @@ async function main(): Promise<void> {
     console.log(`libmseed 2.19 msr_parse loop, samples kept per channel: ${rate(keepRate, keepBest)}`);
     console.log(`libmseed 2.19 msr_parse loop, samples dropped per record: ${rate(cRate, cBest)}`);
     console.log(`Daybreak readMiniSeedBuffer:                            ${rate(jsRate, best)}`);
-    console.log(`filling fresh arrays of the output's size: ${(touchBest * 1000).toFixed(1)} ms (part of both the reader's and the keeping loop's time)`);
+    console.log(`filling fresh arrays of the output's size: ${(touchBest * 1000).toFixed(1)} ms (part of both the reader's and the keeping loop's time); ` +
+      `page faults in one read ${faults.toLocaleString('en-US')}, the output is ${Math.ceil((totalSamples * 4) / 4096).toLocaleString('en-US')} pages of 4 KiB`);
     console.log(`ratio: ${ratio.toFixed(2)} of libmseed keeping the samples (target >= 0.7) ${ratio >= 0.7 ? 'met' : 'NOT MET'}; ${spread}`);
     console.log(`ratio against the loop that drops the samples: ${(jsRate / cRate).toFixed(2)}`);
     console.log(`Daybreak readMiniSeedFiles from disk: ${(totalSamples / fileSeconds / 1e6).toFixed(0)} M samples/s (${(fileSeconds * 1000).toFixed(1)} ms)`);
