@@ -29,11 +29,12 @@ import {
   DEFAULT_MODEL, locateReviewEvent, parseVelocityModel, siteLocations, type ReviewLocation, type SiteLocation, type VelocityModel,
 } from '../core/location';
 import { KEY_MAP, actionForKey, type KeyAction } from './keys';
-import { magnitudeRead, reviewMagnitude, withMagnitude, type RawPiece } from '../core/review/reviewMagnitude';
+import { magnitudeRead, reviewMagnitude, withMagnitude } from '../core/review/reviewMagnitude';
 import { magnitudesToCsv } from '../core/review/magnitudeCsv';
 import { writeQuakeMl } from '../core/quakeml';
 import type { ReviewMagnitude } from '../core/review/reviewMagnitude';
 import { AmplitudeTool, drawAmplitudes, magnitudeSummary } from './picks/amplitudeLayer';
+import { MagnitudeWorker } from './picks/magnitudeClient';
 import { el } from './dom';
 import { RadialTransverseRows, horizontalAzimuth } from './traces/radialTransverse';
 import { DepthControl, holdDepthKm } from './panels/depthControl';
@@ -448,28 +449,30 @@ export class Desk {
       this.traces?.redrawMarks();
       return;
     }
-    // The raw pieces are read again only when the span or channels change (a pick moved the windows);
-    // an amplitude edit re-measures from the pieces already read.
-    const readKey = `${rd.channels.join(',')}|${rd.from}|${rd.to}`;
-    let pieces = this.magnitudePieces?.key === readKey ? this.magnitudePieces.pieces : null;
-    if (!pieces) {
-      pieces = (await this.session.window(rd.channels, rd.from, rd.to, null, false, 0, false)).pieces;
-      if (seq !== this.magnitudeSeq) return;
-      this.magnitudePieces = { key: readKey, pieces };
+    // Computed in a worker (renderer/picks/magnitudeWorker), which keeps the raw pieces: they are read
+    // again only when the span or channels change (a pick moved the windows), not for an amplitude edit.
+    let r: { value: ReviewMagnitude | null; ms: number };
+    try {
+      r = await this.magnitudeWorker.compute({
+        ev, loc, evaluationStatus: quakemlStatus(ev.state), readKey: `${rd.channels.join(',')}|${rd.from}|${rd.to}`,
+        read: async () => (await this.session.window(rd.channels, rd.from, rd.to, null, false, 0, false)).pieces,
+        metas: () => this.channelMetas(), sites: () => this.siteCoords,
+      });
+    } catch (e) {
+      if (seq === this.magnitudeSeq) this.setStatus(`no magnitude: ${e instanceof Error ? e.message : e}`);
+      return;
     }
-    const t0 = performance.now();
-    this.magnitude = reviewMagnitude(ev, loc, pieces, (k) => this.session.channels.get(k)?.meta, this.siteCoords,
-      undefined, { evaluationStatus: quakemlStatus(ev.state) });
-    this.magnitudeMs = performance.now() - t0;
+    if (seq !== this.magnitudeSeq) return;
+    this.magnitude = r.value;
+    this.magnitudeMs = r.ms;
     this.magnitudeText.textContent = magnitudeSummary(this.magnitude, ev);
     this.renderEventBar();
     this.traces?.redrawMarks();
   }
 
   private readonly magnitudeText = el('span', { className: 'magnitude' });
-  /** The last raw pieces read for the magnitude, by what was asked for. */
-  private magnitudePieces: { key: string; pieces: RawPiece[] } | null = null;
-  /** Time the last magnitude computation took (response removal, Wood-Anderson, peaks), ms. */
+  private readonly magnitudeWorker = new MagnitudeWorker();
+  /** Time the last magnitude computation took in the worker (response removal, Wood-Anderson, peaks), ms. */
   private magnitudeMs = 0;
 
   private channelMetas() {
@@ -930,6 +933,7 @@ export class Desk {
     document.removeEventListener('keydown', this.onKey);
     this.traces?.destroy();
     this.session.close();
+    this.magnitudeWorker.terminate();
   }
 }
 

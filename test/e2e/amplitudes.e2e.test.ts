@@ -56,6 +56,7 @@ function reviewWithTruePicks(dir: string, truth: ReturnType<typeof writeSmallNig
 describe('amplitude picks in the review desk: move, remove, undo, reload, export (Chromium, browser mode)', () => {
   let app: RunningApp;
   let data: string;
+  const errors: string[] = [];
   const reviewFile = () => join(data, REVIEW_FILE_NAME);
   const saved = (): Saved => JSON.parse(readFileSync(reviewFile(), 'utf8'));
   const magnitude = (): Promise<MagState | null> => app.page.evaluate(() => (window as unknown as { daybreakMagnitude?: () => MagState | null }).daybreakMagnitude?.() ?? null);
@@ -97,6 +98,8 @@ describe('amplitude picks in the review desk: move, remove, undo, reload, export
     const demoDir = mkdtempSync(join(tmpdir(), 'daybreak-demo-'));
     writeFileSync(join(demoDir, DEMO_COMPLETE_MARKER), '{}');
     app = await openApp({ demoDir, width: 1400, height: 1000 });
+    app.page.on('pageerror', (e) => errors.push(e.message));
+    app.page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
     await app.page.goto(app.server.url.replace('/#', `/?scan=off&dataset=${encodeURIComponent(data)}#`));
     await app.page.locator('.trace-row').first().waitFor({ timeout: 60_000 });
   }, 120_000);
@@ -263,5 +266,9 @@ describe('amplitude picks in the review desk: move, remove, undo, reload, export
     expect(text).toContain('Shift+V');
     expect(text).toMatch(/take it out of ML, or put it back/);
     await app.page.keyboard.press('Escape');
+  });
+
+  it('raised no script errors in the page (the magnitude worker included)', () => {
+    expect(errors).toEqual([]);
   });
 });
