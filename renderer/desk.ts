@@ -14,6 +14,7 @@ import { sheetSites, type SheetLimit, type SheetSite, type SheetSites } from './
 import { piecesByChannel } from './data/session';
 import type { WindowPiece } from './data/protocol';
 import { EventList } from './eventList';
+import { EventMeasures } from './eventMeasures';
 import { drawPicks, hitPick, type PickMarks } from './picks/pickLayer';
 import { openReview, ReviewSaver } from './data/reviewSync';
 import {
@@ -109,7 +110,9 @@ export class Desk {
   private currentEvent: string | null = null;
   private selected: string | null = null;
   private drag: { pickId: string; part: 'line' | 'lower' | 'upper'; startT: number; preview: number } | null = null;
-  private readonly eventList = new EventList((id) => void this.openEvent(id));
+  /** RMS and magnitude per event for the list, worked out in the background when it is sorted by them. */
+  private readonly measures = new EventMeasures((ev) => this.locateForList(ev), (ev, loc) => this.listMagnitude(ev, loc), () => this.eventList.refresh());
+  private readonly eventList = new EventList((id) => void this.openEvent(id), (e) => this.measures.get(e), (key, events) => this.measures.want(key, events));
   private readonly eventBar = el('div', { className: 'event-bar' });
   private readonly banner = el('div', { className: 'banner', hidden: true });
 
@@ -270,7 +273,8 @@ export class Desk {
     // Read-only view state for end-to-end tests (seconds from the sheet's reference time).
     (window as unknown as { daybreakView: () => unknown }).daybreakView = () => {
       const [x0, x1] = this.traces?.window ?? [0, 0];
-      return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.lastDrawMs ?? 0, frameMs: this.traces?.lastDrawMs ?? 0 };
+      return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.lastDrawMs ?? 0, frameMs: this.traces?.lastDrawMs ?? 0,
+        sheet: this.sheet && { shown: this.sheet.shown.map((x) => x.streams.site), hidden: this.sheet.hidden.map((x) => x.streams.site), reference: this.sheet.reference, showAll: this.showAllSites } };
     };
     // Read-only magnitude state for end-to-end tests: amplitudes (times µs), removed ones, station magnitudes, ML.
     (window as unknown as { daybreakMagnitude: () => unknown }).daybreakMagnitude = () => {
@@ -365,7 +369,7 @@ export class Desk {
     // the others, so the sheet is drawn while the rest is still being read and filtered.
     const ev = this.currentEv();
     const epi = this.located && this.located.event === ev ? this.located.epicentre : null;
-    const sheet = sheetSites(this.sites, ev?.picks ?? [], this.siteCoords, epi, this.showAllSites ? { count: 0, km: 0 } : this.siteLimit);
+    const sheet = sheetSites(this.sites, ev?.picks ?? [], this.siteCoords, epi, this.siteLimit);
     this.sheet = sheet;
     const listed = this.showAllSites ? [...sheet.shown, ...sheet.hidden] : sheet.shown;
     const channelsOf = (list: SheetSite[]) => list.flatMap((x) => (this.verticalOnly ? x.streams.channels.slice(0, 1) : x.streams.channels));
@@ -468,6 +472,21 @@ export class Desk {
     this.magnitudeText.textContent = magnitudeSummary(this.magnitude, ev);
     this.renderEventBar();
     this.traces?.redrawMarks();
+  }
+
+  /** The event's location for the list (4 picks at least), or null. */
+  private locateForList(ev: ReviewEvent): ReviewLocation | null {
+    if (ev.picks.length < 4) return null;
+    const r = locateReviewEvent(ev, this.siteCoords, this.model);
+    return r.ok ? r.value : null;
+  }
+
+  /** The event's ML for the list, as the event bar works it out (null when there is none). */
+  private async listMagnitude(ev: ReviewEvent, loc: ReviewLocation): Promise<number | null> {
+    const rd = magnitudeRead(ev, loc, this.channelMetas(), this.siteCoords);
+    if (!rd) return null;
+    const { pieces } = await this.session.window(rd.channels, rd.from, rd.to, null, false, 0, false);
+    return reviewMagnitude(ev, loc, pieces, (k) => this.session.channels.get(k)?.meta, this.siteCoords, undefined, { evaluationStatus: quakemlStatus(ev.state) })?.magnitude?.mag ?? null;
   }
 
   private readonly magnitudeText = el('span', { className: 'magnitude' });
@@ -754,6 +773,9 @@ export class Desk {
         if (id) void this.openEvent(id);
         return;
       }
+      case 'sortNext': this.eventList.nextSortKey(); return;
+      case 'sortReverse': this.eventList.reverse(); return;
+      case 'filterNext': this.eventList.nextFilter(); return;
       case 'markDone': if (ev) this.apply((d) => setState(d, ev.id, 'done')); return;
       case 'discardEvent': if (ev) this.apply((d) => setState(d, ev.id, 'discarded')); return;
       case 'filter1': case 'filter2': case 'filter3': case 'filter4': case 'filter5': case 'filter6': {

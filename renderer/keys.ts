@@ -13,6 +13,9 @@
  * Thumb and reach keys: Tab / Shift+Tab next / previous event, Enter marks the event done,
  * Backspace discards it, 1-6 filter presets, arrows pan, Ctrl+Z / Ctrl+Shift+Z undo / redo,
  * ? shows this map.
+ * The event list, with the key above Tab (Tab walks the list in its order): ` sorts by the next key
+ * (time, state, sites, RMS, magnitude), ~ (Shift+`) turns the order round; Shift+Enter (beside
+ * Enter, which sets a state) shows the next review state only (all, not done, to do, ...).
  */
 export type KeyAction =
   | 'placeP' | 'placeS' | 'deletePick' | 'toggleStationAmplitudes'
@@ -20,7 +23,7 @@ export type KeyAction =
   | 'polarityPositive' | 'polarityUndecidable' | 'polarityNegative'
   | 'widen' | 'uncertaintyFromZoom' | 'narrow'
   | 'zoomToPick' | 'wholeWindow' | 'acceptAutomatic'
-  | 'nextEvent' | 'previousEvent' | 'markDone' | 'discardEvent'
+  | 'nextEvent' | 'previousEvent' | 'markDone' | 'discardEvent' | 'sortNext' | 'sortReverse' | 'filterNext'
   | 'filter1' | 'filter2' | 'filter3' | 'filter4' | 'filter5' | 'filter6'
   | 'panLeft' | 'panRight' | 'undo' | 'redo' | 'help'
   | 'holdDepth' | 'radialTransverse';
@@ -51,6 +54,9 @@ export const KEY_MAP: readonly KeyBinding[] = [
   { group: 'Events', keys: 'Shift+Tab', action: 'previousEvent', what: 'previous event' },
   { group: 'Events', keys: 'Enter', action: 'markDone', what: 'mark the event done' },
   { group: 'Events', keys: 'Backspace', action: 'discardEvent', what: 'discard the event (not an event)' },
+  { group: 'Events', keys: '`', action: 'sortNext', what: 'sort the list by the next key (time, state, sites, RMS, magnitude)' },
+  { group: 'Events', keys: '~ (Shift+`)', action: 'sortReverse', what: 'turn the list\u2019s order round' },
+  { group: 'Events', keys: 'Shift+Enter', action: 'filterNext', what: 'list only the next review state (all, not done, to do, \u2026)' },
   { group: 'View', keys: '1 \u2026 6', action: 'filter1', what: 'filter presets' },
   { group: 'View', keys: '\u2190 \u2192', action: 'panLeft', what: 'pan by a quarter window' },
   { group: 'View', keys: 'wheel / drag / right-drag', action: 'wholeWindow', what: 'zoom at the pointer / zoom to a box / pan' },
@@ -82,6 +88,9 @@ export function actionForKey(e: Pick<KeyboardEvent, 'key' | 'ctrlKey' | 'metaKey
   }
   if (e.altKey) return null;
   if (e.key === 'Tab') return e.shiftKey ? 'previousEvent' : 'nextEvent';
+  if (e.key === 'Enter' && e.shiftKey) return 'filterNext';
+  if (e.key === '`') return 'sortNext';
+  if (e.key === '~') return 'sortReverse';
   if (e.shiftKey && (e.key === 'V' || e.key === 'v')) return 'toggleStationAmplitudes';
   return PLAIN[e.key.length === 1 ? e.key.toLowerCase() : e.key] ?? (e.key === '?' ? 'help' : null);
 }

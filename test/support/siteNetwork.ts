@@ -45,8 +45,9 @@ export interface ReviewedEvent {
   /** Seconds before the origin the event's window starts, and its length. */
   before: number;
   length: number;
-  /** Sites (indices) given a P pick on HHZ and an S pick on HHN at the true arrival times. */
+  /** Sites (indices) given a P pick on HHZ and (unless `pOnly`) an S pick on HHN at the true arrival times. */
   sites: number[];
+  pOnly?: boolean;
   state: ReviewState;
 }
 
@@ -67,7 +68,7 @@ export async function writeNetworkDataset(root: string, sc: Scenario, reviewed: 
     doc = added.doc;
     for (const i of r.sites) {
       const code = siteCode(i);
-      for (const wave of ['P', 'S'] as const) {
+      for (const wave of r.pOnly ? ['P' as const] : ['P', 'S'] as const) {
         const a = te.arrivals.find((x) => x.station === code && x.wave === wave);
         if (!a) throw new Error(`no true ${wave} arrival at ${code} for event ${te.id}`);
         doc = placePick(doc, added.eventId, { phase: wave, channel: `${sc.network.code}.${code}.00.${wave === 'P' ? 'HHZ' : 'HHN'}`, time: a.timeMicros }).doc;

@@ -1,0 +1,92 @@
+/**
+ * The event list's measures: each event's location RMS (s) and local magnitude, worked out in the
+ * background only when the list is sorted by one of them, one event at a time with a pause between
+ * (so the interface stays responsive), and kept per event object: an edited event is a new object
+ * and is measured again; an unchanged one never is.
+ */
+import type { ReviewEvent } from '../core/review';
+import type { ReviewLocation } from '../core/location';
+import type { EventMeasure, SortKey } from './eventList';
+
+interface Known { location: ReviewLocation | null; located: boolean; ml: number | null; mlDone: boolean }
+
+export class EventMeasures {
+  private readonly known = new WeakMap<ReviewEvent, Known>();
+  private queue: { ev: ReviewEvent; ml: boolean }[] = [];
+  private running = false;
+
+  /**
+   * `locate` returns the event's location or null (too few picks, no solution); `magnitude` its ML or
+   * null; `changed` is called when values arrive (at most every `notifyMs`).
+   */
+  constructor(
+    private readonly locate: (ev: ReviewEvent) => ReviewLocation | null,
+    private readonly magnitude: (ev: ReviewEvent, loc: ReviewLocation) => Promise<number | null>,
+    private readonly changed: () => void,
+    private readonly notifyMs = 250,
+  ) {}
+
+  /** What is known of `ev` so far. */
+  get(ev: ReviewEvent): EventMeasure {
+    const k = this.known.get(ev);
+    return { rmsS: k?.location ? k.location.hypocentre.rmsS : null, ml: k?.ml ?? null };
+  }
+
+  /** Whether `ev` has been measured as far as the key needs. */
+  measured(ev: ReviewEvent, key: SortKey): boolean {
+    const k = this.known.get(ev);
+    return key === 'magnitude' ? !!k && k.located && (k.mlDone || !k.location) : key === 'rms' ? !!k?.located : true;
+  }
+
+  /** Starts measuring the events the list's sort key needs (nothing for keys without measures). */
+  want(key: SortKey, events: readonly ReviewEvent[]): void {
+    if (key !== 'rms' && key !== 'magnitude') return;
+    const queued = new Set(this.queue.map((q) => q.ev));
+    for (const ev of events) {
+      if (queued.has(ev) || this.measured(ev, key)) continue;
+      this.queue.push({ ev, ml: key === 'magnitude' });
+    }
+    if (!this.running && this.queue.length) void this.run();
+  }
+
+  /** Number of events waiting to be measured. */
+  get pending(): number {
+    return this.queue.length;
+  }
+
+  private async run(): Promise<void> {
+    this.running = true;
+    let lastNote = performance.now();
+    try {
+      while (this.queue.length) {
+        const { ev, ml } = this.queue.shift()!;
+        await new Promise((r) => setTimeout(r, 0));
+        let k = this.known.get(ev);
+        if (!k || !k.located) {
+          let location: ReviewLocation | null = null;
+          try {
+            location = this.locate(ev);
+          } catch {
+            location = null;
+          }
+          k = { location, located: true, ml: null, mlDone: false };
+          this.known.set(ev, k);
+        }
+        if (ml && k.location && !k.mlDone) {
+          try {
+            k.ml = await this.magnitude(ev, k.location);
+          } catch {
+            k.ml = null;
+          }
+          k.mlDone = true;
+        }
+        if (performance.now() - lastNote >= this.notifyMs || this.queue.length === 0) {
+          lastNote = performance.now();
+          this.changed();
+        }
+      }
+    } finally {
+      this.running = false;
+    }
+  }
+}

@@ -1,0 +1,41 @@
+import { describe, expect, it } from 'vitest';
+import { sitesWithPicks, sortEvents, SORT_KEYS, type EventMeasure } from '../../renderer/eventList';
+import type { ReviewEvent, ReviewPick, ReviewState } from '../../core/review';
+
+const pick = (channel: string, i: number): ReviewPick => ({
+  id: `p${i}`, phase: 'P', channel, time: i, lower: 0.1, upper: 0.1, onset: 'impulsive', polarity: null, mode: 'manual', status: 'confirmed', snr: null, questionableTiming: false,
+});
+const event = (id: string, start: number, state: ReviewState, sites: number, picksPerSite = 1): ReviewEvent => ({
+  id, source: 'detector', start, end: start + 60e6, state, type: null, typeCertainty: null, note: '',
+  picks: Array.from({ length: sites * picksPerSite }, (_, i) => pick(`XX.S${i % sites}.00.HHZ`, i)),
+});
+const events = [event('a', 3e6, 'done', 4), event('b', 1e6, 'todo', 7, 2), event('c', 2e6, 'discarded', 1), event('d', 4e6, 'started', 7)];
+const measures: Record<string, EventMeasure> = { a: { rmsS: 0.2, ml: 1.1 }, b: { rmsS: null, ml: null }, c: { rmsS: 0.05, ml: 2.5 }, d: { rmsS: 0.3, ml: null } };
+const measure = (e: ReviewEvent) => measures[e.id];
+const ids = (list: ReviewEvent[]) => list.map((e) => e.id);
+
+describe('sortEvents', () => {
+  it('counts sites with picks, not picks', () => {
+    expect(events.map(sitesWithPicks)).toEqual([4, 7, 1, 7]);
+  });
+
+  it('sorts by time, and by review state in working order (to do, started, done, discarded)', () => {
+    expect(ids(sortEvents(events, 'time', false, measure))).toEqual(['b', 'c', 'a', 'd']);
+    expect(ids(sortEvents(events, 'state', false, measure))).toEqual(['b', 'd', 'a', 'c']);
+  });
+
+  it('sorts by sites with picks, most first, ties by time; and the other way round', () => {
+    expect(ids(sortEvents(events, 'sites', true, measure))).toEqual(['b', 'd', 'a', 'c']);
+    expect(ids(sortEvents(events, 'sites', false, measure))).toEqual(['c', 'a', 'b', 'd']);
+  });
+
+  it('puts events without a value last whichever way, in time order', () => {
+    expect(ids(sortEvents(events, 'rms', true, measure))).toEqual(['d', 'a', 'c', 'b']);
+    expect(ids(sortEvents(events, 'rms', false, measure))).toEqual(['c', 'a', 'd', 'b']);
+    expect(ids(sortEvents(events, 'magnitude', true, measure))).toEqual(['c', 'a', 'b', 'd']);
+  });
+
+  it('offers time and state smallest first, sites, RMS and magnitude largest first', () => {
+    expect(SORT_KEYS.map((k) => [k.key, k.descending])).toEqual([['time', false], ['state', false], ['sites', true], ['rms', true], ['magnitude', true]]);
+  });
+});
