@@ -296,7 +296,7 @@ export class AmplitudeTool {
     if (!ev || !this.selected) return false;
     const station = this.selected.split('.').slice(0, 2).join('.');
     const keys = [...new Set([...(m?.amplitudes ?? []), ...(m?.removed ?? [])].map(keyOf).filter((k): k is string => k !== null && k.startsWith(`${station}.`)))];
-    if (keys.length === 0) return false;
+    if (keys.length === 0) { this.host.status(`no amplitudes measured at ${station}`); return true; }
     if (keys.every((k) => amplitudeEditOf(ev, k)?.kind === 'removed')) this.host.apply((d) => restoreAmplitudes(d, ev.id, keys));
     else this.host.apply((d) => removeAmplitudes(d, ev.id, keys));
     return true;
