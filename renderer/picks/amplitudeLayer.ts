@@ -18,7 +18,6 @@
  */
 import { channelKey } from '../../core/model';
 import { isoFromMicros, type Micros } from '../../core/time';
-import type { TimeWindow } from '../../core/magnitude';
 import type { QmlAmplitude, QmlStationMagnitude } from '../../core/quakeml';
 import { amplitudeEditOf, moveAmplitude, removeAmplitudes, restoreAmplitudes, type ReviewDocument, type ReviewEvent } from '../../core/review';
 import type { ReviewMagnitude } from '../../core/review/reviewMagnitude';
@@ -162,20 +161,13 @@ export function hitAmplitude(row: SiteRow, band: number, t: number, tol: number,
   return best;
 }
 
-/**
- * The window an amplitude pick dropped at `time` (µs) is measured in: ± `halfWidthS` (default
- * 0.25 s, a little more than half the 0.8 s Wood-Anderson period) around it.
- */
-export function movedAmplitudeWindow(time: Micros, halfWidthS = 0.25): TimeWindow {
-  if (!Number.isFinite(time)) throw new RangeError(`time must be finite µs, got ${time}`);
-  if (!(halfWidthS > 0)) throw new RangeError(`half width must be > 0 s, got ${halfWidthS}`);
-  const h = Math.round(halfWidthS * 1e6);
-  return { start: time - h, end: time + h };
-}
-
 /** Pixels either side of a dropped mark its peak is looked for in. */
 export const SEARCH_PIXELS = 5;
-/** Bounds of the search half-width, s: at least two samples at 100 Hz, at most 0.25 s (movedAmplitudeWindow's default). */
+/**
+ * Bounds of the search half-width, s: at least two samples either side at 100 Hz; at most 0.25 s, so
+ * the 0.5 s stretch holds at most one peak of each sign of a swing of 1 Hz or lower. Faster swings
+ * need a closer zoom, and the half-width follows the zoom.
+ */
 export const SEARCH_HALF_WIDTH_MIN = 0.02;
 export const SEARCH_HALF_WIDTH_MAX = 0.25;
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  AmplitudeTool, drawAmplitudes, hitAmplitude, magnitudeSummary, movedAmplitudeWindow, searchHalfWidth, type AmplitudeMarks,
+  AmplitudeTool, drawAmplitudes, hitAmplitude, magnitudeSummary, searchHalfWidth, type AmplitudeMarks,
 } from '../../../renderer/picks/amplitudeLayer';
 import { EMPTY_REVIEW, History, addEvent, type ReviewDocument } from '../../../core/review';
 import type { ReviewMagnitude } from '../../../core/review/reviewMagnitude';
@@ -25,12 +25,6 @@ describe('amplitude picks on the traces', () => {
     expect(hitAmplitude(row, 0, 5, 0.2, marks)).toBeNull();
     expect(hitAmplitude(row, 1, 5.7, 0.2, marks)).toBeNull();
   });
-  it('measures a dropped amplitude pick in ±0.25 s around it by default, and names a bad half width', () => {
-    expect(movedAmplitudeWindow(T)).toEqual({ start: T - 250_000, end: T + 250_000 });
-    expect(movedAmplitudeWindow(T, 0.1)).toEqual({ start: T - 100_000, end: T + 100_000 });
-    expect(() => movedAmplitudeWindow(T, 0)).toThrow('half width must be > 0 s, got 0');
-  });
-
   it('looks for a dropped peak within 5 pixels either side, kept within 0.02-0.25 s', () => {
     expect(searchHalfWidth(0.01)).toBe(0.05);
     expect(searchHalfWidth(0.001)).toBe(0.02);
