@@ -6,13 +6,25 @@
  * machine slows both alike, and the best of the rounds is reported; the outputs are compared.
  *
  * Two clocks: CPU time of the process (Node's process.cpuUsage, python's time.process_time), which a
- * machine shared with other jobs disturbs least, and wall time. Daybreak runs twice per round: with
- * a new output array per call (as scipy returns a new array) and with a reused output array (as a
- * scan that filters chunk after chunk can). A new 69 MB array costs page faults in V8 that numpy
- * mostly avoids (it asks the kernel for huge pages), so the two figures bracket the cost.
+ * machine shared with other jobs disturbs least, and wall time.
  *
- * Printed: samples/s of each, and the ratios Daybreak/scipy (target: >= 1.0 for causal and
- * zero-phase).
+ * Three ways of calling, each timed on both sides where both have it:
+ * - the whole day in one call with a new output array (scipy's only way; Daybreak's default);
+ * - the whole day into a reused output array (Daybreak's `out` option; scipy has none);
+ * - the day in 10-minute pieces (60,000 samples), each call returning a new array that is dropped
+ *   before the next, as the project's callers work (the scan filters 10-minute chunks with the state
+ *   carried; the desk filters event windows): causal with the state carried (scipy: `zi`), zero-phase
+ *   piece by piece on its own.
+ * A new output array of a whole day (69 MB) is paid for in first-touch page faults, one per 4 KB
+ * page, and on the project's build machine (a virtual machine) each costs about 3-4 us: about as much
+ * as filtering the day through four sections. numpy asks the kernel for huge pages for arrays of
+ * 4 MB and more (madvise MADV_HUGEPAGE), which JavaScript cannot do; switched off, scipy's sosfilt
+ * of this day took about 45 ms longer where we measured. So the bench also times the first touch of
+ * a new day-long Float64Array alone and prints it beside the filters. Arrays the size of the pieces
+ * come from memory the allocator already holds, for both sides.
+ *
+ * Printed: samples/s of each, the ratios Daybreak/scipy (target: >= 1.0 for causal and zero-phase)
+ * and how far the outputs agree.
  *
  *   npm run bench -- filter
  */
@@ -28,6 +40,8 @@ const here = dirname(fileURLToPath(import.meta.url));
 const SAMPLES = 8_640_000;
 const RATE = 100;
 const ROUNDS = 11;
+/** Samples per piece in the piecewise runs: 10 minutes at 100 Hz, the scan's chunk length. */
+const PIECE = 60_000;
 
 /** Present when node runs with --expose-gc (bin/bench.mjs does). */
 const gc = (globalThis as { gc?: () => void }).gc;
@@ -94,8 +108,19 @@ async function main(): Promise<void> {
 
     let causal: Float64Array = new Float64Array(0);
     let zero: Float64Array = new Float64Array(0);
+    let touched: Float64Array = new Float64Array(0);
     const reused = new Float64Array(SAMPLES);
-    const t = { jsCausal: NONE, jsCausalReused: NONE, pyCausal: NONE, jsZero: NONE, jsZeroReused: NONE, pyZero: NONE };
+    const t = {
+      jsCausal: NONE, jsCausalReused: NONE, pyCausal: NONE, jsZero: NONE, jsZeroReused: NONE, pyZero: NONE,
+      jsCausalPieces: NONE, pyCausalPieces: NONE, jsZeroPieces: NONE, pyZeroPieces: NONE, touch: NONE,
+    };
+    const causalPieces = (): void => {
+      const state = new Float64Array(sos.length / 3);
+      for (let a = 0; a < SAMPLES; a += PIECE) sosfilt(sos, x.subarray(a, a + PIECE), { state });
+    };
+    const zeroPieces = (): void => {
+      for (let a = 0; a < SAMPLES; a += PIECE) sosfiltfilt(sos, x.subarray(a, a + PIECE));
+    };
     for (let r = 0; r < ROUNDS; r++) {
       t.jsCausal = bestOf(t.jsCausal, time(() => { causal = sosfilt(sos, x); }));
       t.pyCausal = bestOf(t.pyCausal, await askTime('causal'));
@@ -103,27 +128,49 @@ async function main(): Promise<void> {
       t.jsZero = bestOf(t.jsZero, time(() => { zero = sosfiltfilt(sos, x); }));
       t.pyZero = bestOf(t.pyZero, await askTime('zerophase'));
       t.jsZeroReused = bestOf(t.jsZeroReused, time(() => { sosfiltfilt(sos, x, { out: reused }); }));
+      t.jsCausalPieces = bestOf(t.jsCausalPieces, time(causalPieces));
+      t.pyCausalPieces = bestOf(t.pyCausalPieces, await askTime(`causal_pieces ${PIECE}`));
+      t.jsZeroPieces = bestOf(t.jsZeroPieces, time(zeroPieces));
+      t.pyZeroPieces = bestOf(t.pyZeroPieces, await askTime(`zerophase_pieces ${PIECE}`));
+      t.touch = bestOf(t.touch, time(() => {
+        touched = new Float64Array(SAMPLES);
+        for (let i = 0; i < SAMPLES; i += 512) touched[i] = 1;
+      }));
     }
     writeFileSync(join(dir, 'causal.f64'), bytes(causal));
     writeFileSync(join(dir, 'zero.f64'), bytes(zero));
     const agreement = JSON.parse(await ask(`compare ${join(dir, 'causal.f64')} ${join(dir, 'zero.f64')}`)) as { causal: number; zerophase: number };
+    // The piecewise results, computed again untimed and joined, against scipy's piecewise results.
+    const state = new Float64Array(sos.length / 3);
+    for (let a = 0; a < SAMPLES; a += PIECE) {
+      causal.set(sosfilt(sos, x.subarray(a, a + PIECE), { state }), a);
+      zero.set(sosfiltfilt(sos, x.subarray(a, a + PIECE)), a);
+    }
+    writeFileSync(join(dir, 'causal.f64'), bytes(causal));
+    writeFileSync(join(dir, 'zero.f64'), bytes(zero));
+    const pieceAgreement = JSON.parse(await ask(`compare_pieces ${PIECE} ${join(dir, 'causal.f64')} ${join(dir, 'zero.f64')}`)) as { causal: number; zerophase: number };
     py.stdin.write('quit\n');
 
     const ms = (s: number) => `${(SAMPLES / s / 1e6).toFixed(1).padStart(6)} M samples/s`;
-    const row = (name: string, v: Timing) => console.log(`  ${name.padEnd(34)} cpu ${ms(v.cpu)}   wall ${ms(v.wall)}`);
+    const row = (name: string, v: Timing) => console.log(`  ${name.padEnd(40)} cpu ${ms(v.cpu)}   wall ${ms(v.wall)}`);
     const ratio = (js: Timing, py: Timing) => `cpu ${(py.cpu / js.cpu).toFixed(2)}x, wall ${(py.wall / js.wall).toFixed(2)}x`;
     console.log(`data: ${SAMPLES.toLocaleString('en')} float64 samples (one channel-day at ${RATE} Hz); Butterworth band-pass order 4, 1-20 Hz, ${sos.length / 6} sections; best of ${ROUNDS} alternating rounds`);
     console.log(`reference: scipy ${versions.scipy}, numpy ${versions.numpy} (python3), same samples and sections`);
-    const report = (title: string, name: string, fresh: Timing, reusedOut: Timing, scipy: Timing, agree: number) => {
+    const report = (title: string, name: string, fresh: Timing, reusedOut: Timing, scipy: Timing, jsPieces: Timing, pyPieces: Timing, agree: number, agreePieces: number) => {
       console.log(title);
-      row(`Daybreak ${name}, new output`, fresh);
-      row(`Daybreak ${name}, reused output`, reusedOut);
-      row(`scipy ${name}`, scipy);
-      console.log(`  ratio Daybreak/scipy: new output ${ratio(fresh, scipy)}; reused output ${ratio(reusedOut, scipy)} (target >= 1.0x)`);
-      console.log(`  outputs agree to ${agree.toExponential(1)} of the peak`);
+      row(`Daybreak ${name}, whole day, new output`, fresh);
+      row(`Daybreak ${name}, whole day, reused output`, reusedOut);
+      row(`scipy ${name}, whole day`, scipy);
+      row(`Daybreak ${name}, ${PIECE}-sample pieces`, jsPieces);
+      row(`scipy ${name}, ${PIECE}-sample pieces`, pyPieces);
+      console.log(`  ratio Daybreak/scipy, whole day: new output ${ratio(fresh, scipy)}; reused output ${ratio(reusedOut, scipy)} (target >= 1.0x)`);
+      console.log(`  ratio Daybreak/scipy, pieces (new output each): ${ratio(jsPieces, pyPieces)} (target >= 1.0x)`);
+      console.log(`  outputs agree to ${agree.toExponential(1)} of the peak (whole day), ${agreePieces.toExponential(1)} (pieces)`);
     };
-    report('causal', 'sosfilt', t.jsCausal, t.jsCausalReused, t.pyCausal, agreement.causal);
-    report('zero-phase', 'sosfiltfilt', t.jsZero, t.jsZeroReused, t.pyZero, agreement.zerophase);
+    report('causal', 'sosfilt', t.jsCausal, t.jsCausalReused, t.pyCausal, t.jsCausalPieces, t.pyCausalPieces, agreement.causal, pieceAgreement.causal);
+    report('zero-phase', 'sosfiltfilt', t.jsZero, t.jsZeroReused, t.pyZero, t.jsZeroPieces, t.pyZeroPieces, agreement.zerophase, pieceAgreement.zerophase);
+    console.log(`first touch of a new ${SAMPLES.toLocaleString('en')}-sample Float64Array (page faults alone, no filtering): cpu ${(t.touch.cpu * 1000).toFixed(1)} ms, wall ${(t.touch.wall * 1000).toFixed(1)} ms`);
+    touched = new Float64Array(0);
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

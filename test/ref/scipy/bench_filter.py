@@ -6,6 +6,11 @@ Reads float64 little-endian samples and sections (6 per section), prints "ready"
 line per command on stdin:
   causal | zerophase      -> "WALL CPU": seconds of one call by time.perf_counter and by
                              time.process_time (this process's CPU time), result kept
+  causal_pieces N         -> "WALL CPU" of filtering the samples in pieces of N, causal with the
+                             state carried from piece to piece (sosfilt with zi), each piece's
+                             output a new array dropped before the next (as a streaming caller)
+  zerophase_pieces N      -> the same with sosfiltfilt on each piece on its own
+  compare_pieces N CAUSAL ZERO -> as compare, against the piecewise results (computed untimed)
   compare CAUSAL ZERO     -> JSON {"causal": d1, "zerophase": d2}: max |js - scipy| / max |scipy|
                              against the JavaScript outputs in those float64 files
   versions                -> JSON {"scipy": ..., "numpy": ...}
@@ -39,6 +44,34 @@ def main():
             dc = time.process_time() - c
             last[cmd[0]] = y
             print(f"{dt!r} {dc!r}", flush=True)
+        elif cmd[0] in ("causal_pieces", "zerophase_pieces"):
+            n = int(cmd[1])
+            c = time.process_time()
+            t = time.perf_counter()
+            if cmd[0] == "causal_pieces":
+                zi = np.zeros((sos.shape[0], 2))
+                for a in range(0, len(x), n):
+                    y, zi = signal.sosfilt(sos, x[a:a + n], zi=zi)
+            else:
+                for a in range(0, len(x), n):
+                    y = signal.sosfiltfilt(sos, x[a:a + n])
+            dt = time.perf_counter() - t
+            dc = time.process_time() - c
+            print(f"{dt!r} {dc!r}", flush=True)
+        elif cmd[0] == "compare_pieces":
+            n = int(cmd[1])
+            zi = np.zeros((sos.shape[0], 2))
+            causal = []
+            zero = []
+            for a in range(0, len(x), n):
+                y, zi = signal.sosfilt(sos, x[a:a + n], zi=zi)
+                causal.append(y)
+                zero.append(signal.sosfiltfilt(sos, x[a:a + n]))
+            out = {}
+            for name, path, ref in (("causal", cmd[2], np.concatenate(causal)), ("zerophase", cmd[3], np.concatenate(zero))):
+                js = np.fromfile(path, dtype="<f8")
+                out[name] = float(np.max(np.abs(js - ref)) / np.max(np.abs(ref)))
+            print(json.dumps(out), flush=True)
         elif cmd[0] == "compare":
             out = {}
             for name, path in (("causal", cmd[1]), ("zerophase", cmd[2])):
