@@ -114,25 +114,14 @@ function handleWindow(msg: WindowRequest): void {
     }
   }
   const t1 = performance.now();
-  let filterMs = 0;
-  const pieces: WindowPiece[] = [];
   const notes: string[] = [];
+  const filteredOf = msg.filter ? filterChannels(channels, msg.filter, msg.zeroPhase, notes) : null;
+  const filterMs = performance.now() - t1;
+  const pieces: WindowPiece[] = [];
   const transfer: Transferable[] = [];
   for (const ch of channels) {
     const key = channelKey(ch.id);
-    if (ch.segments.length === 0) continue;
-    let filtered: Float64Array[] | null = null;
-    if (msg.filter) {
-      const f0 = performance.now();
-      try {
-        const f = designForChannel(msg.filter, ch.segments[0].sampleRate);
-        if (f.note) notes.push(`${key}: ${f.note}`);
-        filtered = filterSegments(f.sos, ch.segments.map((s) => s.samples), { zeroPhase: msg.zeroPhase });
-      } catch (err) {
-        notes.push(`${key}: not filtered: ${err instanceof Error ? err.message : err}`);
-      }
-      filterMs += performance.now() - f0;
-    }
+    const filtered = filteredOf?.get(ch) ?? null;
     ch.segments.forEach((seg, si) => {
       const piece = trim(key, seg, filtered ? filtered[si] : null, msg.start, msg.end);
       if (!piece) return;
@@ -144,6 +133,67 @@ function handleWindow(msg: WindowRequest): void {
   const packMs = performance.now() - t1 - filterMs;
   const reply: WindowReply = { type: 'window', id: msg.id, pieces, notes, errors, timing: { decodeMs: msg.chunks.length ? t1 - t0 : 0, filterMs, packMs } };
   post(reply, transfer);
+}
+
+/**
+ * Filters every channel's segments (causal unless `zeroPhase`): channels of one sample rate share one
+ * design and one `filterSegments` call, which filters each segment on its own exactly as a call per
+ * channel would (its initial state scaled to the segment's first sample) but works out that state once.
+ * Channels that cannot be filtered get a note and stay unfiltered.
+ */
+function filterChannels(channels: DecodedChannel[], filter: NonNullable<WindowRequest['filter']>, zeroPhase: boolean, notes: string[]): Map<DecodedChannel, Float64Array[]> {
+  const out = new Map<DecodedChannel, Float64Array[]>();
+  const byRate = new Map<number, DecodedChannel[]>();
+  for (const ch of channels) {
+    if (ch.segments.length === 0) continue;
+    const rate = ch.segments[0].sampleRate;
+    byRate.set(rate, [...(byRate.get(rate) ?? []), ch]);
+  }
+  const failed = (ch: DecodedChannel, err: unknown) => notes.push(`${channelKey(ch.id)}: not filtered: ${err instanceof Error ? err.message : err}`);
+  for (const [rate, group] of byRate) {
+    let f: ReturnType<typeof designForChannel>;
+    try {
+      f = designFor(filter, rate);
+    } catch (err) {
+      for (const ch of group) failed(ch, err);
+      continue;
+    }
+    if (f.note) for (const ch of group) notes.push(`${channelKey(ch.id)}: ${f.note}`);
+    let all: Float64Array[] | null = null;
+    try {
+      all = filterSegments(f.sos, group.flatMap((ch) => ch.segments.map((s) => s.samples)), { zeroPhase });
+    } catch {
+      all = null; // one bad channel: filter them one by one below, so only it is left unfiltered
+    }
+    let k = 0;
+    for (const ch of group) {
+      if (all) {
+        out.set(ch, all.slice(k, k + ch.segments.length));
+        k += ch.segments.length;
+        continue;
+      }
+      try {
+        out.set(ch, filterSegments(f.sos, ch.segments.map((s) => s.samples), { zeroPhase }));
+      } catch (err) {
+        failed(ch, err);
+      }
+    }
+  }
+  return out;
+}
+
+/** Filter designs by request and sample rate: designed once, not once per channel (about 1 ms each). */
+const designs = new Map<string, ReturnType<typeof designForChannel>>();
+
+function designFor(filter: NonNullable<WindowRequest['filter']>, sampleRate: number): ReturnType<typeof designForChannel> {
+  const key = `${JSON.stringify(filter)}@${sampleRate}`;
+  let f = designs.get(key);
+  if (!f) {
+    f = designForChannel(filter, sampleRate);
+    if (designs.size > 64) designs.clear();
+    designs.set(key, f);
+  }
+  return f;
 }
 
 /** The part of a segment inside [start, end), as float32 for display. */

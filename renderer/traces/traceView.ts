@@ -219,7 +219,8 @@ export class TraceView {
 
   /** Seconds per CSS pixel at the current zoom. */
   secondsPerPixel(): number {
-    return (this.win[1] - this.win[0]) / this.plotRect().width;
+    // The width kept since the last scroll or resize: no layout is forced (this is asked while drawing).
+    return (this.win[1] - this.win[0]) / Math.max(1, this.viewBox().width - this.opts.labelWidth);
   }
 
   /** Asks for a redraw of marks only (picks changed). */
@@ -310,11 +311,12 @@ export class TraceView {
     const t0 = performance.now();
     const margin = this.drawRows(rebuild, false);
     this.lastDrawMs = performance.now() - t0;
-    // Rows just below the view (ready for scrolling) are drawn in the next frame, after the visible
-    // rows have been painted; anything drawn since supersedes this.
+    // Rows just below the view (ready for scrolling) are drawn once the main thread is idle, after the
+    // visible rows have been painted (a frame callback would run before that paint); anything drawn
+    // since supersedes this.
     if (margin && !this.rafPending) {
       const seq = ++this.marginSeq;
-      requestAnimationFrame(() => { if (seq === this.marginSeq && !this.rafPending) this.drawRows(false, true); });
+      requestIdleCallback(() => { if (seq === this.marginSeq && !this.rafPending) this.drawRows(false, true); }, { timeout: 200 });
     }
   }
   private marginSeq = 0;

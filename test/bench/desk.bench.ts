@@ -136,6 +136,13 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
     const { lines, row } = reporter(refs);
     const opened: number[] = [];
     const all: number[] = [];
+    const parts = { read: [] as number[], draw: [] as number[], paint: [] as number[] };
+    const rparts = { read: [] as number[], draw: [] as number[], paint: [] as number[] };
+    const split = (t: Timings, into: typeof parts) => {
+      into.read.push(t.readMs);
+      into.draw.push(t.rowsDrawMs ?? NaN);
+      into.paint.push(t.drawMs);
+    };
     let last: Timings = (await view(page)).timings;
     // Open the three events in turn, three rounds (by clicking them in the list).
     for (let round = 0; round < 3; round++) {
@@ -144,6 +151,7 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
         last = await untilLoaded(page, last);
         opened.push(last.readMs + last.drawMs);
         all.push(last.allMs ?? NaN);
+        split(last, parts);
         await page.waitForTimeout(150);
       }
     }
@@ -154,12 +162,19 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
       last = await untilLoaded(page, last);
       refilter.push(last.readMs + last.drawMs);
       refilterAll.push(last.allMs ?? NaN);
+      split(last, rparts);
       await page.waitForTimeout(100);
     }
     lines.unshift(`--- generated network: ${sites} sites x 3 components x 90 s at 100 Hz (${last.channels} channels, ${last.rows} rows)`);
     row('open an event: until the rows in view are drawn', opened, budgetOpen);
+    row('  of which: read, decode and filter them (host and workers)', parts.read, null);
+    row('  of which: drawing them, until painted', parts.paint, null);
+    row('    (the drawing work itself)', parts.draw, null);
     row('  ... until every row is loaded', all, null);
     row('re-filter: until the rows in view are drawn again', refilter, 50);
+    row('  of which: filter them (workers)', rparts.read, null);
+    row('  of which: drawing them, until painted', rparts.paint, null);
+    row('    (the drawing work itself)', rparts.draw, null);
     row('  ... until every row is filtered', refilterAll, null);
     return lines;
   } finally {
