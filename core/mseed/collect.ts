@@ -66,6 +66,14 @@ interface ChannelBuild {
   overlapping: number[];
 }
 
+function newChannelBuild(id: ChannelId, index: number): ChannelBuild {
+  return { id, index, records: [], plans: [], overlapping: [] };
+}
+
+function newSegmentPlan(kind: SampleKind, rate: number, next: number): SegmentPlan {
+  return { kind, rate, records: [], total: 0, next, samples: null };
+}
+
 interface FileState {
   path: string;
   records: number;
@@ -304,6 +312,7 @@ export class MiniSeedCollector {
         }
         this.endMs3(fs);
         this.endBad(fs, base + p);
+        if (!keptHeader) keptHeader = shapeKeepers.push(parsed) > 0;
         this.remember(fs, HeaderTemplate.from(bytes, p, parsed));
         h = parsed;
       }
@@ -341,6 +350,7 @@ export class MiniSeedCollector {
   /** Keeps `t` among the file's header templates (a few streams: multiplexed files interleave them). */
   private remember(fs: FileState, t: HeaderTemplate | null): void {
     if (t === null) return;
+    if (!keptTemplate) keptTemplate = shapeKeepers.push(t) > 0;
     if (fs.templates.length >= MAX_TEMPLATES) fs.templates.shift();
     fs.templates.push(t);
   }
@@ -386,7 +396,7 @@ export class MiniSeedCollector {
       const key = channelKey(h.id);
       let ch = this.channels.get(key);
       if (ch === undefined) {
-        this.channels.set(key, (ch = { id: h.id, index: this.channelList.length, records: [], plans: [], overlapping: [] }));
+        this.channels.set(key, (ch = newChannelBuild(h.id, this.channelList.length)));
         this.channelList.push(ch);
       }
       c = ch.index;
@@ -470,7 +480,7 @@ export class MiniSeedCollector {
             continue;
           }
         }
-        cur = { kind, rate: rate[r], records: [], total: 0, next: start[r], samples: null };
+        cur = newSegmentPlan(kind, rate[r], start[r]);
         ch.plans.push(cur);
         seg[r] = ch.plans.length - 1;
         this.place(cur, r, start[r]);
@@ -773,3 +783,18 @@ export function collectBuffer(bytes: Uint8Array, path: string): MiniSeedReadResu
   c.decode(f, bytes, 0);
   return c.finish();
 }
+
+/**
+ * One object of each shape (V8 hidden class) the collector's hot code works on, kept for the life
+ * of the module. V8 holds a shape only while something uses it, and optimized code that checks for
+ * a shape is thrown away when the shape is collected. Without these, the full garbage collection
+ * that follows a read (all of the read's objects gone) discarded the collector's optimized code
+ * ("weak objects" deoptimizations: about 65 over 12 reads of a station-day), and the next read ran
+ * unoptimized until compiled again: 20-30 % slower. A header and a header template from the first
+ * record ever read are added when they are made (small: a few hundred bytes).
+ */
+const shapeKeepers: unknown[] = [new MiniSeedCollector(), new RecordTable(), newChannelBuild({ network: '', station: '', location: '', channel: '' }, -1)];
+shapeKeepers.push(newSegmentPlan(SampleKind.Int, 1, 0));
+(shapeKeepers[0] as MiniSeedCollector).addFile('');
+let keptHeader = false;
+let keptTemplate = false;
