@@ -32,6 +32,12 @@ export interface SosfiltfiltOptions {
   out?: Float64Array;
 }
 
+/**
+ * The two odd extensions of the call in progress, kept between calls (a desk re-filters hundreds of
+ * traces at a time; no call can run inside another, so one scratch serves them all).
+ */
+let padScratch = new Float64Array(64);
+
 /** Forward-backward (zero-phase) filtering of `x` by `sos`; output float64 in the units of x. */
 export function sosfiltfilt(sos: Float64Array, x: SampleArray, options: SosfiltfiltOptions = {}): Float64Array {
   const sections = sectionCount(sos);
@@ -47,8 +53,9 @@ export function sosfiltfilt(sos: Float64Array, x: SampleArray, options: Sosfiltf
   // right[t] = 2·x[n−1] − x[n−2−t], is filtered piece by piece with the state carried across
   // (so the whole length never needs a second copy): forward over left, x (into out) and right,
   // then backward over right and out. The backward pass over left is not needed.
-  const left = new Float64Array(edge);
-  const right = new Float64Array(edge);
+  if (padScratch.length < 2 * edge) padScratch = new Float64Array(2 * edge);
+  const left = padScratch.subarray(0, edge);
+  const right = padScratch.subarray(edge, 2 * edge);
   const x0 = x[0];
   const xn = x[n - 1];
   for (let t = 0; t < edge; t++) {
