@@ -273,7 +273,7 @@ export class Desk {
     // Read-only view state for end-to-end tests (seconds from the sheet's reference time).
     (window as unknown as { daybreakView: () => unknown }).daybreakView = () => {
       const [x0, x1] = this.traces?.window ?? [0, 0];
-      return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.lastDrawMs ?? 0, frameMs: this.traces?.lastDrawMs ?? 0,
+      return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.fullDrawMs ?? 0, frameMs: this.traces?.lastDrawMs ?? 0,
         sheet: this.sheet && { shown: this.sheet.shown.map((x) => x.streams.site), hidden: this.sheet.hidden.map((x) => x.streams.site), reference: this.sheet.reference, showAll: this.showAllSites } };
     };
     // Read-only magnitude state for end-to-end tests: amplitudes (times µs), removed ones, station magnitudes, ML.

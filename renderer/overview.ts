@@ -6,6 +6,9 @@
  */
 import type { Micros } from '../core/time';
 
+/** Tallest the strips get, CSS px: with many sites each strip is thinner (down to 3 px), so the event sheet keeps its room. */
+export const OVERVIEW_MAX_PX = 220;
+
 export interface OverviewSite {
   site: string;
   /** Level per absolute bin number (RMS, counts). */
@@ -43,7 +46,10 @@ export class Overview {
   private sites: OverviewSite[] = [];
   private marks: { t: Micros; label: string }[] = [];
   private cursorSpan: [Micros, Micros] | null = null;
-  private readonly rowHeight = 11;
+  /** Height of one site's strip, px: 11, smaller with many sites so the strips stay within OVERVIEW_MAX_PX. */
+  private rowHeight = 11;
+  /** The strips as last drawn (without the cursor and marks), and what they were drawn for. */
+  private base: { canvas: HTMLCanvasElement; key: string } | null = null;
   private readonly labelWidth = 96;
 
   constructor(container: HTMLElement, private readonly opts: OverviewOptions) {
@@ -71,6 +77,10 @@ export class Overview {
 
   setSites(sites: OverviewSite[]): void {
     this.sites = sites;
+    this.base = null;
+    this.rowHeight = Math.max(3, Math.min(11, Math.floor(OVERVIEW_MAX_PX / Math.max(1, sites.length))));
+    // Names need about 8 px; below that they are left out (the pointer's read-out names the site).
+    this.labels.classList.toggle('names-hidden', this.rowHeight < 8);
     this.labels.replaceChildren(...sites.map((s) => {
       const d = document.createElement('div');
       d.textContent = s.site.split('.')[1] ?? s.site;
@@ -101,32 +111,72 @@ export class Overview {
     return { t, site: this.sites[row]?.site ?? null };
   }
 
-  /** Time the last draw took, ms. */
+  /** Time the last draw took, ms; and the last one that drew the strips afresh (not only the cursor and marks). */
   lastDrawMs = 0;
+  fullDrawMs = 0;
 
   draw(): void {
     const t0 = performance.now();
+    const had = this.base;
     this.drawInner();
     this.lastDrawMs = performance.now() - t0;
+    if (this.base !== had) this.fullDrawMs = this.lastDrawMs;
   }
 
   private drawInner(): void {
     const width = Math.max(50, this.root.clientWidth - this.labelWidth);
     const height = Math.max(this.rowHeight, this.sites.length * this.rowHeight);
     const dpr = window.devicePixelRatio || 1;
-    this.canvas.width = Math.round(width * dpr);
-    this.canvas.height = Math.round(height * dpr);
-    this.canvas.style.width = `${width}px`;
-    this.canvas.style.height = `${height}px`;
+    const W = Math.round(width * dpr);
+    const H = Math.round(height * dpr);
+    if (this.canvas.width !== W || this.canvas.height !== H) {
+      this.canvas.width = W;
+      this.canvas.height = H;
+      this.canvas.style.width = `${width}px`;
+      this.canvas.style.height = `${height}px`;
+    }
     const ctx = this.canvas.getContext('2d');
     if (!ctx) return;
+    // The strips change only with the sites and the size: the cursor and marks are drawn over a copy.
+    const key = `${W}x${H}`;
+    if (this.base?.key !== key) {
+      const c = document.createElement('canvas');
+      c.width = W;
+      c.height = H;
+      const bctx = c.getContext('2d');
+      if (!bctx) return;
+      this.drawStrips(bctx, W, H, dpr);
+      this.base = { canvas: c, key };
+    }
+    ctx.drawImage(this.base.canvas, 0, 0);
+    const [t0, t1] = this.opts.span;
+    const xOf = (t: Micros) => ((t - t0) / (t1 - t0)) * W;
+    if (this.cursorSpan) {
+      ctx.strokeStyle = '#56b4e9';
+      ctx.lineWidth = Math.max(1, dpr);
+      const a = xOf(this.cursorSpan[0]);
+      const b = xOf(this.cursorSpan[1]);
+      ctx.strokeRect(a, 0.5, Math.max(2, b - a), this.canvas.height - 1);
+    }
+    ctx.fillStyle = '#ffffff';
+    for (const m of this.marks) {
+      const x = xOf(m.t);
+      ctx.beginPath();
+      ctx.moveTo(x - 4 * dpr, 0);
+      ctx.lineTo(x + 4 * dpr, 0);
+      ctx.lineTo(x, 6 * dpr);
+      ctx.fill();
+    }
+  }
+
+  /** The sites' strips, coloured by level, into a W x H (device pixels) context. */
+  private drawStrips(ctx: CanvasRenderingContext2D, W: number, H: number, dpr: number): void {
     const [t0, t1] = this.opts.span;
     const bin = this.opts.binMicros;
     const firstBin = Math.floor(t0 / bin);
     const lastBin = Math.floor(t1 / bin);
     const nBins = lastBin - firstBin + 1;
-    const img = ctx.createImageData(this.canvas.width, this.canvas.height);
-    const W = this.canvas.width;
+    const img = ctx.createImageData(W, H);
     const rowPx = this.rowHeight * dpr;
     this.sites.forEach((s, row) => {
       const values = [...s.levels.values()].filter((v) => v > 0).sort((a, b) => a - b);
@@ -153,22 +203,5 @@ export class Overview {
       }
     });
     ctx.putImageData(img, 0, 0);
-    const xOf = (t: Micros) => ((t - t0) / (t1 - t0)) * W;
-    if (this.cursorSpan) {
-      ctx.strokeStyle = '#56b4e9';
-      ctx.lineWidth = Math.max(1, dpr);
-      const a = xOf(this.cursorSpan[0]);
-      const b = xOf(this.cursorSpan[1]);
-      ctx.strokeRect(a, 0.5, Math.max(2, b - a), this.canvas.height - 1);
-    }
-    ctx.fillStyle = '#ffffff';
-    for (const m of this.marks) {
-      const x = xOf(m.t);
-      ctx.beginPath();
-      ctx.moveTo(x - 4 * dpr, 0);
-      ctx.lineTo(x + 4 * dpr, 0);
-      ctx.lineTo(x, 6 * dpr);
-      ctx.fill();
-    }
   }
 }

@@ -41,7 +41,7 @@ async function untilLoaded(page: Page, prev: Timings): Promise<Timings> {
   throw new Error('the window did not load within 30 s');
 }
 
-interface Refs { frame: number; emptyFrame: number; cpu: number }
+interface Refs { frame: number; emptyFrame: number; cpu: number; shared: string }
 
 // Page scripts are given as text: tsx would add helper calls to compiled functions that the page lacks.
 async function references(page: Page): Promise<Refs> {
@@ -61,12 +61,16 @@ async function references(page: Page): Promise<Refs> {
       for (let i = 0; i < x.length; i++) { const y = ((i * 7919) % 1000) * 1e-3 + 1.6 * a - 0.64 * b; b = a; a = y; x[i] = y; }
       return performance.now() - t0 + x[12345] * 0; })()`)) as number);
   }
-  return { frame, emptyFrame: med(empties), cpu: med(cpus) };
+  const shared = (await page.evaluate('`${typeof SharedArrayBuffer} ${self.crossOriginIsolated}`')) as string;
+  return { frame, emptyFrame: med(empties), cpu: med(cpus), shared };
 }
 
 function reporter(refs: Refs) {
   const lines: string[] = [];
   lines.push(`references: one animation frame ${refs.frame.toFixed(1)} ms; an empty frame until painted ${refs.emptyFrame.toFixed(1)} ms; CPU reference ${refs.cpu.toFixed(1)} ms`);
+  // Without COOP/COEP headers the page is not cross-origin isolated and has no SharedArrayBuffer:
+  // samples go to and from the workers as transferred buffers (moved, not copied).
+  lines.push(`SharedArrayBuffer, cross-origin isolated: ${refs.shared}`);
   const row = (what: string, ms: number[], budget: number | null) => {
     const m = med(ms);
     const spread = ms.length > 1 ? ` [${Math.min(...ms).toFixed(0)}-${Math.max(...ms).toFixed(0)}, n=${ms.length}]` : '';
@@ -91,7 +95,7 @@ async function demoFigures(): Promise<string[]> {
     const { lines, row } = reporter(refs);
     lines.unshift('--- the demo night (14 sites, 10 h)');
     row(`index the night (decode ${v0.timings.channels} channels in workers)`, [v0.openMs], null);
-    row('draw the night overview after decoding', [v0.overviewMs], 500);
+    row('draw the night overview after decoding (the strips in full)', [v0.overviewMs], 500);
     const box = (await page.locator('canvas.overview-canvas').boundingBox())!;
     await page.mouse.move(box.x + 300, box.y + 400);
     const pans: number[] = [];
