@@ -12,18 +12,21 @@
  * - the whole day in one call with a new output array (scipy's only way; Daybreak's default);
  * - the whole day into a reused output array (Daybreak's `out` option; scipy has none);
  * - the day in 10-minute pieces (60,000 samples), each call returning a new array that is dropped
- *   before the next, as the project's callers work (the scan filters 10-minute chunks with the state
- *   carried; the desk filters event windows): causal with the state carried (scipy: `zi`), zero-phase
- *   piece by piece on its own.
+ *   before the next, as a streaming caller without a buffer of its own works (the scan filters
+ *   10-minute chunks with the state carried, but into a buffer it reuses; the desk filters event
+ *   windows into new arrays): causal with the state carried (scipy: `zi`), zero-phase piece by
+ *   piece on its own.
  * A new output array of a whole day (69 MB) is paid for in first-touch page faults, one per 4 KB
  * page, and on the project's build machine (a virtual machine) each costs about 3-4 us: about as much
- * as filtering the day through four sections. numpy asks the kernel for huge pages for arrays of
- * 4 MB and more (madvise MADV_HUGEPAGE), which JavaScript cannot do; switched off, scipy's sosfilt
- * of this day took about 45 ms longer where we measured. So the bench also times the first touch of
+ * as filtering the day through four sections. numpy asks the kernel for huge pages for its large
+ * arrays (madvise MADV_HUGEPAGE), which JavaScript cannot do; switched off (numpy's
+ * _set_madvise_hugepage(False)), scipy's sosfilt of this day took about 45 ms longer where we
+ * measured (148 ms instead of 104 ms, CPU time, at load 8). So the bench also times the first touch of
  * a new day-long Float64Array alone and prints it beside the filters. The pieces do not escape it
  * either: numpy frees a dropped piece at once and the next one reuses its memory, but V8 frees
  * dropped arrays only at its next garbage collection, so Daybreak's new pieces keep landing on new
- * pages (about 17,000 page faults per day of pieces, as many as one day-long array). What avoids the
+ * pages (about 14,000 page faults per day of pieces where we counted, against about 17,000 for one
+ * day-long array). What avoids the
  * cost is an output array that is reused, as the scan's trigger stream does (core/scan/triggerStream).
  *
  * Printed: samples/s of each, the ratios Daybreak/scipy (target: >= 1.0 for causal and zero-phase)
