@@ -9,12 +9,14 @@
  * loop-carried chain from one z1 to the next is one multiply and one subtract instead of an add, a
  * multiply and a subtract, which made the loop about 1.6 times faster where we measured (x86-64,
  * Node 20). The folded coefficients are computed with a single rounding (see foldedCoefficient).
- * The inner loops run two sections per pass over a block of samples with every coefficient and
- * state in local variables (two independent recurrences keep the floating-point units busy).
+ * The inner loops run four sections per pass over a block of samples (then two, then one for the
+ * rest) with every coefficient and state in local variables (independent recurrences keep the
+ * floating-point units busy).
  *
  * Speed: a reused `out` array is worth having for long inputs — a fresh 69 MB Float64Array costs
- * about as much in first-touch page faults as filtering it through four sections
- * (test/bench/filter.bench.ts prints both).
+ * about as much in first-touch page faults as filtering it through four sections, and V8 returns a
+ * dropped array's memory only at its next garbage collection, so many short calls with fresh
+ * outputs pay the same (test/bench/filter.bench.ts prints each way of calling beside scipy).
  */
 import type { SampleArray } from '../model';
 import { checkSamples, outputArray } from './checkSamples';
