@@ -413,11 +413,13 @@ export class Desk {
   private renderSheetLimit(): void {
     const sh = this.sheet;
     const hidden = sh?.hidden.length ?? 0;
-    this.limitToggle.hidden = hidden === 0;
     const from = sh?.reference ? (sh.reference.kind === 'epicentre' ? 'from the epicentre' : `from ${sh.reference.site?.split('.')[1]} (first arrival)`) : 'no reference point';
-    this.limitToggle.textContent = this.showAllSites ? `hide the ${hidden} beyond the limit` : `+${hidden} more`;
-    this.limitToggle.title = `${sh?.shown.length ?? 0} sites within the limit, ${hidden} beyond it; distances ${from}`;
-    this.limitToggle.dataset.hidden = String(hidden);
+    const text = this.showAllSites ? `hide the ${hidden} beyond the limit` : `+${hidden} more`;
+    const title = `${sh?.shown.length ?? 0} sites within the limit, ${hidden} beyond it; distances ${from}`;
+    // Written only when changed (a new filter on the same window changes none of it).
+    if (this.limitToggle.hidden !== (hidden === 0)) this.limitToggle.hidden = hidden === 0;
+    if (this.limitToggle.textContent !== text) this.limitToggle.textContent = text;
+    if (this.limitToggle.title !== title) this.limitToggle.title = title;
   }
 
   /** The row of one site from its pieces (channels without pieces draw empty). */

@@ -62,6 +62,8 @@ interface PlotSlot {
   series: number;
   rowIndex: number;
   row: SiteRow | null;
+  /** What the label says (see labelText). */
+  says: string;
   /** What the plot last drew, so an unchanged row is not drawn again. */
   drawn: { row: SiteRow; x0: number; x1: number; width: number; amplitude: 'trace' | 'common'; common: number; ranges: [number, number][] } | null;
 }
@@ -379,11 +381,16 @@ export class TraceView {
         slot.rowIndex = i;
         rebuild = true;
       }
-      // A slot shows whatever row now sits at its index: relabel when that row changed.
+      // A slot shows whatever row now sits at its index: relabel when what the label says changed
+      // (a new filter makes new row objects with the same labels).
       if (slot.row !== row) {
         slot.row = row;
-        slot.label.replaceChildren(labelContent(row));
-        slot.el.title = row.flags?.join('\n') ?? '';
+        const says = labelText(row);
+        if (says !== slot.says) {
+          slot.says = says;
+          slot.label.replaceChildren(labelContent(row));
+          slot.el.title = row.flags?.join('\n') ?? '';
+        }
       }
       slot.el.style.display = '';
       slot.el.classList.toggle('hovered', row.key === this.highlighted);
@@ -428,7 +435,7 @@ export class TraceView {
     plotHost.className = 'trace-plot';
     el.append(label, plotHost);
     this.spacer.append(el);
-    const slot: PlotSlot = { el, label, plotHost, plot: null, series: 0, rowIndex: -1, row: null, drawn: null };
+    const slot: PlotSlot = { el, label, plotHost, plot: null, series: 0, rowIndex: -1, row: null, drawn: null, says: '' };
     this.slots.push(slot);
     return slot;
   }
@@ -553,6 +560,11 @@ export class TraceView {
     const y = clientY - r.top + this.scroller.scrollTop - this.rowTop(rowIndex);
     return Math.min(this.rows[rowIndex].components.length - 1, Math.max(0, Math.floor(y / this.opts.bandHeight)));
   }
+}
+
+/** Everything a row's label shows, as one string (to tell whether it changed). */
+function labelText(row: SiteRow): string {
+  return [row.label, row.detail ?? '', row.components.map((c) => c.label).join(' '), ...(row.flags ?? [])].join('\u0001');
 }
 
 function labelContent(row: SiteRow): DocumentFragment {
