@@ -85,6 +85,27 @@ export function decodeAscii(b: Uint8Array, p: number, count: number): string {
   return latin1.decode(b.subarray(p, p + count)).replace(/[\0\s]+$/, '');
 }
 
+/**
+ * Float records may carry NaN or infinite values (IEEE 754 allows them; the SEED manual does not
+ * define their meaning). Filters and STA/LTA carry a NaN forward through their state, so one such
+ * sample would blank the rest of a trace: the record is refused instead (the caller reports it with
+ * its file and offset and leaves a gap where it was). Returns 0 (clean) or throws with the reason.
+ */
+function finiteOrThrow(out: ArrayLike<number>, at: number, count: number): 0 {
+  let bad = 0;
+  let first = -1;
+  for (let i = 0; i < count; i++) {
+    const v = out[at + i];
+    if (v - v !== 0) {
+      if (bad++ === 0) first = i;
+    }
+  }
+  if (bad > 0) {
+    throw new Error(`${bad} of ${count} samples are not finite numbers (NaN or infinity; the first is sample ${first} of the record); record left out`);
+  }
+  return 0;
+}
+
 /** What a record's data decoding found: 0 clean, 1 Steim integration constant mismatch. */
 export type DecodeOutcome = 0 | 1;
 
@@ -105,8 +126,8 @@ export function decodeSamples(
     case 1: decodeInt16(b, p, count, le, out as Int32Array, at); return 0;
     case 2: decodeInt24(b, p, count, le, out as Int32Array, at); return 0;
     case 3: decodeInt32(b, p, count, le, out as Int32Array, at); return 0;
-    case 4: decodeFloat32(b, p, count, le, out as Float32Array, at); return 0;
-    case 5: decodeFloat64(b, p, count, le, out as Float64Array, at); return 0;
+    case 4: decodeFloat32(b, p, count, le, out as Float32Array, at); return finiteOrThrow(out, at, count);
+    case 5: decodeFloat64(b, p, count, le, out as Float64Array, at); return finiteOrThrow(out, at, count);
     case 10: case 11: {
       const r = encoding === 10
         ? decodeSteim1(b, p, length, count, le, out as Int32Array, at)

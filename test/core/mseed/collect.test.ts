@@ -179,6 +179,22 @@ describe('bad input never loses the good records around it', () => {
     expect(ch.gaps).toEqual([{ start: T0 + 100_000, end: T0 + 150_000 }]);
   });
 
+  it('refuses a float record holding NaN or infinity, names it, and leaves a gap where it was', () => {
+    // IEEE 754 single precision has NaN and infinities; a filter would carry them on through its
+    // state, so the record is left out and reported instead of blanking the rest of the trace.
+    const withNaN = ramp(10).map((x, i) => (i === 3 ? Number.NaN : x));
+    const r = read(rec({ values: ramp(0), at: 0, encoding: 4 }), rec({ values: withNaN, at: 100_000, encoding: 4 }),
+      rec({ values: ramp(20), at: 200_000, encoding: 4 }));
+    expect(r.files[0].errors).toEqual([{ offset: 512, reason: '1 of 10 samples are not finite numbers (NaN or infinity; the first is sample 3 of the record); record left out' }]);
+    expect(r.files[0].records).toBe(2);
+    const ch = r.channels[0];
+    expect(ch.segments.map((s) => Array.from(s.samples))).toEqual([ramp(0), ramp(20)]);
+    expect(ch.gaps).toEqual([{ start: T0 + 100_000, end: T0 + 200_000 }]);
+    const inf = read(rec({ values: [1, 2, Number.POSITIVE_INFINITY, Number.NEGATIVE_INFINITY, 5], at: 0, encoding: 4 }));
+    expect(inf.files[0].errors.map((e) => e.reason)).toEqual(['2 of 5 samples are not finite numbers (NaN or infinity; the first is sample 2 of the record); record left out']);
+    expect(inf.channels).toEqual([]);
+  });
+
   it('reports a file that is not miniSEED at all clearly, once', () => {
     const xml = new TextEncoder().encode('<?xml version="1.0" encoding="UTF-8"?>\n<FDSNStationXML schemaVersion="1.2"></FDSNStationXML>\n');
     const r = readMiniSeedBuffer(xml, 'inv.xml');
