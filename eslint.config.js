@@ -12,7 +12,7 @@ const nodeBuiltins = [
 ];
 
 export default tseslint.config(
-  { ignores: ['node_modules/**', 'dist/**', 'samples/generated/**', 'test/output/**', '**/*.c'] },
+  { ignores: ['node_modules/**', 'dist/**', 'samples/generated/**', 'test/output/**', 'test/.build/**', '**/*.c'] },
   ...tseslint.configs.recommended,
   {
     rules: {
