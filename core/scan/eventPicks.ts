@@ -11,7 +11,9 @@
  * [tP_i - tP_first, tP_i - tP_first + firstTravelMax]. Events farther out than that (a regional event,
  * Sn 25 s after Pn) get a longer window: the caller may pass the earliest origin time the P picks
  * allow (eventOrigin.ts earliestOriginFromP: a P-only location), up to `maxPTravelTime` before
- * tP_first, and the P travel time's upper bound grows to tP_i minus that time.
+ * tP_first, and the P travel time's upper bound grows to tP_i minus that time. For such an event the
+ * S pick is read again on the horizontals filtered with `settings.distantSFilter` (a high-pass only;
+ * made only when asked for), as pickEventSites' step 4 describes.
  *
  * Only the data given is used, and every trace starts where the data read for the event starts, so an
  * event's picks depend on the event and the files, never on how the night was cut into chunks.
@@ -19,6 +21,7 @@
 import type { ChannelId, Segment } from '../model';
 import { channelKey } from '../model';
 import type { Micros } from '../time';
+import { designForChannel } from '../dsp/designForChannel';
 import { filterSegments } from '../dsp/filterSegments';
 import { rotateToNorthEast } from '../dsp/rotate';
 import { pickEventSites, type CandidateEvent, type EventSite, type OriginPick, type Pick, type SitePosition, type Trace } from '../pick';
@@ -110,6 +113,16 @@ export function eventPicks(
   }
   const keys = [...on.keys(), ...[...sites.keys()].filter((k) => !on.has(k))];
   const list: EventSite[] = [];
+  const wide = settings.distantSFilter;
+  const wideSos = new Map<number, Float64Array>();
+  const wideFor = (rate: number): Float64Array => {
+    let sos = wideSos.get(rate);
+    if (!sos) {
+      sos = designForChannel(wide!, rate).sos;
+      wideSos.set(rate, sos);
+    }
+    return sos;
+  };
   for (const key of keys) {
     const site = sites.get(key);
     if (!site) continue;
@@ -123,6 +136,11 @@ export function eventPicks(
     if (site.horizontals) {
       const hs = segmentAt(site.horizontals[0].segments, t);
       if (hs) h = horizontalTraces(site, sosFor(hs.sampleRate), t);
+      if (h && wide) {
+        const rate = h[0].sampleRate;
+        list.push({ vertical: z, horizontals: h, position: site.position, trigger, distantHorizontals: () => horizontalTraces(site, wideFor(rate), t) });
+        continue;
+      }
     }
     list.push({ vertical: z, horizontals: h, position: site.position, trigger });
   }
