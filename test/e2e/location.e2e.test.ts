@@ -69,7 +69,12 @@ describe('location in the review desk: fixed depth and radial/transverse rows (C
   it('Y shows radial and transverse rows with each site\'s back-azimuth, and Y again the recorded ones', async () => {
     await app.page.keyboard.press('y');
     await app.page.waitForFunction(() => /DPR DPT/.test(document.querySelector('.trace-row .comps')?.textContent ?? ''));
-    const shown = await labels();
+    // Rows in view are redrawn at once; rows kept just below the view follow when the page is idle.
+    let shown = await labels();
+    for (let i = 0; i < 40 && shown.some((l) => l !== 'DPZ DPR DPT'); i++) {
+      await app.page.waitForTimeout(50);
+      shown = await labels();
+    }
     expect(shown.length).toBeGreaterThan(5);
     for (const l of shown) expect(l).toBe('DPZ DPR DPT');
     const details = await app.page.locator('.trace-row:visible .detail').allInnerTexts();
