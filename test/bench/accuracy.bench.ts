@@ -13,8 +13,9 @@
  * Then the same through `daybreak scan` itself (test/core/scan/scanNight.ts): each night written as
  * miniSEED with its StationXML, scanned by the command, its QuakeML scored against the truth at the
  * recorded times; and the demo night as `daybreak demo --out` writes it (10 h in one scan, with its
- * faults, clock errors included), with and without its regional event.
- * `node --import tsx test/bench/accuracy.bench.ts [SEED...]`; `... scan [SEED...]` runs only the scan part.
+ * faults, clock errors included), with and without its regional event, and that event's S error per site.
+ * `node --import tsx test/bench/accuracy.bench.ts [SEED...]`; `... scan [SEED...]` runs only the scan part;
+ * `... regional` only the generated regional events (S of distant events, see below).
  */
 import { execFileSync } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
@@ -22,9 +23,12 @@ import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { demoScenario, DEMO_SEED } from '../../core/synth/demo';
+import { microsFromIso } from '../../core/time';
+import { LOCAL_SCAN_SETTINGS } from '../../core/scan/settings';
+import { regionalSErrors, REGIONAL_HELD_OUT_SEEDS, REGIONAL_TUNING_SEEDS, renderRegional } from '../core/scan/regionalEvents';
 import { demoNight, runScan, scanResult, scoreScan, writeNight, type WrittenNight } from '../core/scan/scanNight';
 import {
-  accuracyNight, mergeScores, projectChain, regionalEvents, renderNight, scenarioPiece, scoreChain, scoreTable, textbookChain, type Score,
+  accuracyNight, mergeScores, projectChain, regionalEvents, renderNight, scenarioPiece, scoreChain, scoreTable, textbookChain, type ChainResult, type Score,
 } from '../support/pickingAccuracy';
 
 export const ACCURACY_SEEDS = [101, 202, 303, 404];
@@ -45,6 +49,32 @@ function run(seeds: readonly number[]): { project: Score; floor: Score } {
     console.log(`night ${seed}: rendered in ${((t1 - t0) / 1000).toFixed(1)} s, project chain ${((t2 - t1) / 1000).toFixed(1)} s`);
   }
   return { project: mergeScores(project), floor: mergeScores(floor) };
+}
+
+// `... regional`: only the generated regional events (test/core/scan/regionalEvents.ts), S within 0.10 s
+// and 0.20 s with and without the re-read of distant events' S on high-passed horizontals.
+if (process.argv[2] === 'regional') {
+  for (const [name, seeds] of [['seeds used to choose', REGIONAL_TUNING_SEEDS], ['held-out seeds', REGIONAL_HELD_OUT_SEEDS]] as const) {
+    const rows: string[] = [];
+    const counts = { with: [0, 0], without: [0, 0], n: 0 };
+    for (const seed of seeds) {
+      const r = renderRegional(seed);
+      const e = r.scenario.events[0];
+      const withReread = regionalSErrors(r, LOCAL_SCAN_SETTINGS);
+      const without = regionalSErrors(r, { ...LOCAL_SCAN_SETTINGS, distantSFilter: null });
+      counts.n += withReread.length;
+      for (const [k, errs] of [['with', withReread], ['without', without]] as const) {
+        counts[k][0] += errs.filter((x) => Math.abs(x) <= 0.1).length;
+        counts[k][1] += errs.filter((x) => Math.abs(x) <= 0.2).length;
+      }
+      const med = (x: number[]) => [...x].filter(Number.isFinite).sort((a, b) => a - b)[x.length >> 1].toFixed(3);
+      const km = [...r.truth.values()].map((a) => a[0].epicentralKm);
+      rows.push(`seed ${seed}: ML ${e.magnitude}, depth ${e.depthKm} km, ${Math.min(...km).toFixed(0)}-${Math.max(...km).toFixed(0)} km away; median S error ${med(without)} s -> ${med(withReread)} s`);
+    }
+    console.log(`\nregional events, ${name} (${seeds.join(', ')}):\n${rows.join('\n')}`);
+    console.log(`S within 0.10 s / 0.20 s: ${counts.without[0]}/${counts.without[1]} of ${counts.n} on 2-15 Hz only, ${counts.with[0]}/${counts.with[1]} with the re-read`);
+  }
+  process.exit(0);
 }
 
 const scanOnly = process.argv[2] === 'scan';
@@ -92,6 +122,23 @@ function regionalOf(night: WrittenNight): Set<string> {
   return new Set(night.truthEvent.filter((e) => !near.has(e)));
 }
 
+/** Per site of the regional events: the scan's nearest S pick minus the recorded S arrival, or "no S pick". */
+function regionalScanSErrors(night: WrittenNight, result: ChainResult): string[] {
+  const regional = regionalOf(night);
+  const rows: [number, string][] = [];
+  night.truth.forEach((a, i) => {
+    if (a.wave !== 'S' || !regional.has(night.truthEvent[i])) return;
+    const t = microsFromIso(a.recordedTime);
+    let best = Infinity;
+    for (const p of result.picks) {
+      if (p.phaseHint === 'S' && p.waveformId.station === a.station && Math.abs(p.time - t) < Math.abs(best)) best = p.time - t;
+    }
+    const err = Number.isFinite(best) ? `${(best / 1e6).toFixed(3)} s` : 'no S pick';
+    rows.push([a.epicentralKm, `${night.truthEvent[i]} ${a.station} ${a.epicentralKm.toFixed(0)} km: ${err}`]);
+  });
+  return rows.sort((x, y) => x[0] - y[0]).map((r) => r[1]);
+}
+
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
 const work = mkdtempSync(join(tmpdir(), 'daybreak-accuracy-'));
 try {
@@ -126,6 +173,7 @@ try {
       { name: 'scan', score: scoreScan(night, result) },
       { name: 'scan, without the regional event', score: scoreScan(night, result, regionalOf(night)) },
     ]));
+    console.log(`\nregional event, S pick minus recorded S arrival per site (s; by epicentral distance):\n${regionalScanSErrors(night, result).join('\n')}`);
   }
 } finally {
   rmSync(work, { recursive: true, force: true });
