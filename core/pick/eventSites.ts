@@ -30,12 +30,14 @@
  * firstTravelMax, the upper bound of the P travel time grows to tP_i - t0, so the S window extends
  * with distance while a near event keeps its window.
  *
- * 4. S of a distant event re-read in a wider band. When the caller's `earliestOrigin` widened the S
- *    window (the event lies beyond firstTravelMax of P travel), the first S pick is read again on the
- *    site's `distantHorizontals`, when it gives them: the horizontals with only a high-pass (the
- *    scan's: 1 Hz, order 2, below which the microseism lies), by the same joint AIC in a window from
- *    `distantS.before` seconds before that pick to `distantS.after` seconds after it. The re-read
- *    pick replaces the first one when its SNR reaches `minSnr`. Why: after a few hundred km of
+ * 4. P and S of a distant event re-read in a wider band. When the caller's `earliestOrigin` widened
+ *    the S window (the event lies beyond firstTravelMax of P travel), each P pick is read again on the
+ *    site's `distantVertical` (AIC from `distantP.before` seconds before it to `distantP.after` after
+ *    it), then S is picked after that P as above and read again on the site's `distantHorizontals`
+ *    (the same joint AIC from `distantS.before` seconds before the first S pick to `distantS.after`
+ *    after it), when the site gives them: the traces with only a high-pass (the scan's: 1 Hz, order
+ *    2, below which the microseism lies). A re-read pick replaces the first one when its SNR reaches
+ *    `minSnr`. Why: after a few hundred km of
  *    attenuation (t* of S about 0.25 s at 250 km for Q = 250) the S pulse is emergent, and a causal
  *    attenuation operator sends its highest frequencies first; a band's upper corner (15 Hz for the
  *    local band) delays the rise the AIC sees, a high-pass alone keeps it. On generated regional
@@ -43,7 +45,10 @@
  *    window chosen on three seeds, checked on four others) the re-read moved the median S error from
  *    about 0.13 s late to about 0.08-0.10 s late. What is left is in the data: the generator's S
  *    pulse at 100 Hz with t* = 0.25 s reaches 1 % of its peak only about 0.09 s after the arrival
- *    time (3 % at 0.11 s; later at 200 Hz, earlier at 40 Hz).
+ *    time (3 % at 0.11 s; later at 200 Hz, earlier at 40 Hz). P (Pn, t* about 0.1 s) gains the same
+ *    way: within 0.05 s of the true P went from 19 to 35 of 41 picks on the seeds the window was
+ *    set on and from 49 to 55 of 56 on the held-out ones, the first motions given agreeing with the
+ *    true polarity as often or more.
  */
 import type { Micros } from '../time';
 import { pickP, pickS, type OnsetOptions, type SWindowOptions } from './onset';
@@ -64,6 +69,8 @@ export interface EventSite {
    * null when they cannot be made.
    */
   readonly distantHorizontals?: () => readonly [Trace, Trace] | null;
+  /** Optional, as `distantHorizontals`: the vertical with a high-pass only (step 4). */
+  readonly distantVertical?: () => Trace | null;
 }
 
 export interface EventPickOptions {
@@ -91,6 +98,8 @@ export interface EventPickOptions {
    * the module comment).
    */
   readonly earliestOrigin?: (pPicks: readonly OriginPick[]) => Micros | null;
+  /** Distant events: the P re-read window on `distantVertical`, seconds before and after the first P pick. */
+  readonly distantP: { readonly before: number; readonly after: number };
   /** Distant events: the S re-read window on `distantHorizontals`, seconds before and after the first S pick. */
   readonly distantS: { readonly before: number; readonly after: number };
 }
@@ -114,6 +123,7 @@ export const LOCAL_EVENT_PICKING: EventPickOptions = Object.freeze({
   slack: 1,
   retrigger: 2.5,
   minSnr: 2,
+  distantP: Object.freeze({ before: 0.5, after: 0.2 }),
   distantS: Object.freeze({ before: 1, after: 0.2 }),
 });
 
@@ -165,9 +175,11 @@ function resolve(options: Partial<EventPickOptions>): EventPickOptions {
   }
   if (!(o.sShare > 0 && o.sShare <= 1)) throw new RangeError(`sShare must be in (0, 1], got ${o.sShare}`);
   if (!(o.slack >= 0) || !(o.minSnr >= 0)) throw new RangeError(`slack and minSnr must be >= 0, got ${o.slack}, ${o.minSnr}`);
-  const d = o.distantS;
-  if (!d || !(d.before > 0 && d.after > 0 && Number.isFinite(d.before + d.after))) {
-    throw new RangeError(`distantS.before and distantS.after must be finite numbers > 0 (s), got ${d?.before}, ${d?.after}`);
+  for (const k of ['distantP', 'distantS'] as const) {
+    const d = o[k];
+    if (!d || !(d.before > 0 && d.after > 0 && Number.isFinite(d.before + d.after))) {
+      throw new RangeError(`${k}.before and ${k}.after must be finite numbers > 0 (s), got ${d?.before}, ${d?.after}`);
+    }
   }
   return o;
 }
@@ -239,6 +251,7 @@ export function pickEventSites(sites: readonly EventSite[], options: Partial<Eve
       distant = true;
     }
   }
+  if (distant) for (const s of states) if (s.p && s.site.distantVertical) s.p = rereadDistantP(s.site.distantVertical, s.p, o);
   const out: Pick[] = [];
   for (const s of states) {
     if (s.p) out.push(s.p);
@@ -257,6 +270,14 @@ export function pickEventSites(sites: readonly EventSite[], options: Partial<Eve
     if (sp) out.push(sp);
   }
   return out;
+}
+
+/** Step 4 of the module comment: P read again on the wide-band vertical within distantP around `p`. */
+function rereadDistantP(make: () => Trace | null, p: Pick, o: EventPickOptions): Pick {
+  const z = make();
+  if (!z) return p;
+  const r = pickP(z, p.time, { ...o.onset, before: o.distantP.before, after: o.distantP.after });
+  return r && r.snr >= o.minSnr ? r : p;
 }
 
 /**

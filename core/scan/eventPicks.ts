@@ -12,8 +12,8 @@
  * Sn 25 s after Pn) get a longer window: the caller may pass the earliest origin time the P picks
  * allow (eventOrigin.ts earliestOriginFromP: a P-only location), up to `maxPTravelTime` before
  * tP_first, and the P travel time's upper bound grows to tP_i minus that time. For such an event the
- * S pick is read again on the horizontals filtered with `settings.distantSFilter` (a high-pass only;
- * made only when asked for), as pickEventSites' step 4 describes.
+ * P and S picks are read again on the traces filtered with `settings.distantFilter` (a high-pass
+ * only; made only when asked for), as pickEventSites' step 4 describes.
  *
  * Only the data given is used, and every trace starts where the data read for the event starts, so an
  * event's picks depend on the event and the files, never on how the night was cut into chunks.
@@ -113,7 +113,7 @@ export function eventPicks(
   }
   const keys = [...on.keys(), ...[...sites.keys()].filter((k) => !on.has(k))];
   const list: EventSite[] = [];
-  const wide = settings.distantSFilter;
+  const wide = settings.distantFilter;
   const wideSos = new Map<number, Float64Array>();
   const wideFor = (rate: number): Float64Array => {
     let sos = wideSos.get(rate);
@@ -136,13 +136,15 @@ export function eventPicks(
     if (site.horizontals) {
       const hs = segmentAt(site.horizontals[0].segments, t);
       if (hs) h = horizontalTraces(site, sosFor(hs.sampleRate), t);
-      if (h && wide) {
-        const rate = h[0].sampleRate;
-        list.push({ vertical: z, horizontals: h, position: site.position, trigger, distantHorizontals: () => horizontalTraces(site, wideFor(rate), t) });
-        continue;
-      }
     }
-    list.push({ vertical: z, horizontals: h, position: site.position, trigger });
+    const hRate = h ? h[0].sampleRate : 0;
+    list.push({
+      vertical: z, horizontals: h, position: site.position, trigger,
+      ...(wide ? {
+        distantVertical: () => verticalTrace(site, wideFor(seg.sampleRate), t),
+        distantHorizontals: h ? () => horizontalTraces(site, wideFor(hRate), t) : undefined,
+      } : {}),
+    });
   }
   if (!list.some((s) => s.trigger !== null)) return [];
   return pickEventSites(list, {

@@ -10,8 +10,8 @@
  *   IASPEI NMSOP-2 IS 8.1, with a 20 s LTA so a coda does not hide the next event's P; see
  *   core/pick/presets.ts), 3 sites in coincidence, and pickEventSites with its defaults
  *   (LOCAL_EVENT_PICKING). S is sought up to a P travel time of `maxPTravelTime` = 60 s (about
- *   400 km: regional events still get their Sn, 25 s after Pn at 250 km), and the S of an event
- *   judged distant is re-read on horizontals high-passed at 1 Hz, order 2 (`distantSFilter`: above the
+ *   400 km: regional events still get their Sn, 25 s after Pn at 250 km), and the P and S of an event
+ *   judged distant are re-read on traces high-passed at 1 Hz, order 2 (`distantFilter`: above the
  *   microseism; no upper corner, see core/pick/eventSites.ts step 4; 0.75-2 Hz and orders 1-4 gave
  *   the same picks on the generated regional events it was chosen on).
  * - `near`: near-source microseismic records at about 500 Hz cut into short windows (the P a couple
@@ -26,7 +26,7 @@
  *   check (sShare 1: no onset is taken as S): geophones at distances comparable to the source depth
  *   see P arrive far from vertical, so P energy need not be mostly vertical; on the real events the
  *   check took one P for S and lost it. Its other windows are scaled as above (energy share over
- *   0.05 s, P sought at most 0.5 s before an onset); no S re-read for distant events.
+ *   0.05 s, P sought at most 0.5 s before an onset); no re-read for distant events.
  */
 import type { FilterRequest } from '../dsp/designForChannel';
 import { LOCAL_EARTHQUAKE_BUSY, type EventPickOptions, type OnsetOptions, type StaLtaOptions, type SWindowOptions } from '../pick';
@@ -58,11 +58,11 @@ export interface ScanSettings {
    */
   readonly eventPicking: Partial<Pick<EventPickOptions, 'sShare' | 'shareSeconds' | 'maxSMinusP' | 'retrigger' | 'minSnr'>>;
   /**
-   * Filter of the horizontals on which pickEventSites re-reads the S of a distant event (its step 4:
+   * Filter of the traces on which pickEventSites re-reads the P and S of a distant event (its step 4:
    * a high-pass only, so the emergent onset's first, highest frequencies are kept), designed per
    * channel; null: no re-read.
    */
-  readonly distantSFilter: FilterRequest | null;
+  readonly distantFilter: FilterRequest | null;
   /** Length of the time chunks the night is processed in, seconds. */
   readonly chunkSeconds: number;
   /**
@@ -86,7 +86,7 @@ export const LOCAL_SCAN_SETTINGS: ScanSettings = Object.freeze<ScanSettings>({
   firstTravelMax: 10,
   maxPTravelTime: 60,
   eventPicking: {},
-  distantSFilter: { kind: 'highpass' as const, order: 2, corners: 1 },
+  distantFilter: { kind: 'highpass' as const, order: 2, corners: 1 },
   chunkSeconds: 600,
   filterPad: 20,
 });
@@ -102,7 +102,7 @@ export const NEAR_SCAN_SETTINGS: ScanSettings = Object.freeze<ScanSettings>({
   firstTravelMax: 0.5,
   maxPTravelTime: 0.5,
   eventPicking: { sShare: 1, shareSeconds: 0.05, maxSMinusP: 0.5 },
-  distantSFilter: null,
+  distantFilter: null,
   chunkSeconds: 600,
   filterPad: 1,
 });

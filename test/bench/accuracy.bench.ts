@@ -25,7 +25,7 @@ import { fileURLToPath } from 'node:url';
 import { demoScenario, DEMO_SEED } from '../../core/synth/demo';
 import { microsFromIso } from '../../core/time';
 import { LOCAL_SCAN_SETTINGS } from '../../core/scan/settings';
-import { regionalSErrors, REGIONAL_HELD_OUT_SEEDS, REGIONAL_TUNING_SEEDS, renderRegional } from '../core/scan/regionalEvents';
+import { regionalErrors, REGIONAL_HELD_OUT_SEEDS, REGIONAL_TUNING_SEEDS, renderRegional } from '../core/scan/regionalEvents';
 import { demoNight, runScan, scanResult, scoreScan, writeNight, type WrittenNight } from '../core/scan/scanNight';
 import {
   accuracyNight, mergeScores, projectChain, regionalEvents, renderNight, scenarioPiece, scoreChain, scoreTable, textbookChain, type ChainResult, type Score,
@@ -51,28 +51,28 @@ function run(seeds: readonly number[]): { project: Score; floor: Score } {
   return { project: mergeScores(project), floor: mergeScores(floor) };
 }
 
-// `... regional`: only the generated regional events (test/core/scan/regionalEvents.ts), S within 0.10 s
-// and 0.20 s with and without the re-read of distant events' S on high-passed horizontals.
+// `... regional`: only the generated regional events (test/core/scan/regionalEvents.ts), P and S errors
+// with and without the re-read of distant events' picks on high-passed traces.
 if (process.argv[2] === 'regional') {
+  const within = (x: number[], lim: number) => x.filter((e) => Math.abs(e) <= lim).length;
+  const med = (x: number[]) => [...x].filter(Number.isFinite).sort((a, b) => a - b)[x.length >> 1].toFixed(3);
   for (const [name, seeds] of [['seeds used to choose', REGIONAL_TUNING_SEEDS], ['held-out seeds', REGIONAL_HELD_OUT_SEEDS]] as const) {
     const rows: string[] = [];
-    const counts = { with: [0, 0], without: [0, 0], n: 0 };
+    const all = { with: { p: [] as number[], s: [] as number[] }, without: { p: [] as number[], s: [] as number[] } };
     for (const seed of seeds) {
       const r = renderRegional(seed);
       const e = r.scenario.events[0];
-      const withReread = regionalSErrors(r, LOCAL_SCAN_SETTINGS);
-      const without = regionalSErrors(r, { ...LOCAL_SCAN_SETTINGS, distantSFilter: null });
-      counts.n += withReread.length;
-      for (const [k, errs] of [['with', withReread], ['without', without]] as const) {
-        counts[k][0] += errs.filter((x) => Math.abs(x) <= 0.1).length;
-        counts[k][1] += errs.filter((x) => Math.abs(x) <= 0.2).length;
-      }
-      const med = (x: number[]) => [...x].filter(Number.isFinite).sort((a, b) => a - b)[x.length >> 1].toFixed(3);
+      const w = regionalErrors(r, LOCAL_SCAN_SETTINGS);
+      const o = regionalErrors(r, { ...LOCAL_SCAN_SETTINGS, distantFilter: null });
+      all.with.p.push(...w.p); all.with.s.push(...w.s); all.without.p.push(...o.p); all.without.s.push(...o.s);
       const km = [...r.truth.values()].map((a) => a[0].epicentralKm);
-      rows.push(`seed ${seed}: ML ${e.magnitude}, depth ${e.depthKm} km, ${Math.min(...km).toFixed(0)}-${Math.max(...km).toFixed(0)} km away; median S error ${med(without)} s -> ${med(withReread)} s`);
+      rows.push(`seed ${seed}: ML ${e.magnitude}, depth ${e.depthKm} km, ${Math.min(...km).toFixed(0)}-${Math.max(...km).toFixed(0)} km away; median P error ${med(o.p)} s -> ${med(w.p)} s, S ${med(o.s)} s -> ${med(w.s)} s`);
     }
     console.log(`\nregional events, ${name} (${seeds.join(', ')}):\n${rows.join('\n')}`);
-    console.log(`S within 0.10 s / 0.20 s: ${counts.without[0]}/${counts.without[1]} of ${counts.n} on 2-15 Hz only, ${counts.with[0]}/${counts.with[1]} with the re-read`);
+    for (const [k, label] of [['without', 'on 2-15 Hz only'], ['with', 'with the re-read']] as const) {
+      const { p, s } = all[k];
+      console.log(`${label}: P within 0.05 s / 0.10 s ${within(p, 0.05)}/${within(p, 0.1)} of ${p.length}; S within 0.10 s / 0.20 s ${within(s, 0.1)}/${within(s, 0.2)} of ${s.length}`);
+    }
   }
   process.exit(0);
 }

@@ -90,27 +90,35 @@ describe('pickEventSites on a rendered event (core/synth truth arrivals)', () =>
     expect(err(at(picks, 'T03', 'S'), tr3[1])).toBeLessThan(0.1);
   });
 
-  it('asks for the wide-band horizontals of step 4 only when earliestOrigin widens the S window (a distant event), once per S pick', () => {
-    let calls = 0;
+  it('asks for the wide-band traces of step 4 only when earliestOrigin widens the S window (a distant event), once per P and S pick', () => {
+    let vertical = 0;
+    let horizontal = 0;
     const input = sites.map((s, k) => ({
       ...s, trigger: k < 3 ? truth.get(`T0${k}`)![0].timeMicros : null,
+      distantVertical: () => {
+        vertical++;
+        return s.vertical;
+      },
       distantHorizontals: () => {
-        calls++;
+        horizontal++;
         return s.horizontals;
       },
     }));
     const local = pickEventSites(input);
     const refused = pickEventSites(input, { earliestOrigin: () => null });
-    expect(calls).toBe(0);
+    expect(vertical + horizontal).toBe(0);
     expect(refused).toEqual(local);
     const first = Math.min(...local.filter((p) => p.phaseHint === 'P').map((p) => p.time));
     const widened = pickEventSites(input, { earliestOrigin: () => first - 30_000_000 });
-    expect(calls).toBe(widened.filter((p) => p.phaseHint === 'S').length);
-    expect(calls).toBe(4);
+    expect(vertical).toBe(widened.filter((p) => p.phaseHint === 'P').length);
+    expect(horizontal).toBe(widened.filter((p) => p.phaseHint === 'S').length);
+    expect([vertical, horizontal]).toEqual([4, 4]);
   });
 
-  it('refuses a distantS window that is not positive, naming it', () => {
+  it('refuses a distantP or distantS window that is not positive, naming it', () => {
     expect(() => pickEventSites(sites, { distantS: { before: 0, after: 0.2 } })).toThrow(/distantS.before and distantS.after must be finite numbers > 0 \(s\), got 0, 0.2/);
+    expect(() => pickEventSites(sites, { distantP: { before: 0.5, after: NaN } })).toThrow(/distantP.before and distantP.after must be finite numbers > 0 \(s\), got 0.5, NaN/);
+    expect(LOCAL_EVENT_PICKING.distantP).toEqual({ before: 0.5, after: 0.2 });
     expect(LOCAL_EVENT_PICKING.distantS).toEqual({ before: 1, after: 0.2 });
   });
 

@@ -12,7 +12,7 @@ import { offsetPoint } from '../../../core/synth/geometry';
 import { quake, ringStations, tinyScenario } from '../synth/scenarioFixtures';
 import { LOCAL_SCAN_SETTINGS } from '../../../core/scan/settings';
 import { Rng } from '../../../core/synth/random';
-import { candidateAfterP, regionalSErrors, renderedSites, renderRegional } from './regionalEvents';
+import { candidateAfterP, regionalErrors, renderedSites, renderRegional } from './regionalEvents';
 
 // The traces are built here so the onset samples are known by construction: noise, then at sample
 // iP a wave packet whose first swing is up on the vertical (ground up), and at iS a stronger
@@ -181,7 +181,7 @@ describe('eventPicks on a distant event (S more than 10 s of P travel after the 
   it('re-reads those S on horizontals high-passed at 1 Hz: within 0.10 s at the four 100 Hz sites and 0.12 s at the 200 Hz one, 0.02-0.05 s earlier than on the 2-15 Hz band', () => {
     const origin = (pp: readonly OriginPick[]) => earliestOriginFromP(pp, coords, DEMO_MODEL, LOCAL_SCAN_SETTINGS.maxPTravelTime);
     const wide = sSignedErrors(eventPicks(ev, sites, sosAt, LOCAL_SCAN_SETTINGS, origin));
-    const band = sSignedErrors(eventPicks(ev, sites, sosAt, { ...LOCAL_SCAN_SETTINGS, distantSFilter: null }, origin));
+    const band = sSignedErrors(eventPicks(ev, sites, sosAt, { ...LOCAL_SCAN_SETTINGS, distantFilter: null }, origin));
     // Sites with horizontals in station order: T00, T01 (1/2 at 20 degrees), T02 (200 Hz), T03, T05.
     expect(wide).toHaveLength(5);
     wide.forEach((e, k) => {
@@ -207,8 +207,8 @@ describe('eventPicks on a generated regional event of the demo network (seed 43)
     const r = renderRegional(43);
     const keys = [...r.truth.keys()].filter((k) => r.sites.get(k)!.horizontals);
     expect(keys).toHaveLength(13);
-    const wide = regionalSErrors(r, LOCAL_SCAN_SETTINGS);
-    const band = regionalSErrors(r, { ...LOCAL_SCAN_SETTINGS, distantSFilter: null });
+    const wide = regionalErrors(r, LOCAL_SCAN_SETTINGS).s;
+    const band = regionalErrors(r, { ...LOCAL_SCAN_SETTINGS, distantFilter: null }).s;
     wide.forEach((e, k) => {
       expect(e).toBeGreaterThanOrEqual(0);
       expect(e).toBeLessThanOrEqual(keys[k] === 'XX.ELRO' ? 0.12 : 0.1);

@@ -104,14 +104,21 @@ export function renderRegional(seed: number): RegionalEvent {
   return { scenario, ...r, event: candidateAfterP(r.truth, 'XX.reg') };
 }
 
-/** S pick minus true S (s) at each site with horizontals, NaN where no S was picked; `settings` as the scan's. */
-export function regionalSErrors(r: RegionalEvent, settings: ScanSettings): number[] {
+/**
+ * Pick minus true arrival (s), NaN where none was picked: P at every site, S at each site with
+ * horizontals, picked by eventPicks with `settings` as the scan does.
+ */
+export function regionalErrors(r: RegionalEvent, settings: ScanSettings): { p: number[]; s: number[] } {
   const sosFor = (rate: number) => designForChannel(settings.filter, rate).sos;
   const picks: Pick[] = eventPicks(r.event, r.sites, sosFor, settings,
     (pp) => earliestOriginFromP(pp, r.coords, r.scenario.model ?? DEMO_MODEL, settings.maxPTravelTime));
-  return [...r.truth].filter(([key]) => r.sites.get(key)!.horizontals).map(([key, arr]) => {
-    const s = arr.find((a) => a.wave === 'S')!;
-    const p = picks.find((k) => `${k.waveformId.network}.${k.waveformId.station}` === key && k.phaseHint === 'S');
-    return p ? (p.time - s.timeMicros) / 1e6 : NaN;
-  });
+  const error = (key: string, arr: readonly TruthArrival[], wave: 'P' | 'S') => {
+    const a = arr.find((x) => x.wave === wave)!;
+    const p = picks.find((k) => `${k.waveformId.network}.${k.waveformId.station}` === key && k.phaseHint === wave);
+    return p ? (p.time - a.timeMicros) / 1e6 : NaN;
+  };
+  return {
+    p: [...r.truth].map(([key, arr]) => error(key, arr, 'P')),
+    s: [...r.truth].filter(([key]) => r.sites.get(key)!.horizontals).map(([key, arr]) => error(key, arr, 'S')),
+  };
 }
