@@ -46,7 +46,7 @@
  *    about 0.13 s late to about 0.08-0.10 s late. What is left is in the data: the generator's S
  *    pulse at 100 Hz with t* = 0.25 s reaches 1 % of its peak only about 0.09 s after the arrival
  *    time (3 % at 0.11 s; later at 200 Hz, earlier at 40 Hz). P (Pn, t* about 0.1 s) gains the same
- *    way: within 0.05 s of the true P went from 19 to 35 of 41 picks on the seeds the window was
+ *    way: within 0.05 s of the true P went from 19 to 35 of 42 sites on the seeds the window was
  *    set on and from 49 to 55 of 56 on the held-out ones, the first motions given agreeing with the
  *    true polarity as often or more.
  */
