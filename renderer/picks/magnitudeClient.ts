@@ -8,6 +8,7 @@ import type { RawPiece, ReviewMagnitude } from '../../core/review/reviewMagnitud
 import type { ChannelMeta } from '../../core/stationxml/types';
 import type { ReviewEvent } from '../../core/review/types';
 import type { MagnitudeData, MagnitudeReply, MagnitudeRequest } from './magnitudeProtocol';
+import { LatestOnly } from '../latestOnly';
 
 export interface MagnitudeJob {
   ev: ReviewEvent;
@@ -40,8 +41,18 @@ export class MagnitudeWorker {
     };
   }
 
-  /** The job's magnitude (null when it has none) and the worker's computing time, ms. */
-  async compute(job: MagnitudeJob): Promise<{ value: ReviewMagnitude | null; ms: number }> {
+  private readonly jobs = new LatestOnly<MagnitudeJob, { value: ReviewMagnitude | null; ms: number }>((job) => this.run(job));
+
+  /**
+   * The job's magnitude (null when it has none) and the worker's computing time, ms. One job runs at
+   * a time; a job still waiting when a newer one comes is dropped (its promise rejects with
+   * SupersededError), so stepping through events does not queue a magnitude for each.
+   */
+  compute(job: MagnitudeJob): Promise<{ value: ReviewMagnitude | null; ms: number }> {
+    return this.jobs.submit(job);
+  }
+
+  private async run(job: MagnitudeJob): Promise<{ value: ReviewMagnitude | null; ms: number }> {
     for (let attempt = 0; attempt < 2; attempt++) {
       let data: MagnitudeData | null = null;
       if (this.sentKey !== job.readKey || attempt > 0) {

@@ -1,0 +1,46 @@
+import { describe, expect, it } from 'vitest';
+import { LatestOnly, SupersededError } from '../../renderer/latestOnly';
+
+/** A job that finishes when the test says so. */
+function gate() {
+  let open = () => {};
+  const done = new Promise<void>((r) => { open = r; });
+  return { done, open };
+}
+
+describe('LatestOnly: one job at a time, only the newest of those waiting', () => {
+  it('runs the first job at once, drops jobs replaced while waiting, and runs the newest next', async () => {
+    const started: number[] = [];
+    const gates = new Map<number, ReturnType<typeof gate>>();
+    const q = new LatestOnly<number, string>(async (n) => {
+      started.push(n);
+      const g = gate();
+      gates.set(n, g);
+      await g.done;
+      return `done ${n}`;
+    });
+    const a = q.submit(1);
+    const b = q.submit(2);
+    const c = q.submit(3);
+    await Promise.resolve();
+    expect(started).toEqual([1]);
+    await expect(b).rejects.toBeInstanceOf(SupersededError);
+    gates.get(1)!.open();
+    await expect(a).resolves.toBe('done 1');
+    await new Promise((r) => setTimeout(r, 0));
+    expect(started).toEqual([1, 3]);
+    gates.get(3)!.open();
+    await expect(c).resolves.toBe('done 3');
+  });
+
+  it('passes a failing job\'s error on and goes on with the next', async () => {
+    const q = new LatestOnly<number, number>(async (n) => {
+      if (n === 1) throw new RangeError('bad job 1');
+      return n * 10;
+    });
+    const a = q.submit(1);
+    const b = q.submit(2);
+    await expect(a).rejects.toThrow('bad job 1');
+    await expect(b).resolves.toBe(20);
+  });
+});
