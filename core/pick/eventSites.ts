@@ -28,7 +28,11 @@
  * whose Sn comes 25 s after Pn), the caller may pass `earliestOrigin`: given the P picks, it returns the
  * earliest t0 they allow (e.g. from a P-only location); when that is earlier than tP_first -
  * firstTravelMax, the upper bound of the P travel time grows to tP_i - t0, so the S window extends
- * with distance while a near event keeps its window.
+ * with distance while a near event keeps its window. Such a distant event is taken to lie at least
+ * firstTravelMax / 2 of P travel away (its lower bound too), so S is not sought in the P coda; and a
+ * site without P whose onset taken as S comes no later than the network's P allows there (the
+ * anchors' P plus distance / vMin plus slack) gets no S: that onset is P. (On generated regional
+ * events the S of two sites had been picked on P, about 26 s early.)
  *
  * 4. P and S of a distant event re-read in a wider band. When the caller's `earliestOrigin` widened
  *    the S window (the event lies beyond firstTravelMax of P travel), each P pick is read again on the
@@ -259,17 +263,33 @@ export function pickEventSites(sites: readonly EventSite[], options: Partial<Eve
     if (!h) continue;
     let sp: Pick | null;
     if (s.p) {
-      const tp = Math.max(0, (s.p.time - first) / 1e6);
+      // A distant event lies beyond about firstTravelMax of P travel (see the module comment): half
+      // of that is taken as the least P travel time, so its S window starts clear of the P coda.
+      const tp = Math.max(distant ? o.firstTravelMax / 2 : 0, (s.p.time - first) / 1e6);
       const tpMax = Math.max(tp + 1e-3, (s.p.time - earliest) / 1e6);
       sp = pickS(h[0], h[1], s.p.time, { ...o.sWindow, pTravelTime: { min: tp, max: tpMax } }, o.onset);
       if (sp && distant && s.site.distantHorizontals) sp = rereadDistantS(s.site.distantHorizontals, s.p.time, sp, o);
     } else {
-      // S only: the joint AIC of the horizontals within 1 s around the onset taken as S.
+      // S only: the joint AIC of the horizontals within 1 s around the onset taken as S. For a
+      // distant event, S comes many seconds after P, so an onset no later than the latest P the
+      // network's P picks allow here (Fermat, as in step 2) is P taken for S: no S is picked.
+      if (distant && s.onset <= latestP(s.site, anchors, o)) continue;
       sp = pickS(h[0], h[1], s.onset - 1_000_000, { ...o.sWindow, pTravelTime: { min: 0, max: 2 / ((o.sWindow.vpVsMax ?? 2) - 1) } }, o.onset);
     }
     if (sp) out.push(sp);
   }
   return out;
+}
+
+/** Latest time (µs) P can reach `site` after the anchors' P: each one's P plus distance / vMin plus slack, the least of those. */
+function latestP(site: EventSite, anchors: readonly SiteState[], o: EventPickOptions): Micros {
+  let latest = Infinity;
+  for (const a of anchors) {
+    if (!a.p) continue;
+    const t = a.p.time + Math.round((siteDistanceKm(a.site.position, site.position) / o.vMin + o.slack) * 1e6);
+    if (t < latest) latest = t;
+  }
+  return latest;
 }
 
 /** Step 4 of the module comment: P read again on the wide-band vertical within distantP around `p`. */
