@@ -6,8 +6,7 @@ import { openApp, screenshotPath, type RunningApp } from '../support/browserApp'
 import { DEMO_COMPLETE_MARKER } from '../../electron/host/service';
 import { REVIEW_FILE_NAME } from '../../electron/host/reviewStore';
 import { serializeReview } from '../../core/review/format';
-import type { ReviewEvent, ReviewPick } from '../../core/review/types';
-import { microsFromIso } from '../../core/time';
+import { realEvent } from '../support/realPicks';
 import { readQuakeMl } from '../../core/quakeml';
 
 // The real records (../shared/data/real-microseismic), copied so the review file can be written beside
@@ -15,16 +14,6 @@ import { readQuakeMl } from '../../core/quakeml';
 const REAL = resolve(__dirname, '..', '..', '..', 'shared', 'data', 'real-microseismic');
 const EVENT_FILE = '2019-01-21T11-50-32-914c4.xml';
 
-function realEvent(file: string): ReviewEvent {
-  const iso = (t: string): string => t.replace(/(\.\d{6})\d*Z$/, '$1Z').replace(/:(\d\d)Z$/, ':$1.000000Z');
-  const rows = readFileSync(join(REAL, 'picks.csv'), 'utf8').trim().split('\n').slice(1).map((l) => l.split(','));
-  const picks: ReviewPick[] = rows.filter((r) => r[0] === file && r[10] === 'manual').map((r, i) => ({
-    id: `r${i}`, phase: r[7] as 'P' | 'S', channel: `${r[3]}.${r[4]}.${r[5]}.${r[6]}`, time: microsFromIso(iso(r[8])),
-    lower: Number(r[9]), upper: Number(r[9]), onset: 'impulsive', polarity: null, mode: 'manual', status: 'confirmed', snr: null, questionableTiming: false,
-  }));
-  const t = Math.min(...picks.map((p) => p.time));
-  return { id: 'real', source: 'analyst', start: t - 2_000_000, end: t + 6_000_000, state: 'started', type: null, typeCertainty: null, note: '', picks };
-}
 
 interface Saved { revision: number; events: { id: string; fixedDepthKm?: number }[] }
 
@@ -48,7 +37,7 @@ describe('location in the review desk: fixed depth and radial/transverse rows (C
     if (!existsSync(REAL)) throw new Error(`real test data missing: ${REAL}`);
     data = mkdtempSync(join(tmpdir(), 'daybreak-locdata-'));
     cpSync(REAL, data, { recursive: true, filter: (src) => !src.endsWith('.lock') });
-    writeFileSync(join(data, REVIEW_FILE_NAME), serializeReview({ revision: 1, nextSerial: 100, events: [realEvent(EVENT_FILE)] }));
+    writeFileSync(join(data, REVIEW_FILE_NAME), serializeReview({ revision: 1, nextSerial: 100, events: [realEvent(REAL, EVENT_FILE, 6_000_000)] }));
     const demoDir = mkdtempSync(join(tmpdir(), 'daybreak-demo-'));
     writeFileSync(join(demoDir, DEMO_COMPLETE_MARKER), '{}');
     app = await openApp({ demoDir, width: 1500, height: 900 });

@@ -12,6 +12,7 @@ import { fromLocalKm, localProjection } from '../../core/location/projection';
 import { channelsOf, parseStationXml } from '../../core/stationxml';
 import { microsFromIso } from '../../core/time';
 import type { ReviewEvent, ReviewPick } from '../../core/review/types';
+import { realEvent } from '../support/realPicks';
 import type { PanelsDemoInput, PanelsDemoOutput } from '../../renderer/panels';
 
 // The real records (../shared/data/real-microseismic): the app opens on a copy of them, and the first
@@ -19,17 +20,6 @@ import type { PanelsDemoInput, PanelsDemoOutput } from '../../renderer/panels';
 const REAL = resolve(__dirname, '..', '..', '..', 'shared', 'data', 'real-microseismic');
 const repoRoot = resolve(__dirname, '..', '..');
 
-/** The event's manual picks from picks.csv, as review picks (uncertainty from the file both ways). */
-function realEvent(file: string): ReviewEvent {
-  const iso = (t: string): string => t.replace(/(\.\d{6})\d*Z$/, '$1Z').replace(/:(\d\d)Z$/, ':$1.000000Z');
-  const rows = readFileSync(join(REAL, 'picks.csv'), 'utf8').trim().split('\n').slice(1).map((l) => l.split(','));
-  const picks: ReviewPick[] = rows.filter((r) => r[0] === file && r[10] === 'manual').map((r, i) => ({
-    id: `r${i}`, phase: r[7] as 'P' | 'S', channel: `${r[3]}.${r[4]}.${r[5]}.${r[6]}`, time: microsFromIso(iso(r[8])),
-    lower: Number(r[9]), upper: Number(r[9]), onset: 'impulsive', polarity: null, mode: 'manual', status: 'confirmed', snr: null, questionableTiming: false,
-  }));
-  const t = Math.min(...picks.map((p) => p.time));
-  return { id: 'real', source: 'analyst', start: t - 2_000_000, end: t + 8_000_000, state: 'started', type: null, typeCertainty: null, note: '', picks };
-}
 
 describe('event panels: plan view, residuals and Wadati diagram (Chromium, browser mode)', () => {
   let app: RunningApp;
@@ -71,7 +61,7 @@ describe('event panels: plan view, residuals and Wadati diagram (Chromium, brows
   it('locates a real event from its manual picks as the core does, draws each panel in under 5 ms, and shows it', async () => {
     // Half-space at 4.2 km/s, the median speed the catalogue's own origins imply (geiger.test.ts), Vp/Vs 1.73.
     const model = checkVelocityModel([{ topKm: 0, vp: 4.2, vs: 4.2 / 1.73 }], 'mine half-space');
-    const event = realEvent('2019-01-21T11-50-32-914c4.xml');
+    const event = realEvent(REAL, '2019-01-21T11-50-32-914c4.xml', 8_000_000);
     expect(event.picks.filter((p) => p.phase === 'S')).toHaveLength(4);
     const out = await show({ event, sites: [...sites], model, highlight: null, theme: 'dark' });
     const node = locateReviewEvent(event, sites, model);
@@ -105,7 +95,7 @@ describe('event panels: plan view, residuals and Wadati diagram (Chromium, brows
 
   it('hovering a site on the plan view highlights it in all panels and reports it once', async () => {
     const model = checkVelocityModel([{ topKm: 0, vp: 4.2, vs: 4.2 / 1.73 }], 'mine half-space');
-    const event = realEvent('2019-01-21T11-50-32-914c4.xml');
+    const event = realEvent(REAL, '2019-01-21T11-50-32-914c4.xml', 8_000_000);
     const out = await show({ event, sites: [...sites], model, highlight: null });
     const spot = out.spots['1.8'];
     expect(spot).toBeDefined();
