@@ -3,19 +3,17 @@
  * (scipy.signal and numpy in the machine's `python3`). One python process per call: batch a test
  * file's cases.
  */
-import { execFileSync } from 'node:child_process';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { pythonCases, type ReferenceCase } from '../pythonCases';
 
 const script = join(dirname(fileURLToPath(import.meta.url)), 'magnitude_reference.py');
 
-export type ReferenceCase = { op: string } & Record<string, unknown>;
+export type { ReferenceCase };
 
 /** Answers for `cases`, in order (see magnitude_reference.py for the ops and their results). */
 export function magnitudeReference(cases: readonly ReferenceCase[]): unknown[] {
-  const input = JSON.stringify({ cases }, (_k, v) => (ArrayBuffer.isView(v) ? Array.from(v as Float64Array) : v));
-  const out = execFileSync('python3', [script], { input, maxBuffer: 1 << 30 }).toString();
-  return JSON.parse(out) as unknown[];
+  return pythonCases(script, cases);
 }
 
 /** Poles or zeros as [re, im] pairs for the script. */
