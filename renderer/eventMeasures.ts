@@ -8,7 +8,8 @@ import type { ReviewEvent } from '../core/review';
 import type { ReviewLocation } from '../core/location';
 import type { EventMeasure, SortKey } from './eventList';
 
-interface Known { location: ReviewLocation | null; located: boolean; ml: number | null; mlDone: boolean }
+/** What is known of an event once it has been located (location null: no solution). */
+interface Known { location: ReviewLocation | null; ml: number | null; mlDone: boolean }
 
 export class EventMeasures {
   private readonly known = new WeakMap<ReviewEvent, Known>();
@@ -35,7 +36,7 @@ export class EventMeasures {
   /** Whether `ev` has been measured as far as the key needs. */
   measured(ev: ReviewEvent, key: SortKey): boolean {
     const k = this.known.get(ev);
-    return key === 'magnitude' ? !!k && k.located && (k.mlDone || !k.location) : key === 'rms' ? !!k?.located : true;
+    return key === 'magnitude' ? !!k && (k.mlDone || !k.location) : key === 'rms' ? !!k : true;
   }
 
   /** Starts measuring the events the list's sort key needs (nothing for keys without measures). */
@@ -62,14 +63,14 @@ export class EventMeasures {
         const { ev, ml } = this.queue.shift()!;
         await new Promise((r) => setTimeout(r, 0));
         let k = this.known.get(ev);
-        if (!k || !k.located) {
+        if (!k) {
           let location: ReviewLocation | null = null;
           try {
             location = this.locate(ev);
           } catch {
             location = null;
           }
-          k = { location, located: true, ml: null, mlDone: false };
+          k = { location, ml: null, mlDone: false };
           this.known.set(ev, k);
         }
         if (ml && k.location && !k.mlDone) {
