@@ -11,12 +11,18 @@ import { locate, MIN_PHASES, type LocationPick, type LocationStation, type Veloc
 import type { Pick } from '../pick';
 import { originFromHypocentre, type QmlOrigin } from '../quakeml';
 import type { Micros } from '../time';
+import { stationKey } from '../model';
 
 /** Where a site is: degrees north and east, metres above the model's datum (sea level). */
 export interface SiteCoordinates {
   readonly latitude: number;
   readonly longitude: number;
   readonly elevationM: number;
+}
+
+/** The locator's station for a site. */
+function locationStation(key: string, s: SiteCoordinates): LocationStation {
+  return { key, latDeg: s.latitude, lonDeg: s.longitude, elevKm: s.elevationM / 1000 };
 }
 
 export type OriginOutcome = { ok: true; origin: QmlOrigin } | { ok: false; message: string };
@@ -34,10 +40,10 @@ export function eventOrigin(
   const locPicks: LocationPick[] = [];
   const index: number[] = [];
   picks.forEach((p, i) => {
-    const key = `${p.waveformId.network}.${p.waveformId.station}`;
+    const key = stationKey(p.waveformId);
     const s = sites.get(key);
     if (!s) return;
-    if (!stations.some((x) => x.key === key)) stations.push({ key, latDeg: s.latitude, lonDeg: s.longitude, elevKm: s.elevationM / 1000 });
+    if (!stations.some((x) => x.key === key)) stations.push(locationStation(key, s));
     locPicks.push({
       stationKey: key, wave: p.phaseHint, time: p.time,
       uncertaintyS: Math.max(0.001, (p.lowerUncertainty + p.upperUncertainty) / 2),
@@ -143,10 +149,10 @@ export function earliestOriginFromP(
   const locPicks: LocationPick[] = [];
   for (const { pick: p } of pPicks) {
     if (p.phaseHint !== 'P') continue;
-    const key = `${p.waveformId.network}.${p.waveformId.station}`;
+    const key = stationKey(p.waveformId);
     const s = sites.get(key);
     if (!s || stations.some((x) => x.key === key)) continue;
-    stations.push({ key, latDeg: s.latitude, lonDeg: s.longitude, elevKm: s.elevationM / 1000 });
+    stations.push(locationStation(key, s));
     locPicks.push({ stationKey: key, wave: 'P', time: p.time, uncertaintyS: Math.max(0.001, (p.lowerUncertainty + p.upperUncertainty) / 2) });
   }
   if (locPicks.length < MIN_PHASES) return null;
