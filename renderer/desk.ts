@@ -41,6 +41,7 @@ import { RadialTransverseRows, horizontalAzimuth } from './traces/radialTransver
 import { DepthControl, holdDepthKm } from './panels/depthControl';
 import { setFixedDepth } from '../core/location/reviewDepth';
 import { NoteField } from './noteField';
+import { channelKey, type ChannelId } from '../core/model';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
 
@@ -279,7 +280,7 @@ export class Desk {
     // Read-only magnitude state for end-to-end tests: amplitudes (times µs), removed ones, station magnitudes, ML.
     (window as unknown as { daybreakMagnitude: () => unknown }).daybreakMagnitude = () => {
       const m = this.magnitude;
-      const key = (a: { waveformId: { network: string; station: string; location: string; channel: string } | null }) => (a.waveformId ? `${a.waveformId.network}.${a.waveformId.station}.${a.waveformId.location}.${a.waveformId.channel}` : '');
+      const key = (a: { waveformId: ChannelId | null }) => (a.waveformId ? channelKey(a.waveformId) : '');
       return m && {
         event: this.magnitudeFor?.id ?? null, ref: this.ref, ml: m.magnitude?.mag ?? null, uncertainty: m.magnitude?.uncertainty ?? null, stationCount: m.magnitude?.stationCount ?? 0, evaluationMode: m.magnitude?.evaluationMode ?? null, computeMs: this.magnitudeMs,
         amplitudes: m.amplitudes.map((a) => ({ id: a.id, channel: key(a), time: a.time, value: a.value, mode: a.evaluationMode })),
