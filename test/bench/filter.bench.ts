@@ -28,6 +28,9 @@
  * pages (about 14,000 page faults per day of pieces where we counted, against about 17,000 for one
  * day-long array). What avoids the
  * cost is an output array that is reused, as the scan's trigger stream does (core/scan/triggerStream).
+ * To compare a new output array on equal terms, scipy's whole-day calls are also timed with numpy's
+ * huge pages switched off (its `_set_madvise_hugepage(False)`), so that both sides pay the same
+ * first-touch faults; that ratio is printed beside the others.
  *
  * Printed: samples/s of each, the ratios Daybreak/scipy (target: >= 1.0 for causal and zero-phase)
  * and how far the outputs agree.
@@ -119,6 +122,7 @@ async function main(): Promise<void> {
     const t = {
       jsCausal: NONE, jsCausalReused: NONE, pyCausal: NONE, jsZero: NONE, jsZeroReused: NONE, pyZero: NONE,
       jsCausalPieces: NONE, pyCausalPieces: NONE, jsZeroPieces: NONE, pyZeroPieces: NONE, touch: NONE,
+      pyCausalSmallPages: NONE, pyZeroSmallPages: NONE,
     };
     const causalPieces = (): void => {
       const state = new Float64Array(sos.length / 3);
@@ -138,6 +142,10 @@ async function main(): Promise<void> {
       t.pyCausalPieces = bestOf(t.pyCausalPieces, await askTime(`causal_pieces ${PIECE}`));
       t.jsZeroPieces = bestOf(t.jsZeroPieces, time(zeroPieces));
       t.pyZeroPieces = bestOf(t.pyZeroPieces, await askTime(`zerophase_pieces ${PIECE}`));
+      await ask('hugepages off');
+      t.pyCausalSmallPages = bestOf(t.pyCausalSmallPages, await askTime('causal'));
+      t.pyZeroSmallPages = bestOf(t.pyZeroSmallPages, await askTime('zerophase'));
+      await ask('hugepages on');
       t.touch = bestOf(t.touch, time(() => {
         touched = new Float64Array(SAMPLES);
         for (let i = 0; i < SAMPLES; i += 512) touched[i] = 1;
@@ -162,19 +170,21 @@ async function main(): Promise<void> {
     const ratio = (js: Timing, py: Timing) => `cpu ${(py.cpu / js.cpu).toFixed(2)}x, wall ${(py.wall / js.wall).toFixed(2)}x`;
     console.log(`data: ${SAMPLES.toLocaleString('en')} float64 samples (one channel-day at ${RATE} Hz); Butterworth band-pass order 4, 1-20 Hz, ${sos.length / 6} sections; best of ${ROUNDS} alternating rounds`);
     console.log(`reference: scipy ${versions.scipy}, numpy ${versions.numpy} (python3), same samples and sections`);
-    const report = (title: string, name: string, fresh: Timing, reusedOut: Timing, scipy: Timing, jsPieces: Timing, pyPieces: Timing, agree: number, agreePieces: number) => {
+    const report = (title: string, name: string, fresh: Timing, reusedOut: Timing, scipy: Timing, scipySmallPages: Timing, jsPieces: Timing, pyPieces: Timing, agree: number, agreePieces: number) => {
       console.log(title);
       row(`Daybreak ${name}, whole day, new output`, fresh);
       row(`Daybreak ${name}, whole day, reused output`, reusedOut);
       row(`scipy ${name}, whole day`, scipy);
+      row(`scipy ${name}, whole day, 4 KiB pages`, scipySmallPages);
       row(`Daybreak ${name}, ${PIECE}-sample pieces`, jsPieces);
       row(`scipy ${name}, ${PIECE}-sample pieces`, pyPieces);
       console.log(`  ratio Daybreak/scipy, whole day: new output ${ratio(fresh, scipy)}; reused output ${ratio(reusedOut, scipy)} (target >= 1.0x)`);
+      console.log(`  ratio Daybreak/scipy, whole day, new output on both sides in 4 KiB pages (numpy's huge pages off): ${ratio(fresh, scipySmallPages)} (target >= 1.0x)`);
       console.log(`  ratio Daybreak/scipy, pieces (new output each): ${ratio(jsPieces, pyPieces)} (target >= 1.0x)`);
       console.log(`  outputs agree to ${agree.toExponential(1)} of the peak (whole day), ${agreePieces.toExponential(1)} (pieces)`);
     };
-    report('causal', 'sosfilt', t.jsCausal, t.jsCausalReused, t.pyCausal, t.jsCausalPieces, t.pyCausalPieces, agreement.causal, pieceAgreement.causal);
-    report('zero-phase', 'sosfiltfilt', t.jsZero, t.jsZeroReused, t.pyZero, t.jsZeroPieces, t.pyZeroPieces, agreement.zerophase, pieceAgreement.zerophase);
+    report('causal', 'sosfilt', t.jsCausal, t.jsCausalReused, t.pyCausal, t.pyCausalSmallPages, t.jsCausalPieces, t.pyCausalPieces, agreement.causal, pieceAgreement.causal);
+    report('zero-phase', 'sosfiltfilt', t.jsZero, t.jsZeroReused, t.pyZero, t.pyZeroSmallPages, t.jsZeroPieces, t.pyZeroPieces, agreement.zerophase, pieceAgreement.zerophase);
     console.log(`first touch of a new ${SAMPLES.toLocaleString('en')}-sample Float64Array (page faults alone, no filtering): cpu ${(t.touch.cpu * 1000).toFixed(1)} ms, wall ${(t.touch.wall * 1000).toFixed(1)} ms`);
     touched = new Float64Array(0);
   } finally {

@@ -13,6 +13,9 @@ line per command on stdin:
   compare_pieces N CAUSAL ZERO -> as compare, against the piecewise results (computed untimed)
   compare CAUSAL ZERO     -> JSON {"causal": d1, "zerophase": d2}: max |js - scipy| / max |scipy|
                              against the JavaScript outputs in those float64 files
+  hugepages on|off        -> "ok": numpy's own switch for asking the kernel for huge pages for
+                             its large arrays (madvise MADV_HUGEPAGE; numpy's default is on), so
+                             a new output array can be timed on the same terms as a JavaScript one
   versions                -> JSON {"scipy": ..., "numpy": ...}
   quit
 """
@@ -79,6 +82,10 @@ def main():
                 ref = last[name]
                 out[name] = float(np.max(np.abs(js - ref)) / np.max(np.abs(ref)))
             print(json.dumps(out), flush=True)
+        elif cmd[0] == "hugepages":
+            core = getattr(np, "_core", None) or np.core
+            core.multiarray._set_madvise_hugepage(cmd[1] == "on")
+            print("ok", flush=True)
         elif cmd[0] == "versions":
             print(json.dumps({"scipy": scipy.__version__, "numpy": np.__version__}), flush=True)
         elif cmd[0] == "quit":
