@@ -266,7 +266,8 @@ async function main(): Promise<void> {
     console.log(`filling fresh arrays of the output's size: ${(touchBest * 1000).toFixed(1)} ms (part of both the reader's and the keeping loop's time); ` +
       `page faults in one read ${faults.toLocaleString('en-US')}, the output is ${Math.ceil((totalSamples * 4) / 4096).toLocaleString('en-US')} pages of 4 KiB`);
     console.log(`ratio: ${ratio.toFixed(2)} of libmseed keeping the samples (target >= 0.7) ${ratio >= 0.7 ? 'met' : 'NOT MET'}; ${spread}`);
-    console.log(`ratio against the loop that drops the samples: ${(jsRate / cRate).toFixed(2)}`);
+    const plainRatio = jsRate / cRate;
+    console.log(`ratio against the loop that drops the samples: ${plainRatio.toFixed(2)} (target >= 0.7, as the target was first stated) ${plainRatio >= 0.7 ? 'met' : 'NOT MET'}`);
     console.log(`Daybreak readMiniSeedFiles from disk: ${(totalSamples / fileSeconds / 1e6).toFixed(0)} M samples/s (${(fileSeconds * 1000).toFixed(1)} ms)`);
     console.log(`memory: peak resident ${mb(m.peak - m.baseline)} above the idle baseline (${mb(m.baseline)}), ` +
       `${mb(m.held - m.baseline)} held after reading, for ${mb(m.decodedBytes)} of decoded samples: ` +
