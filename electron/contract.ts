@@ -57,9 +57,17 @@ export interface Settings {
   agency: string;
   /** Authority part of QuakeML resource identifiers (smi:AUTHORITY/...). */
   authority: string;
+  /**
+   * Settings of the background scan (`daybreak scan --preset`): 'auto' chooses from the network's
+   * size (core/scan/presetChoice), 'local' for local earthquakes, 'near' for near-source networks.
+   */
+  scanPreset: ScanPresetSetting;
 }
 
-export const DEFAULT_SETTINGS: Settings = { analyst: '', agency: '', authority: 'daybreak.local' };
+export const SCAN_PRESET_SETTINGS = ['auto', 'local', 'near'] as const;
+export type ScanPresetSetting = (typeof SCAN_PRESET_SETTINGS)[number];
+
+export const DEFAULT_SETTINGS: Settings = { analyst: '', agency: '', authority: 'daybreak.local', scanPreset: 'auto' };
 
 export interface ScanStatus {
   state: 'idle' | 'running' | 'done' | 'failed';

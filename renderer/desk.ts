@@ -173,7 +173,7 @@ export class Desk {
   }
 
   private reviewPath = '';
-  private readonly saveState = el('span', { className: 'save-state' });
+  private readonly saveState = el('span', { className: 'save-state' }, 'no changes since opening');
 
   get doc(): ReviewDocument | null {
     return this.history?.doc ?? null;
@@ -875,7 +875,10 @@ export class Desk {
       const events = readQuakeMl(r.value, 'daybreak-scan.xml').events;
       let summary = '';
       if (this.apply((d) => { const m = mergeCandidates(d, events); summary = `${m.added} new, ${m.refreshed} refreshed, ${m.keptAsReviewed} kept`; return m.doc; })) {
-        this.scanState.textContent = `Scan: ${events.length} candidates in ${Math.round(st.value.seconds)} s (${summary})`;
+        // The scan's summary names the settings used ("settings: near (auto: why)"); the reason goes in the tooltip.
+        const used = /settings: ([^\u00b7]+)/.exec(st.value.message)?.[1]?.trim() ?? '';
+        this.scanState.textContent = `Scan: ${events.length} candidates in ${Math.round(st.value.seconds)} s (${summary})${used ? `; ${used.replace(/ \(auto: .*$/, ' settings, chosen from the network\u2019s size')}` : ''}`;
+        this.scanState.title = used;
         if (!this.currentEvent) {
           const first = this.doc?.events.find((e) => e.state === 'todo');
           if (first) void this.openEvent(first.id);

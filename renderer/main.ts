@@ -4,7 +4,7 @@
  */
 import './style.css';
 import { connectHost } from './host';
-import type { Dataset, HostApi } from '../electron/contract';
+import { SCAN_PRESET_SETTINGS, type Dataset, type HostApi, type ScanPresetSetting } from '../electron/contract';
 import { CAUTION } from '../core/caution';
 import { Desk } from './desk';
 import { CancelledError } from './data/session';
@@ -81,6 +81,12 @@ async function openDemo(): Promise<void> {
 
 let desk: Desk | null = null;
 
+const SCAN_PRESET_LABELS: Record<ScanPresetSetting, string> = {
+  auto: 'automatic, from the network\u2019s size',
+  local: 'local earthquakes (2\u201315 Hz)',
+  near: 'near-source: mines, dams, injection sites (5\u2013150 Hz)',
+};
+
 async function openSettings(): Promise<void> {
   const current = await host.call('settings.get', {});
   if (!current.ok) { statusText.textContent = current.message; return; }
@@ -91,13 +97,19 @@ async function openSettings(): Promise<void> {
     field('Analyst', 'analyst', current.value.analyst, 'written as creationInfo/author'),
     field('Agency', 'agency', current.value.agency, 'written as creationInfo/agencyID'),
     field('Identifier authority', 'authority', current.value.authority, 'QuakeML identifiers read smi:AUTHORITY/\u2026'),
+    el('label', { className: 'setting' }, el('span', {}, 'Scan settings'),
+      el('select', { name: 'scanPreset' }, ...SCAN_PRESET_SETTINGS.map((v) => el('option', { value: v, selected: v === current.value.scanPreset }, SCAN_PRESET_LABELS[v]))),
+      el('small', { className: 'muted' }, 'for \u201cScan the night\u201d; automatic takes near-source settings when the sites are 3 km apart or less in the median')),
     el('div', { className: 'buttons' }, el('button', { value: 'save' }, 'Save'), el('button', { value: 'cancel' }, 'Cancel')));
   const dialog = el('dialog', { id: 'settings' }, form);
   document.body.append(dialog);
   dialog.addEventListener('close', async () => {
     if (dialog.returnValue === 'save') {
       const data = new FormData(form);
-      const r = await host.call('settings.set', { analyst: String(data.get('analyst')), agency: String(data.get('agency')), authority: String(data.get('authority')) });
+      const r = await host.call('settings.set', {
+        analyst: String(data.get('analyst')), agency: String(data.get('agency')), authority: String(data.get('authority')),
+        scanPreset: String(data.get('scanPreset')) as ScanPresetSetting,
+      });
       statusText.textContent = r.ok ? 'settings saved' : `settings not saved: ${r.message}`;
     }
     dialog.remove();

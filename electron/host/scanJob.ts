@@ -8,7 +8,7 @@ import { readFile } from 'node:fs/promises';
 import { existsSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { ScanStatus } from '../contract';
+import type { ScanPresetSetting, ScanStatus } from '../contract';
 
 export const SCAN_OUTPUT_NAME = 'daybreak-scan.xml';
 
@@ -31,27 +31,33 @@ export class ScanJobs {
     return { ...(this.jobs.get(root)?.status ?? { state: 'idle', message: '', startedAt: null, seconds: 0 }) };
   }
 
-  /** Starts a scan of `root` unless one is running; `stations` is the StationXML, `outDir` where the QuakeML goes. */
-  start(root: string, stations: string, outDir: string, model: string | null): ScanStatus {
+  /**
+   * Starts a scan of `root` unless one is running; `stations` is the StationXML, `outDir` where the
+   * QuakeML goes, `preset` the scan's settings ('auto': chosen from the network's size).
+   */
+  start(root: string, stations: string, outDir: string, model: string | null, preset: ScanPresetSetting = 'auto'): ScanStatus {
     const running = this.jobs.get(root);
     if (running?.status.state === 'running') return this.status(root);
     const output = join(outDir, SCAN_OUTPUT_NAME);
-    const args = [cliPath(), 'scan', '--stations', stations, '--out', output, ...(model ? ['--model', model] : []), root];
+    const args = [cliPath(), 'scan', '--preset', preset, '--stations', stations, '--out', output, ...(model ? ['--model', model] : []), root];
     const started = Date.now();
     const job: Job = { status: { state: 'running', message: 'scanning the night', startedAt: new Date(started).toISOString(), seconds: 0 }, child: null, output };
     // Under Electron, process.execPath is Electron itself: ask it to behave as plain Node.
     const child = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, ELECTRON_RUN_AS_NODE: '1' } });
     job.child = child;
     let out = '';
-    child.stdout?.on('data', (b: Buffer) => { out = (out + b.toString()).slice(-4000); });
+    // The summary's head (counts and the settings used) is what the desk shows; stderr's tail says why a scan failed.
+    let head = '';
+    child.stdout?.on('data', (b: Buffer) => { if (head.length < 4000) head += b.toString(); });
     child.stderr?.on('data', (b: Buffer) => { out = (out + b.toString()).slice(-4000); });
     const tick = setInterval(() => { job.status = { ...job.status, seconds: (Date.now() - started) / 1000 }; }, 500);
     child.on('exit', (code) => {
       clearInterval(tick);
       const seconds = (Date.now() - started) / 1000;
-      const last = out.trim().split('\n').slice(-3).join(' \u00b7 ');
+      const summary = head.split('\n').filter((l) => /^daybreak scan:|^ {2}settings:/.test(l)).map((l) => l.trim().replace(/^daybreak scan: /, '')).join(' \u00b7 ');
+      const last = (out.trim() || head.trim()).split('\n').slice(-3).join(' \u00b7 ');
       job.status = code === 0 || code === 1
-        ? { state: 'done', message: code === 1 ? `done; some input was reported: ${last}` : `done: ${last}`, startedAt: job.status.startedAt, seconds }
+        ? { state: 'done', message: code === 1 ? `done; some input was reported: ${summary || last}` : `done: ${summary || last}`, startedAt: job.status.startedAt, seconds }
         : { state: 'failed', message: `scan stopped (exit ${code}): ${last}`, startedAt: job.status.startedAt, seconds };
       job.child = null;
     });

@@ -10,7 +10,7 @@ import type {
   AppInfo, Dataset, DatasetFile, DemoStatus, FileKind, HostErrorCode, HostRequestName, HostRequests,
   HostResult, RequestOf, ResponseOf,
 } from '../contract';
-import { DEFAULT_SETTINGS, HOST_REQUEST_NAMES, type ReviewFileState, type Settings } from '../contract';
+import { DEFAULT_SETTINGS, HOST_REQUEST_NAMES, SCAN_PRESET_SETTINGS, type ReviewFileState, type Settings } from '../contract';
 import { ReviewLocks, reviewPathFor, writeAtomically } from './reviewStore';
 import { ScanJobs } from './scanJob';
 
@@ -148,7 +148,8 @@ export class HostService {
     const stations = files.find((f) => f.kind === 'stationxml');
     if (!stations) throw new HostError('bad-request', `no StationXML file in ${root}: the scan needs station coordinates`);
     const model = files.find((f) => f.kind === 'model');
-    return this.scans.start(root, join(root, stations.path), dirname(reviewPath), model ? join(root, model.path) : null);
+    const { scanPreset } = await this.readSettings();
+    return this.scans.start(root, join(root, stations.path), dirname(reviewPath), model ? join(root, model.path) : null, scanPreset);
   }
 
   private settingsPath(): string {
@@ -300,6 +301,10 @@ function pickSettings(raw: Partial<Settings>): Partial<Settings> {
     if (v === undefined) continue;
     if (typeof v !== 'string' || v.length > 200) throw new HostError('bad-request', `${k} must be text of at most 200 characters`);
     out[k] = v;
+  }
+  if (raw.scanPreset !== undefined) {
+    if (!SCAN_PRESET_SETTINGS.includes(raw.scanPreset)) throw new HostError('bad-request', `scanPreset must be one of ${SCAN_PRESET_SETTINGS.join(', ')}, got "${String(raw.scanPreset)}"`);
+    out.scanPreset = raw.scanPreset;
   }
   return out;
 }

@@ -29,6 +29,8 @@ describe('the desk scans a new dataset in the background and lists the candidate
     await app.page.waitForTimeout(500);
     await app.page.screenshot({ path: screenshotPath('scan-in-desk') });
     expect(await app.page.locator('.event-list li').count()).toBe(2);
+    // The default scan setting (automatic) chose the local-earthquake preset for this network tens of km wide.
+    expect(await app.page.locator('.scan-state').innerText()).toMatch(/; local settings, chosen from the network\u2019s size$/);
     const review = JSON.parse(readFileSync(join(data, REVIEW_FILE_NAME), 'utf8'));
     expect(review.events.map((e: { source: string; state: string }) => [e.source, e.state])).toEqual([['detector', 'todo'], ['detector', 'todo']]);
     // Every automatic P lies within 0.05 s of a true P at its station (the generator's truth file).

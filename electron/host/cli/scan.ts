@@ -39,6 +39,7 @@ import {
 } from '../../../core/magnitude';
 import { CAUTION } from '../../../core/caution';
 import { presetSettings, SCAN_PRESETS, type ScanPreset, type ScanSettings } from '../../../core/scan/settings';
+import { choosePreset } from '../../../core/scan/presetChoice';
 import { TriggerStream } from '../../../core/scan/triggerStream';
 import { eventPicks, pickId, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
 import { earliestOriginFromP, eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';
@@ -52,8 +53,9 @@ const USAGE = `usage: daybreak scan --stations STATIONXML --out OUT.xml [options
   PATH                 miniSEED files, or folders searched recursively (other files there are skipped)
   --stations FILE      FDSN StationXML with every station to use (others are reported and left out)
   --out FILE           QuakeML 1.2 to write (replaced atomically when the scan is done)
-  --preset NAME        settings: local (default; local earthquakes, 40-200 Hz) or near (near-source
-                       microseismic at about 500 Hz in short event cuts)
+  --preset NAME        settings: local (default; local earthquakes, 40-200 Hz), near (near-source
+                       microseismic at about 500 Hz in short event cuts), or auto (near when the
+                       sites are 3 km apart or less in the median, else local)
   --band LO,HI         trigger and pick band-pass, Hz (preset: 2,15 or 5,150)
   --sta S --lta S      STA/LTA windows, seconds (preset: 0.5/20 or 0.05/1)
   --on R --off R       trigger-on and trigger-off ratios (4 and 2)
@@ -75,6 +77,11 @@ export interface ScanArgs {
   modelId: string;
   out: string;
   paths: string[];
+  /** The preset named on the command line ('auto': chosen from the sites once they are known). */
+  preset: ScanPreset | 'auto';
+  /** The settings of a preset with the command line's own values (band, STA/LTA, ...) applied. */
+  settingsFor: (preset: ScanPreset) => ScanSettings;
+  /** settingsFor(preset), or settingsFor('local') until an 'auto' preset is chosen. */
   settings: ScanSettings;
   agency: string;
   author: string;
@@ -113,9 +120,8 @@ export function parseScanArgs(args: string[]): ScanArgs {
   if (!out) throw new ArgumentError('--out OUT.xml is required');
   if (paths.length === 0) throw new ArgumentError('no PATH given');
   const preset = values.get('--preset') ?? 'local';
-  if (!SCAN_PRESETS.includes(preset as ScanPreset)) throw new ArgumentError(`--preset must be one of ${SCAN_PRESETS.join(', ')}, got "${preset}"`);
-  const base = presetSettings(preset as ScanPreset);
-  let filter = base.filter;
+  if (preset !== 'auto' && !SCAN_PRESETS.includes(preset as ScanPreset)) throw new ArgumentError(`--preset must be one of ${SCAN_PRESETS.join(', ')} or auto, got "${preset}"`);
+  let corners: [number, number] | null = null;
   const band = values.get('--band');
   if (band !== undefined) {
     const parts = band.split(/[,:]/);
@@ -123,22 +129,33 @@ export function parseScanArgs(args: string[]): ScanArgs {
     const lo = num('--band low corner (Hz)', parts[0], 1e-3, 1e5);
     const hi = num('--band high corner (Hz)', parts[1], 1e-3, 1e5);
     if (!(hi > lo)) throw new ArgumentError(`--band high corner must be above the low corner, got "${band}"`);
-    filter = { ...filter, corners: [lo, hi] };
+    corners = [lo, hi];
   }
-  const staLta = { ...base.staLta };
-  if (values.has('--sta')) staLta.sta = num('--sta (s)', values.get('--sta'), 1e-3, 3600);
-  if (values.has('--lta')) staLta.lta = num('--lta (s)', values.get('--lta'), 1e-3, 86400);
-  if (values.has('--on')) staLta.triggerOn = num('--on', values.get('--on'), 1, 1e6);
-  if (values.has('--off')) staLta.triggerOff = num('--off', values.get('--off'), 0.01, 1e6);
-  const sta = staLta.sta ?? 0.5, lta = staLta.lta ?? 60, on = staLta.triggerOn ?? 4, off = staLta.triggerOff ?? 2;
-  if (!(lta > sta)) throw new ArgumentError(`--lta must be longer than --sta (${sta} s), got ${lta}`);
-  if (!(off <= on)) throw new ArgumentError(`--off must be at most --on (${on}), got ${off}`);
-  const settings: ScanSettings = {
-    ...base, filter, staLta,
-    minSites: values.has('--min-sites') ? num('--min-sites', values.get('--min-sites'), 1, 10000, true) : base.minSites,
-    vMin: values.has('--vmin') ? num('--vmin (km/s)', values.get('--vmin'), 0.01, 100) : base.vMin,
-    chunkSeconds: values.has('--chunk') ? num('--chunk (s)', values.get('--chunk'), 1, 86400 * 7) : base.chunkSeconds,
+  const ownStaLta: Partial<Record<'sta' | 'lta' | 'triggerOn' | 'triggerOff', number>> = {};
+  if (values.has('--sta')) ownStaLta.sta = num('--sta (s)', values.get('--sta'), 1e-3, 3600);
+  if (values.has('--lta')) ownStaLta.lta = num('--lta (s)', values.get('--lta'), 1e-3, 86400);
+  if (values.has('--on')) ownStaLta.triggerOn = num('--on', values.get('--on'), 1, 1e6);
+  if (values.has('--off')) ownStaLta.triggerOff = num('--off', values.get('--off'), 0.01, 1e6);
+  const minSites = values.has('--min-sites') ? num('--min-sites', values.get('--min-sites'), 1, 10000, true) : null;
+  const vMin = values.has('--vmin') ? num('--vmin (km/s)', values.get('--vmin'), 0.01, 100) : null;
+  const chunkSeconds = values.has('--chunk') ? num('--chunk (s)', values.get('--chunk'), 1, 86400 * 7) : null;
+  const settingsFor = (name: ScanPreset): ScanSettings => {
+    const base = presetSettings(name);
+    const staLta = { ...base.staLta, ...ownStaLta };
+    const sta = staLta.sta ?? 0.5, lta = staLta.lta ?? 60, on = staLta.triggerOn ?? 4, off = staLta.triggerOff ?? 2;
+    if (!(lta > sta)) throw new ArgumentError(`--lta must be longer than --sta (${sta} s${ownStaLta.sta === undefined ? ` in the ${name} preset` : ''}), got ${lta}`);
+    if (!(off <= on)) throw new ArgumentError(`--off must be at most --on (${on}${ownStaLta.triggerOn === undefined ? ` in the ${name} preset` : ''}), got ${off}`);
+    return {
+      ...base, staLta,
+      filter: corners ? { ...base.filter, corners } : base.filter,
+      minSites: minSites ?? base.minSites,
+      vMin: vMin ?? base.vMin,
+      chunkSeconds: chunkSeconds ?? base.chunkSeconds,
+    };
   };
+  // Checked for every preset 'auto' may choose, so a bad combination is refused before any work.
+  const settings = settingsFor(preset === 'auto' ? 'local' : preset as ScanPreset);
+  if (preset === 'auto') settingsFor('near');
   const agency = values.get('--agency') ?? 'daybreak';
   const author = values.get('--author') ?? 'daybreak scan';
   const authority = values.get('--authority') ?? 'daybreak.local';
@@ -161,7 +178,7 @@ export function parseScanArgs(args: string[]): ScanArgs {
   try {
     if (!statSync(dirname(out)).isDirectory()) throw new Error();
   } catch { throw new ArgumentError(`--out: the folder "${dirname(out)}" does not exist`); }
-  return { stations, model, modelId, out, paths, settings, agency, author, authority };
+  return { stations, model, modelId, out, paths, preset: preset as ScanPreset | 'auto', settingsFor, settings, agency, author, authority };
 }
 
 function miniSeedKind(path: string): 'mseed2' | 'mseed3' | 'other' {
@@ -238,6 +255,8 @@ export interface ScanSummary {
   picks: { P: number; S: number };
   skippedChannels: { id: string; why: string }[];
   seconds: number;
+  /** The preset used, and for --preset auto why it was chosen. */
+  settings: string;
 }
 
 export async function scan(args: string[]): Promise<number> {
@@ -260,10 +279,10 @@ export async function scan(args: string[]): Promise<number> {
     return 2;
   }
   const t0 = performance.now();
-  const s = a.settings;
+  let s = a.settings;
   const bar = process.stderr.isTTY ? progressBar(process.stderr) : null;
   const summary: ScanSummary = {
-    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, skippedChannels: [], seconds: 0,
+    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
   };
   let bad = false;
 
@@ -332,6 +351,14 @@ export async function scan(args: string[]): Promise<number> {
       why: site ? `site ${site.key} uses ${site.vertical.location}.${site.vertical.channel.slice(0, 2)}` : 'no vertical at this site (or not a ground-motion channel)',
     });
   }
+  if (a.preset === 'auto') {
+    const positions = [...sites.values()].map((x) => x.coordinates);
+    if (positions.length >= 2) {
+      const choice = choosePreset(positions);
+      s = a.settingsFor(choice.preset);
+      summary.settings = `${choice.preset} (auto: ${choice.reason})`;
+    } else summary.settings = `local (auto: fewer than two sites with data and coordinates)`;
+  } else summary.settings = a.preset;
 
   // Filters per sample rate (corners clamped per channel by designForChannel).
   const sosCache = new Map<number, Float64Array>();
@@ -596,6 +623,7 @@ export function writeAtomically(path: string, text: string): void {
 export function summaryText(sm: ScanSummary, out: string): string {
   const lines: string[] = [];
   lines.push(`daybreak scan: ${sm.candidates} candidate event${sm.candidates === 1 ? '' : 's'}, ${sm.picks.P} P and ${sm.picks.S} S picks written to ${out}`);
+  lines.push(`  settings: ${sm.settings}`);
   lines.push(`  located: ${sm.located} of ${sm.candidates} (an origin each)`);
   lines.push(`  magnitudes: ${sm.magnitudes} of ${sm.located} located (ML, IASPEI 2013)${sm.magnitudeNotes.length ? `, ${sm.magnitudeNotes.length} channel amplitudes left out` : ''}`);
   lines.push(`  files: ${sm.files} miniSEED read${sm.skippedFiles.length ? `, ${sm.skippedFiles.length} skipped` : ''}`);

@@ -145,12 +145,15 @@ describe('browser-mode server', () => {
     expect(bad).toMatchObject({ ok: false, code: 'bad-request' });
   });
 
-  it('keeps settings in the user folder and refuses a bad authority', async () => {
-    expect(JSON.parse((await api('settings.get', {})).body.toString()).value).toEqual({ analyst: '', agency: '', authority: 'daybreak.local' });
+  it('keeps settings in the user folder and refuses a bad authority or scan preset', async () => {
+    expect(JSON.parse((await api('settings.get', {})).body.toString()).value).toEqual({ analyst: '', agency: '', authority: 'daybreak.local', scanPreset: 'auto' });
     const set = JSON.parse((await api('settings.set', { analyst: 'J. Doe', agency: 'XX' })).body.toString());
-    expect(set.value).toEqual({ analyst: 'J. Doe', agency: 'XX', authority: 'daybreak.local' });
+    expect(set.value).toEqual({ analyst: 'J. Doe', agency: 'XX', authority: 'daybreak.local', scanPreset: 'auto' });
     expect(JSON.parse((await api('settings.get', {})).body.toString()).value.analyst).toBe('J. Doe');
     expect(JSON.parse((await api('settings.set', { authority: 'no spaces' })).body.toString())).toMatchObject({ ok: false, code: 'bad-request' });
+    expect(JSON.parse((await api('settings.set', { scanPreset: 'near' })).body.toString()).value.scanPreset).toBe('near');
+    expect(JSON.parse((await api('settings.set', { scanPreset: 'fast' })).body.toString())).toMatchObject({ ok: false, code: 'bad-request', message: expect.stringMatching(/scanPreset must be one of auto, local, near, got "fast"/) });
+    expect(JSON.parse((await api('settings.set', { scanPreset: 'auto' })).body.toString()).value.scanPreset).toBe('auto');
   });
 
   it('reports a finished demo scenario as ready', async () => {

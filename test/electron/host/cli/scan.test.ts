@@ -69,11 +69,12 @@ beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'daybreak-scan-'));
   truth = writeSmallNight(join(dir, 'night'));
   // Default chunk (600 s) holds the whole 300 s night; --chunk 7 cuts it into 43 pieces whose borders
-  // fall at odd places, one of them 1 s after midnight.
+  // fall at odd places, one of them 1 s after midnight. The chunked run also says --preset auto, which
+  // must choose the local settings for this network tens of km wide: the two outputs must then agree.
   single = daybreak('scan', '--stations', join(dir, 'night', 'stations.xml'), '--out', join(dir, 'single.xml'),
     '--model', join(dir, 'night', 'model.json'), '--agency', 'XX-TEST', '--author', 'night shift', join(dir, 'night', 'waveforms'));
   chunked = daybreak('scan', '--stations', join(dir, 'night', 'stations.xml'), '--out', join(dir, 'chunked.xml'),
-    '--model', join(dir, 'night', 'model.json'), '--agency', 'XX-TEST', '--author', 'night shift', '--chunk', '7', join(dir, 'night', 'waveforms'));
+    '--model', join(dir, 'night', 'model.json'), '--agency', 'XX-TEST', '--author', 'night shift', '--chunk', '7', '--preset', 'auto', join(dir, 'night', 'waveforms'));
 }, 120_000);
 afterAll(() => {
   if (dir) rmSync(dir, { recursive: true, force: true });
@@ -88,6 +89,8 @@ describe('daybreak scan on a small synthetic night (five stations, two earthquak
     expect(single.stdout).toMatch(/skipped file .*notes\.txt: not miniSEED/);
     for (const c of ['HNZ', 'HNN', 'HNE']) expect(single.stdout).toContain(`not used XX.T03.10.${c}: site XX.T03 uses 00.HH`);
     expect(single.stdout).toContain('preliminary');
+    expect(single.stdout).toContain('settings: local\n');
+    expect(chunked.stdout).toMatch(/settings: local \(auto: local-earthquake settings: the \d+ sites are \d+ km apart in the median/);
   });
 
   it('writes QuakeML 1.2 that readQuakeMl and Python\'s xml.etree both read: two events with stable ids, creationInfo from the options', () => {
@@ -270,7 +273,7 @@ describe('daybreak scan with unusable arguments', () => {
     ['an LTA shorter than the STA', ['--stations', 'S', '--out', 'O', '--sta', '2', '--lta', '1', 'P'], /--lta must be longer than --sta \(2 s\), got 1/],
     ['an off ratio above the on ratio', ['--stations', 'S', '--out', 'O', '--on', '3', '--off', '4', 'P'], /--off must be at most --on \(3\), got 4/],
     ['a fractional --min-sites', ['--stations', 'S', '--out', 'O', '--min-sites', '2.5', 'P'], /--min-sites must be an integer from 1/],
-    ['an unknown preset', ['--stations', 'S', '--out', 'O', '--preset', 'fast', 'P'], /--preset must be one of local, near, got "fast"/],
+    ['an unknown preset', ['--stations', 'S', '--out', 'O', '--preset', 'fast', 'P'], /--preset must be one of local, near or auto, got "fast"/],
     ['an output folder that does not exist', ['--stations', 'S', '--out', '/no/such/dir/out.xml', 'P'], /--out: the folder "\/no\/such\/dir" does not exist/],
     ['a velocity model that is not JSON', ['--stations', 'S', '--out', 'O', '--model', 'S', 'P'], /--model: .*not valid JSON/],
     ['a StationXML that does not exist', ['--stations', '/no/inv.xml', '--out', 'O', 'P'], /--stations: no such file: "\/no\/inv\.xml"/],
@@ -323,12 +326,14 @@ describe('daybreak scan writes its output atomically', () => {
   }, 60_000);
 });
 
-describe('daybreak scan --preset near on the real microseismic records (../shared/data/real-microseismic)', () => {
+describe('daybreak scan --preset auto (choosing near) on the real microseismic records (../shared/data/real-microseismic)', () => {
   it('finds the analysts\' manual P picks: at least 80 % within 0.02 s (issue 4 target), a missed pick counting as a failure', () => {
     expect(existsSync(join(REAL, 'picks.csv')), `real records missing: ${REAL} (clone the shared data beside the repository)`).toBe(true);
     const out = join(dir, 'real.xml');
-    const r = daybreak('scan', '--preset', 'near', '--stations', join(REAL, 'stations', 'inv.xml'), '--out', out, join(REAL, 'waveforms'));
+    const r = daybreak('scan', '--preset', 'auto', '--stations', join(REAL, 'stations', 'inv.xml'), '--out', out, join(REAL, 'waveforms'));
     expect(r.code).toBe(0);
+    // 11 geophones within about 0.6 km and one 3.4 km away (pair distances: test/core/scan/presetChoice.test.ts).
+    expect(r.stdout).toMatch(/settings: near \(auto: near-source settings: the 12 sites are 0\.\d\d km apart in the median \(widest pair 3\.\d\d km\), within 3 km\)/);
     // The real StationXML has no response stages: no magnitude, and the summary says why per channel.
     expect(r.stdout).toMatch(/magnitudes: 0 of \d+ located/);
     expect(r.stdout).toMatch(/no amplitude 1\.1\.1\.DPN: the channel has no response stages \(need at least one\) \(\d+ events\)/);
