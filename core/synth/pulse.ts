@@ -1,14 +1,33 @@
 /**
  * Body-wave pulses built in the frequency domain: Brune's omega-square source (source.ts) times a
  * causal attenuation operator times the recording instrument, delayed by a fraction of a sample,
- * then brought to the time domain. Every factor is causal, and the sample before the onset is set to
- * exactly zero, so nothing arrives before the arrival time.
+ * then brought to the time domain. The sample before the onset is set to exactly zero, so nothing
+ * arrives before the arrival time.
  *
  * Attenuation: the amplitude exp(-π f t*) (t* = travel time / Q, plus the site's κ0: Anderson &
- * Hough 1984, Bull. Seismol. Soc. Am. 74, 1969) is given its minimum phase, which is the causal
- * (dispersive) constant-Q operator (Futterman 1962; Aki & Richards 2002 §5.5.2). The minimum phase is
- * computed by the folded real cepstrum (Oppenheim & Schafer, Discrete-Time Signal Processing, 1989,
- * §12.6: a sequence whose complex cepstrum is zero for n < 0 is minimum-phase and causal).
+ * Hough 1984, Bull. Seismol. Soc. Am. 74, 1969) with its minimum phase, which is the causal
+ * (dispersive) constant-Q operator (Futterman 1962, J. Geophys. Res. 67, 5279; Aki & Richards 2002
+ * §5.5.2; both from memory). A causal operator with a wave front needs a frequency above which Q is
+ * no longer constant, else the dispersion (phase delay (t* / π) ln(f_top / f) relative to the front)
+ * grows without bound. That band is fixed here in Hz, the same for every channel, so a ground
+ * motion looks the same at 40, 100 and 200 Hz sampling: Q is constant from 0 to
+ * CONSTANT_Q_TOP_HZ = 100 Hz (the highest frequency the generator records: its fastest channels
+ * sample at 200 Hz) and the loss stops growing above it:
+ *   ln|A(f)| = -π t* min(|f|, f_top).
+ * Its phase is the Hilbert transform of the log amplitude (the gain-phase relation of a
+ * minimum-phase filter: Bode 1945; Papoulis, The Fourier Integral, 1962, §10 - from memory), in
+ * closed form, with u = f / f_top (f >= 0; the phase is odd in f):
+ *   φ(f) = -t* f_top [(u + 1) ln(u + 1) + (u - 1) ln|u - 1| - 2 u ln u],
+ * the phase of exp(-i 2π f t) for a delay t. For f << f_top the phase delay -φ / (2π f) is
+ * (t* / π) (ln(f_top / f) + 1): the constant-Q dispersion of Aki & Richards (2002, eq. 5.81) with the
+ * front at the arrival time (the delay tends to 0 as f grows). Before 2026-12-02 the operator was the
+ * discrete minimum phase of exp(-π |f| t*) up to each channel's Nyquist frequency, so the same wave
+ * came (t* / π) ln 2 later after its front at 200 Hz than at 100 Hz (the S of a regional event,
+ * t* = 0.25 s, reached 1 % of its peak 0.09 s after the arrival at 100 Hz and 0.14 s at 200 Hz).
+ *
+ * At a channel rate whose Nyquist frequency lies below f_top the spectrum is cut there, as the
+ * source's is: the small precursor that cut makes wraps to the end of the pulse's transform, which
+ * the renderer does not use.
  */
 import FFT from 'fft.js';
 import { instrumentResponse, responseScale, type Cx, type Instrument } from './response';
@@ -37,35 +56,49 @@ export function nextPow2(n: number): number {
   return p;
 }
 
+/** Upper end of the constant-Q band, Hz (see the module comment). */
+export const CONSTANT_Q_TOP_HZ = 100;
+
+/** x ln|x|, 0 at x = 0. */
+function xLogAbs(x: number): number {
+  return x === 0 ? 0 : x * Math.log(Math.abs(x));
+}
+
 /**
- * The minimum-phase operator whose amplitude is exp(-π |f| t*), as an interleaved complex
- * spectrum of length 2n (bins k = 0..n-1, f = k fs / n, negative frequencies above n/2).
- * With t* = 0 it is 1 at every frequency.
+ * The causal constant-Q operator at frequency f (Hz, f >= 0) for t* (s), with Q constant up to
+ * topHz: amplitude exp(-π t* min(f, topHz)) and phase φ(f) of the module comment (radians, the
+ * phase of exp(-i 2π f t) for a delay t). Written into `out`.
  */
-export function minimumPhaseAttenuation(n: number, sampleRate: number, tStar: number): Float64Array {
+export function attenuationAt(f: number, tStar: number, topHz: number, out: Cx): Cx {
+  const u = f / topHz;
+  const amp = Math.exp(-Math.PI * tStar * Math.min(f, topHz));
+  const phase = -tStar * topHz * (xLogAbs(u + 1) + xLogAbs(u - 1) - 2 * xLogAbs(u));
+  out.re = amp * Math.cos(phase);
+  out.im = amp * Math.sin(phase);
+  return out;
+}
+
+/**
+ * The causal constant-Q attenuation operator (module comment) as an interleaved complex spectrum of
+ * length 2n (bins k = 0..n-1, f = k fs / n, negative frequencies above n/2, the Nyquist bin real).
+ * With t* = 0 it is 1 at every frequency. `topHz`: upper end of the constant-Q band, Hz.
+ */
+export function minimumPhaseAttenuation(n: number, sampleRate: number, tStar: number, topHz = CONSTANT_Q_TOP_HZ): Float64Array {
   if (!(n >= 64 && (n & (n - 1)) === 0)) throw new RangeError(`FFT length must be a power of two >= 64, got ${n}`);
   if (!(sampleRate > 0)) throw new RangeError(`sample rate must be > 0 Hz, got ${sampleRate}`);
   if (!(tStar >= 0 && tStar < 10)) throw new RangeError(`t* must be in [0, 10) s, got ${tStar}`);
-  const fft = fftOf(n);
-  const logAmp = new Float64Array(2 * n);
-  for (let k = 0; k < n; k++) {
-    const kk = k <= n / 2 ? k : n - k;
-    logAmp[2 * k] = -Math.PI * ((kk * sampleRate) / n) * tStar;
-  }
-  const cep = new Float64Array(2 * n);
-  fft.inverseTransform(cep, logAmp);
-  // Fold: keep n = 0 and n = N/2, double 0 < n < N/2, drop the rest (the anticausal half).
-  const folded = new Float64Array(2 * n);
-  folded[0] = cep[0];
-  for (let i = 1; i < n / 2; i++) folded[2 * i] = 2 * cep[2 * i];
-  folded[n] = cep[n];
-  const logH = new Float64Array(2 * n);
-  fft.transform(logH, folded);
+  if (!(topHz > 0 && Number.isFinite(topHz))) throw new RangeError(`top of the constant-Q band must be a finite frequency > 0 Hz, got ${topHz}`);
   const out = new Float64Array(2 * n);
-  for (let k = 0; k < n; k++) {
-    const m = Math.exp(logH[2 * k]);
-    out[2 * k] = m * Math.cos(logH[2 * k + 1]);
-    out[2 * k + 1] = m * Math.sin(logH[2 * k + 1]);
+  const c: Cx = { re: 0, im: 0 };
+  for (let k = 0; k <= n / 2; k++) {
+    attenuationAt((k * sampleRate) / n, tStar, topHz, c);
+    out[2 * k] = c.re;
+    out[2 * k + 1] = c.im;
+  }
+  out[n + 1] = 0;
+  for (let k = 1; k < n / 2; k++) {
+    out[2 * (n - k)] = out[2 * k];
+    out[2 * (n - k) + 1] = -out[2 * k + 1];
   }
   return out;
 }

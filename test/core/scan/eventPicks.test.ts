@@ -174,23 +174,23 @@ describe('eventPicks on a distant event (S more than 10 s of P travel after the 
   });
 
   // Step 4 of core/pick/eventSites.ts. The generator's S pulse after 170 km (t* about 0.17 s with
-  // Q = 250 and kappa 0.02 s) rises from the arrival time at first with its highest frequencies and
-  // reaches a few per cent of its peak only some 0.05-0.1 s later (later at 200 Hz than at 100 Hz:
-  // the causal attenuation operator is built up to the Nyquist frequency, core/synth/pulse.ts).
-  // Values measured with the seed of tinyScenario (1234), fixed before the re-read was written.
-  it('re-reads those S on horizontals high-passed at 1 Hz: within 0.10 s at the four 100 Hz sites and 0.12 s at the 200 Hz one, 0.02-0.05 s earlier than on the 2-15 Hz band', () => {
+  // Q = 250 and kappa 0.02 s; Q constant up to 100 Hz, core/synth/pulse.ts) leaves its front at the
+  // arrival time with its highest frequencies, far below the noise, and reaches a few per cent of its
+  // peak only about 0.1-0.15 s later, alike at 100 and 200 Hz. Values measured with the seed of
+  // tinyScenario (1234) and the sample-rate-free attenuation of 2026-12-02.
+  it('re-reads those S on horizontals high-passed at 1 Hz: 0.12-0.16 s late at all five sites (the 200 Hz one alike), 0.02-0.05 s earlier than on the 2-15 Hz band', () => {
     const origin = (pp: readonly OriginPick[]) => earliestOriginFromP(pp, coords, DEMO_MODEL, LOCAL_SCAN_SETTINGS.maxPTravelTime);
     const wide = sSignedErrors(eventPicks(ev, sites, sosAt, LOCAL_SCAN_SETTINGS, origin));
     const band = sSignedErrors(eventPicks(ev, sites, sosAt, { ...LOCAL_SCAN_SETTINGS, distantFilter: null }, origin));
     // Sites with horizontals in station order: T00, T01 (1/2 at 20 degrees), T02 (200 Hz), T03, T05.
     expect(wide).toHaveLength(5);
     wide.forEach((e, k) => {
-      expect(e).toBeGreaterThanOrEqual(0);
-      expect(e).toBeLessThanOrEqual(k === 2 ? 0.12 : 0.1);
+      expect(e).toBeGreaterThanOrEqual(0.12);
+      expect(e).toBeLessThanOrEqual(0.16);
       expect(band[k] - e).toBeGreaterThanOrEqual(0.02);
       expect(band[k] - e).toBeLessThanOrEqual(0.05);
     });
-    expect(band.filter((e) => e > 0.1)).toHaveLength(3);
+    expect(band.filter((e) => e > 0.15)).toHaveLength(5);
   });
 
   it('misses those S with the local window alone (no location given)', () => {
@@ -201,43 +201,48 @@ describe('eventPicks on a distant event (S more than 10 s of P travel after the 
 
 // A regional event on the demo network (test/core/scan/regionalEvents.ts, seed 43, one of the seeds
 // held out when the re-read was chosen): ML 4.0 at 13.3 km depth, 158-219 km from the 13 sites with
-// horizontals (ELRO records at 200 Hz, HOLT at 40 Hz, the others at 100 Hz). Values measured once.
+// horizontals (ELRO records at 200 Hz, HOLT at 40 Hz, the others at 100 Hz). Its S front comes some
+// 0.1 s before the first per cent of the pulse (Q constant up to 100 Hz, core/synth/pulse.ts), so no
+// onset reader gets within 0.10 s of it. Values measured once, with the attenuation of 2026-12-02.
 describe('eventPicks on a generated regional event of the demo network (seed 43)', () => {
-  it('picks S within 0.10 s of the true S at the twelve sites sampled at 40-100 Hz and 0.12 s at the 200 Hz one; without the re-read 6 of 13 are within 0.10 s', () => {
+  it('picks S 0.12-0.17 s late at all 13 sites, the 200 Hz one alike, and 0.015-0.09 s earlier than without the re-read at each', () => {
     const r = renderRegional(43);
     const keys = [...r.truth.keys()].filter((k) => r.sites.get(k)!.horizontals);
     expect(keys).toHaveLength(13);
     const wide = regionalErrors(r, LOCAL_SCAN_SETTINGS).s;
     const band = regionalErrors(r, { ...LOCAL_SCAN_SETTINGS, distantFilter: null }).s;
     wide.forEach((e, k) => {
-      expect(e).toBeGreaterThanOrEqual(0);
-      expect(e).toBeLessThanOrEqual(keys[k] === 'XX.ELRO' ? 0.12 : 0.1);
+      expect(e).toBeGreaterThanOrEqual(0.12);
+      expect(e).toBeLessThanOrEqual(0.17);
+      expect(band[k] - e).toBeGreaterThanOrEqual(0.015);
+      expect(band[k] - e).toBeLessThanOrEqual(0.09);
     });
-    expect(band.filter((e) => Math.abs(e) <= 0.1)).toHaveLength(6);
   }, 30_000);
 });
 
 // Two more generated regional events (seeds 31 and 44) where S was once picked about 26 s early, on
 // P: at KIRN (seed 31) the onset found near P was taken as S and no P was found before it, and S was
 // picked beside that onset; at NETH (seed 44) P was picked well, but the S window began 0.1 s after it
-// and the P on the horizontals was as strong as S. Values measured once with the fix (errors in s).
+// and the P on the horizontals was as strong as S. Values measured once with the fix and the
+// attenuation of 2026-12-02 (errors in s; OSKE's P, SNR 1.3, is not picked now, so it gets no S).
 describe('eventPicks never puts the S of a generated regional event on P (seeds 31 and 44)', () => {
-  it('leaves KIRN (seed 31, no P pick) without S, picks NETH (seed 44) S 0.14 s late (0.18 s without the re-read), and every S pick 0-0.26 s late', () => {
-    for (const [seed, key, late] of [[31, 'XX.KIRN', null], [44, 'XX.NETH', [0.136, 0.176]]] as const) {
+  it('leaves KIRN and OSKE (seed 31, no P pick) without S, picks NETH (seed 44) S 0.24 s late (0.28 s without the re-read), and every S pick 0-0.45 s late', () => {
+    for (const [seed, noS, key, late] of [[31, ['XX.KIRN', 'XX.OSKE'], null, null], [44, [], 'XX.NETH', [0.236, 0.276]]] as const) {
       const r = renderRegional(seed);
       const keys = [...r.truth.keys()].filter((k) => r.sites.get(k)!.horizontals);
-      const at = keys.indexOf(key);
-      expect(at).toBeGreaterThanOrEqual(0);
       const runs = [regionalErrors(r, LOCAL_SCAN_SETTINGS).s, regionalErrors(r, { ...LOCAL_SCAN_SETTINGS, distantFilter: null }).s];
       runs.forEach((s, k) => {
-        if (late === null) expect(s[at]).toBeNaN();
-        else expect(s[at]).toBeCloseTo(late[k], 2);
+        if (key !== null && late !== null) expect(s[keys.indexOf(key)]).toBeCloseTo(late[k], 2);
         s.forEach((e, i) => {
-          if (i === at && late === null) return;
+          if ((noS as readonly string[]).includes(keys[i])) {
+            expect(e).toBeNaN();
+            return;
+          }
           expect(e).toBeGreaterThanOrEqual(0);
-          expect(e).toBeLessThanOrEqual(0.26);
+          expect(e).toBeLessThanOrEqual(0.45);
         });
       });
+      for (const k of noS) expect(keys).toContain(k);
     }
   }, 30_000);
 });
