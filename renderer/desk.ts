@@ -184,7 +184,7 @@ export class Desk {
     const overviewHost = el('section', { className: 'overview-host' });
     const headline = el('div', { className: 'overview-title' },
       el('span', {}, 'Night overview'),
-      el('span', { className: 'muted' }, ` ${isoFromMicros(t0).slice(0, 16).replace('T', ' ')} \u2192 ${isoFromMicros(t1).slice(0, 16).replace('T', ' ')} UTC \u00b7 ${this.sites.length} sites \u00b7 level relative to each site\u2019s median; click to open`));
+      el('span', { className: 'muted' }, ` ${isoFromMicros(t0).slice(0, 16).replace('T', ' ')} \u2192 ${isoFromMicros(t1).slice(0, 16).replace('T', ' ')} UTC \u00b7 ${this.sites.length} sites \u00b7 level relative to each site\u2019s median; vermillion top: clipped; click to open`));
     overviewHost.append(headline);
     this.overview = new Overview(overviewHost, {
       binMicros: OVERVIEW_BIN_MICROS,
@@ -196,7 +196,9 @@ export class Desk {
       const z = this.session.channels.get(s.channels[0]);
       const levels = new Map<number, number>();
       if (z) for (const [b, v] of z.levels) levels.set(b, v.rms);
-      return { site: s.site, levels, flags: this.siteFlags(s) };
+      const clipped = new Set<number>();
+      for (const key of s.channels) for (const [b, v] of this.session.channels.get(key)?.levels ?? []) if (v.clipped) clipped.add(b);
+      return { site: s.site, levels, flags: this.siteFlags(s), clipped };
     }));
 
     const filterSelect = el('select', { title: 'Filter applied to every trace (causal unless zero-phase is ticked)' },
@@ -325,6 +327,9 @@ export class Desk {
       const gaps = ch.summaries.reduce((n, x) => n + x.gaps.length, 0);
       if (gaps) flags.push(`${key.split('.')[3]} ${gaps} gap${gaps > 1 ? 's' : ''}`);
       if (!ch.meta) flags.push(`${key.split('.')[3]} no metadata`);
+      let clippedBins = 0;
+      for (const v of ch.levels.values()) if (v.clipped) clippedBins++;
+      if (clippedBins) flags.push(`${key.split('.')[3]} clipped in ${clippedBins} \u00d7 ${OVERVIEW_BIN_MICROS / 1e6} s of the night`);
     }
     return [...new Set(flags)];
   }
@@ -431,7 +436,8 @@ export class Desk {
       const pieces = (byKey.get(key) ?? []).map((p) => makePiece((p.start - this.ref) / 1e6, p.sampleRate, p.samples, p.envelope));
       comps.push({ key, label: key.split('.')[3], pieces });
     }
-    const flags = this.siteFlags(s);
+    // A row tells of clipping in its own window only (the night's count is the overview's).
+    const flags = this.siteFlags(s).filter((f) => !f.endsWith(' of the night'));
     for (const key of s.channels) if ((byKey.get(key) ?? []).some((p) => p.clipped)) flags.push(`${key.split('.')[3]} clipped in this window`);
     const where = [s.stream.split('.').slice(2).join('.'), x.distanceKm === null ? '' : `${x.distanceKm.toFixed(1)} km`].filter(Boolean).join(' \u00b7 ');
     return this.rotation.shown({ key: s.site, label: s.site.split('.')[1], detail: where || undefined, components: comps, flags });

@@ -15,7 +15,12 @@ export interface OverviewSite {
   levels: Map<number, number>;
   /** Flags to show at the strip's label (e.g. "timing", "gap"). */
   flags: string[];
+  /** Absolute bin numbers where one of the site's channels looks clipped (marked on the strip). */
+  clipped?: ReadonlySet<number>;
 }
+
+/** Okabe-Ito vermillion: the top of a strip where the data look clipped. */
+const CLIPPED_RGB: [number, number, number] = [213, 94, 0];
 
 export interface OverviewOptions {
   binMicros: number;
@@ -178,6 +183,7 @@ export class Overview {
     const nBins = lastBin - firstBin + 1;
     const img = ctx.createImageData(W, H);
     const rowPx = this.rowHeight * dpr;
+    const clippedCols = new Uint8Array(W);
     this.sites.forEach((s, row) => {
       const values = [...s.levels.values()].filter((v) => v > 0).sort((a, b) => a - b);
       const median = values.length ? values[values.length >> 1] : 1;
@@ -188,17 +194,33 @@ export class Overview {
         const b0 = firstBin + Math.floor((px / W) * nBins);
         const b1 = Math.max(b0 + 1, firstBin + Math.floor(((px + 1) / W) * nBins));
         let level = -1;
+        let clipped = false;
         for (let b = b0; b < b1; b++) {
           const v = s.levels.get(b);
           if (v !== undefined && v > level) level = v;
+          if (s.clipped?.has(b)) clipped = true;
         }
         let rgb: [number, number, number];
         if (level < 0) rgb = [40, 40, 44];
         else if (level === 0) rgb = [120, 30, 30];
         else rgb = rampColour((Math.log10(level / median) + 0.3) / 1.8);
+        if (clipped) clippedCols[px] = 1;
         for (let y = y0; y < y1; y++) {
           const o = (y * W + px) * 4;
           img.data[o] = rgb[0]; img.data[o + 1] = rgb[1]; img.data[o + 2] = rgb[2]; img.data[o + 3] = 255;
+        }
+      }
+      // Clipped stretches: the strip's upper part in vermillion, at least 5 CSS px wide so one bin shows.
+      const half = Math.round(2 * dpr);
+      const yClip = y0 + Math.max(1, Math.round((y1 - y0) * 0.45));
+      for (let px = 0; px < W; px++) {
+        if (!clippedCols[px]) continue;
+        clippedCols[px] = 0;
+        for (let x = Math.max(0, px - half); x <= Math.min(W - 1, px + half); x++) {
+          for (let y = y0; y < yClip; y++) {
+            const o = (y * W + x) * 4;
+            img.data[o] = CLIPPED_RGB[0]; img.data[o + 1] = CLIPPED_RGB[1]; img.data[o + 2] = CLIPPED_RGB[2]; img.data[o + 3] = 255;
+          }
         }
       }
     });

@@ -1,7 +1,13 @@
 /**
  * Signal level per time bin, for the night overview: the root-mean-square of the demeaned samples in
- * each bin of a fixed length on a common time grid, and the share of each bin that holds data. One
- * pass over the samples, no allocation per sample.
+ * each bin of a fixed length on a common time grid, the share of each bin that holds data, and
+ * whether the bin looks clipped. One pass over the samples, no allocation per sample.
+ *
+ * Clipping as it shows in the data, where the digitiser's full scale is not known (common practice;
+ * the event sheet's rows use the same rule, {@link looksClipped}): at least {@link CLIP_RUN}
+ * consecutive raw samples sitting at the stretch's highest or at its lowest value, with the stretch
+ * spanning more than {@link CLIP_MIN_RANGE} counts from lowest to highest (so a quiet trace a few
+ * counts above quantisation, or a constant offset, is not taken for clipped).
  */
 import type { Segment } from '../model';
 import type { Micros } from '../time';
@@ -16,6 +22,25 @@ export interface LevelBins {
   coverage: Float64Array;
   /** Largest absolute demeaned sample per bin (NaN where empty). */
   peak: Float64Array;
+  /** 1 where the bin looks clipped (see the module comment), else 0. */
+  clipped: Uint8Array;
+}
+
+/** Consecutive samples at the highest or lowest value that make a stretch clipped. */
+export const CLIP_RUN = 4;
+/** Range from lowest to highest raw value (counts) a stretch must exceed to be called clipped. */
+export const CLIP_MIN_RANGE = 2000;
+
+/** Whether samples i0 to i1 - 1 of x look clipped (the rule of the module comment). */
+export function looksClipped(x: ArrayLike<number>, i0: number, i1: number): boolean {
+  let hi = -Infinity, lo = Infinity, runHi = 0, runLo = 0, bestHi = 0, bestLo = 0;
+  for (let i = i0; i < i1; i++) {
+    const v = x[i];
+    // A new extreme restarts its run and forgets runs at the old one.
+    if (v > hi) { hi = v; runHi = 1; bestHi = 1; } else if (v === hi) { if (++runHi > bestHi) bestHi = runHi; } else runHi = 0;
+    if (v < lo) { lo = v; runLo = 1; bestLo = 1; } else if (v === lo) { if (++runLo > bestLo) bestLo = runLo; } else runLo = 0;
+  }
+  return Math.max(bestHi, bestLo) >= CLIP_RUN && hi - lo > CLIP_MIN_RANGE;
 }
 
 /**
@@ -31,7 +56,15 @@ export function levelBins(segments: readonly Segment[], start: Micros, binMicros
   const lo = new Float64Array(bins).fill(Infinity);
   const hi = new Float64Array(bins).fill(-Infinity);
   const expected = new Float64Array(bins);
+  // Per bin, as looksClipped: the current run of samples at the highest and at the lowest value so
+  // far, and the longest such runs.
+  const runHi = new Float64Array(bins);
+  const runLo = new Float64Array(bins);
+  const bestHi = new Float64Array(bins);
+  const bestLo = new Float64Array(bins);
   for (const seg of segments) {
+    runHi.fill(0); // a run does not continue across a gap
+    runLo.fill(0);
     const x = seg.samples;
     const rate = seg.sampleRate;
     const nRec = seg.recordStarts.length;
@@ -54,18 +87,20 @@ export function levelBins(segments: readonly Segment[], start: Micros, binMicros
           let s2 = 0;
           let mn = lo[b];
           let mx = hi[b];
+          let rHi = runHi[b], rLo = runLo[b], bHi = bestHi[b], bLo = bestLo[b];
           for (let k = i; k < iEnd; k++) {
             const v = x[k];
             s += v;
             s2 += v * v;
-            if (v < mn) mn = v;
-            if (v > mx) mx = v;
+            if (v > mx) { mx = v; rHi = 1; bHi = 1; } else if (v === mx) { if (++rHi > bHi) bHi = rHi; } else rHi = 0;
+            if (v < mn) { mn = v; rLo = 1; bLo = 1; } else if (v === mn) { if (++rLo > bLo) bLo = rLo; } else rLo = 0;
           }
           sum[b] += s;
           sum2[b] += s2;
           count[b] += iEnd - i;
           lo[b] = mn;
           hi[b] = mx;
+          runHi[b] = rHi; runLo[b] = rLo; bestHi[b] = bHi; bestLo[b] = bLo;
           expected[b] = (binMicros * rate) / 1e6;
         }
         i = iEnd;
@@ -75,7 +110,9 @@ export function levelBins(segments: readonly Segment[], start: Micros, binMicros
   const rms = new Float64Array(bins);
   const coverage = new Float64Array(bins);
   const peak = new Float64Array(bins);
+  const clipped = new Uint8Array(bins);
   for (let b = 0; b < bins; b++) {
+    clipped[b] = Math.max(bestHi[b], bestLo[b]) >= CLIP_RUN && hi[b] - lo[b] > CLIP_MIN_RANGE ? 1 : 0;
     const n = count[b];
     if (n === 0) {
       rms[b] = NaN;
@@ -87,5 +124,5 @@ export function levelBins(segments: readonly Segment[], start: Micros, binMicros
     peak[b] = Math.max(hi[b] - mean, mean - lo[b]);
     coverage[b] = Math.min(1, n / expected[b]);
   }
-  return { start, binMicros, rms, coverage, peak };
+  return { start, binMicros, rms, coverage, peak, clipped };
 }

@@ -33,6 +33,8 @@ export interface ChannelLevels {
   firstBin: number;
   rms: Float32Array;
   peak: Float32Array;
+  /** 1 where the bin looks clipped (core/view/levels' rule), else 0. */
+  clipped: Uint8Array;
 }
 
 export interface IndexRequest { type: 'index'; id: number; path: string; bytes: Uint8Array; binMicros: number }

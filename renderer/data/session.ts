@@ -23,7 +23,7 @@ export interface ChannelInfo {
   key: string;
   summaries: ChannelSummary[];
   /** Overview levels keyed by absolute bin number. */
-  levels: Map<number, { rms: number; peak: number }>;
+  levels: Map<number, { rms: number; peak: number; clipped: boolean }>;
   meta: ChannelMeta | undefined;
 }
 
@@ -106,8 +106,10 @@ export class DataSession {
         if (Number.isNaN(lv.rms[k])) continue;
         const bin = lv.firstBin + k;
         const had = ch.levels.get(bin);
-        // A bin split across two files (midnight) keeps the larger level.
-        if (!had || lv.rms[k] > had.rms) ch.levels.set(bin, { rms: lv.rms[k], peak: lv.peak[k] });
+        // A bin split across two files (midnight) keeps the larger level, and is clipped if either part is.
+        const clipped = lv.clipped[k] === 1 || (had?.clipped ?? false);
+        if (!had || lv.rms[k] > had.rms) ch.levels.set(bin, { rms: lv.rms[k], peak: lv.peak[k], clipped });
+        else had.clipped = clipped;
       }
     }
   }

@@ -4,7 +4,7 @@
  */
 import { MiniSeedCollector, readMiniSeedBuffer } from '../../core/mseed';
 import { indexRecords } from '../../core/mseed/recordIndex';
-import { levelBins } from '../../core/view/levels';
+import { levelBins, looksClipped } from '../../core/view/levels';
 import { buildEnvelope } from '../../core/view/envelope';
 import { channelKey, sampleTime, type Segment } from '../../core/model';
 import { designForChannel, filterSegments } from '../../core/dsp';
@@ -63,8 +63,8 @@ function handleIndex(msg: IndexRequest): void {
     const lv = levelBins(ch.segments, first * msg.binMicros, msg.binMicros, last - first + 1);
     const rms = Float32Array.from(lv.rms);
     const peak = Float32Array.from(lv.peak);
-    levels.push({ key, firstBin: first, rms, peak });
-    transfer.push(rms.buffer, peak.buffer);
+    levels.push({ key, firstBin: first, rms, peak, clipped: lv.clipped });
+    transfer.push(rms.buffer, peak.buffer, lv.clipped.buffer);
   }
   const reply: IndexReply = {
     type: 'index', id: msg.id, path: msg.path, channelKeys: keys, recChannel, recOffset, recLength, recStart, recEnd,
@@ -214,23 +214,7 @@ function trim(key: string, seg: Segment, values: Float64Array | null, start: num
     if (r > rawPeak) rawPeak = r;
   }
   return {
-    key, start: sampleTime(seg, i0), sampleRate: rate, samples: out, rawPeak, clipped: flatTopped(seg.samples, i0, i1, rawPeak),
+    key, start: sampleTime(seg, i0), sampleRate: rate, samples: out, rawPeak, clipped: looksClipped(seg.samples, i0, i1),
     envelope: buildEnvelope(out),
   };
-}
-
-/**
- * Clipping as it shows in the data (common practice when the digitiser's full scale is not known):
- * at least 4 consecutive samples sitting at the window's largest absolute value, on a trace whose
- * peak is well above quantisation (over 1000 counts).
- */
-function flatTopped(x: ArrayLike<number>, i0: number, i1: number, peak: number): boolean {
-  if (peak <= 1000) return false;
-  let run = 0;
-  for (let i = i0; i < i1; i++) {
-    if (Math.abs(x[i]) === peak) {
-      if (++run >= 4) return true;
-    } else run = 0;
-  }
-  return false;
 }

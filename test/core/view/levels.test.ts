@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { execFileSync } from 'node:child_process';
-import { levelBins } from '../../../core/view/levels';
+import { levelBins, looksClipped } from '../../../core/view/levels';
 import type { Segment } from '../../../core/model';
 
 function segment(start: number, rate: number, samples: Float64Array, recordLen = 400): Segment {
@@ -55,5 +55,46 @@ print(json.dumps(out))`], { input: JSON.stringify(Array.from(x)) }).toString()) 
     const res = levelBins([segment(0, 100, new Float64Array(1000).fill(123456))], 0, 10_000_000, 1);
     expect(res.rms[0]).toBe(0);
     expect(res.peak[0]).toBe(0);
+  });
+
+  it('flags the bins where a signal sits flat at its extreme, as numpy finds them by the same rule', () => {
+    // A 2 Hz wave whose amplitude grows through 60 s at 100 Hz, on an offset of 3,000 counts, with
+    // some integer noise, cut at 3,000 ± 20,000 counts by numpy's clip (a digitiser at full scale).
+    // Reference: numpy computes the rule independently: in each 5 s bin, the longest run of samples
+    // equal to the bin's highest or lowest value, at least 4, and a range over 2000 counts.
+    const out = JSON.parse(execFileSync('python3', ['-c', `
+import json, numpy as np
+rng = np.random.default_rng(7)
+t = np.arange(6000) / 100.0
+x = np.clip(np.round(3000 + 40000 * (t / 60.0) ** 2 * np.sin(2 * np.pi * 2 * t)) + rng.integers(-3, 4, 6000), 3000 - 20000, 3000 + 20000)
+flags = []
+for b in range(12):
+    y = x[b * 500:(b + 1) * 500]
+    best = 0
+    for ext in (y.max(), y.min()):
+        run = 0
+        for v in y:
+            run = run + 1 if v == ext else 0
+            best = max(best, run)
+    flags.append(int(best >= 4 and y.max() - y.min() > 2000))
+print(json.dumps({"x": x.tolist(), "flags": flags}))`]).toString()) as { x: number[]; flags: number[] };
+    const res = levelBins([segment(0, 100, Float64Array.from(out.x))], 0, 5_000_000, 12);
+    expect(Array.from(res.clipped)).toEqual(out.flags);
+    // The wave reaches the rails (40,000·(t/60)² > 20,000) after 42.4 s: bins 9-11 clipped, 0-7 not.
+    expect(Array.from(res.clipped.subarray(0, 8))).toEqual([0, 0, 0, 0, 0, 0, 0, 0]);
+    expect(Array.from(res.clipped.subarray(9))).toEqual([1, 1, 1]);
+    for (let b = 0; b < 12; b++) expect(looksClipped(out.x, b * 500, (b + 1) * 500)).toBe(res.clipped[b] === 1);
+  });
+
+  it('does not call a constant offset, a quiet trace or a run at a superseded extreme clipped', () => {
+    expect(levelBins([segment(0, 100, new Float64Array(1000).fill(123456))], 0, 10_000_000, 1).clipped[0]).toBe(0);
+    // Noise of ±2 counts on a 50,000-count offset sits at its extremes for runs of 4 and more, but spans 4 counts.
+    const quiet = Float64Array.from({ length: 1000 }, (_, i) => 50_000 + [2, 2, 2, 2, 2, -2, -2, -2, -2, 0][i % 10]);
+    expect(levelBins([segment(0, 100, quiet)], 0, 10_000_000, 1).clipped[0]).toBe(0);
+    expect(looksClipped(quiet, 0, quiet.length)).toBe(false);
+    // Flat for 6 samples at 500, then a single swing to ±3000: the flat run is no longer at an extreme.
+    const swing = [500, 500, 500, 500, 500, 500, 0, 3000, 0, -3000, 0];
+    expect(looksClipped(swing, 0, swing.length)).toBe(false);
+    expect(looksClipped([...swing, 3000, 3000, 3000, 3000], 0, swing.length + 4)).toBe(true);
   });
 });
