@@ -70,8 +70,10 @@ export type ScanPresetSetting = (typeof SCAN_PRESET_SETTINGS)[number];
 export const DEFAULT_SETTINGS: Settings = { analyst: '', agency: '', authority: 'daybreak.local', scanPreset: 'auto' };
 
 export interface ScanStatus {
-  state: 'idle' | 'running' | 'done' | 'failed';
+  state: 'idle' | 'running' | 'done' | 'failed' | 'cancelled';
   message: string;
+  /** Share of the work done, 0-1, while running (null until the scan first reports it). */
+  fraction: number | null;
   startedAt: string | null;
   /** Seconds since it started (or that it took). */
   seconds: number;
@@ -105,6 +107,8 @@ export interface HostRequests {
   /** Starts the overnight scan of an opened dataset in the background (no-op while one runs). */
   'scan.start': [{ root: string }, ScanStatus];
   'scan.status': [{ root: string }, ScanStatus];
+  /** Stops a running scan (its output file is left as it was: the scan writes it atomically at the end). */
+  'scan.cancel': [{ root: string }, ScanStatus];
   /** The finished scan's QuakeML text, or null when there is none. */
   'scan.result': [{ root: string }, string | null];
   'settings.get': [Record<string, never>, Settings];
@@ -126,7 +130,7 @@ export type ResponseOf<N extends HostRequestName> = HostRequests[N][1];
 /** Names the host answers, for validation on both sides. */
 export const HOST_REQUEST_NAMES: readonly HostRequestName[] = [
   'app.info', 'demo.status', 'demo.ensure', 'dataset.open', 'file.read', 'file.readRange', 'file.readRanges', 'review.open', 'review.save',
-  'export.write', 'settings.get', 'settings.set', 'scan.start', 'scan.status', 'scan.result',
+  'export.write', 'settings.get', 'settings.set', 'scan.start', 'scan.status', 'scan.cancel', 'scan.result',
 ];
 
 /** Requests whose response is raw bytes (sent as application/octet-stream over HTTP). */

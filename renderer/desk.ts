@@ -866,10 +866,18 @@ export class Desk {
   async runScan(): Promise<void> {
     const root = this.session.dataset.root;
     let st = await this.host.call('scan.start', { root });
+    const cancel = el('button', { className: 'scan-cancel', title: 'Stop the scan (candidates already in the list stay)' }, 'Cancel');
+    cancel.addEventListener('click', () => { cancel.disabled = true; void this.host.call('scan.cancel', { root }); });
     while (st.ok && st.value.state === 'running') {
-      this.scanState.textContent = `Scanning the night\u2026 ${Math.round(st.value.seconds)} s`;
-      await new Promise((r) => setTimeout(r, 1000));
+      const v = st.value;
+      const done = v.fraction === null ? '' : ` ${Math.floor(v.fraction * 100)} % (${v.message})`;
+      this.scanState.replaceChildren(`Scanning the night\u2026${done} \u00b7 ${Math.round(v.seconds)} s `, cancel);
+      await new Promise((r) => setTimeout(r, 500));
       st = await this.host.call('scan.status', { root });
+    }
+    if (st.ok && st.value.state === 'cancelled') {
+      this.scanState.textContent = `Scan cancelled after ${Math.round(st.value.seconds)} s; "Scan the night" starts it again`;
+      return;
     }
     if (!st.ok || st.value.state !== 'done') {
       this.scanState.textContent = `Scan failed: ${st.ok ? st.value.message : st.message}`;

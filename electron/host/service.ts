@@ -70,6 +70,7 @@ export class HostService {
       'review.save': async (req) => this.saveReview(req.root, req.content),
       'export.write': async (req) => this.writeExport(req.root, req.name, req.content),
       'scan.start': async (req) => this.startScan(req.root),
+      'scan.cancel': async (req) => this.scans.cancel(this.checkOpened(req.root)),
       'scan.status': async (req) => this.scans.status(this.checkOpened(req.root)),
       'scan.result': async (req) => this.scans.result(this.checkOpened(req.root)),
       'settings.get': async () => this.readSettings(),

@@ -25,7 +25,11 @@ describe('the desk scans a new dataset in the background and lists the candidate
   afterAll(async () => { await app?.close(); });
 
   it('finds both earthquakes of the generated night and opens the first with its automatic picks', async () => {
+    // While it runs: how far it is, and a way to stop it.
+    await app.page.locator('.scan-state button', { hasText: 'Cancel' }).waitFor({ timeout: 60_000 });
+    expect(await app.page.locator('.scan-state').innerText()).toMatch(/^Scanning the night\u2026( \d+ % \(.+\))? \u00b7 \d+ s/);
     await app.page.getByText(/^Scan: /).waitFor({ timeout: 90_000 });
+    expect(await app.page.locator('.scan-state button').count()).toBe(0);
     await app.page.waitForTimeout(500);
     await app.page.screenshot({ path: screenshotPath('scan-in-desk') });
     expect(await app.page.locator('.event-list li').count()).toBe(2);

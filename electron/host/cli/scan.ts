@@ -66,6 +66,8 @@ const USAGE = `usage: daybreak scan --stations STATIONXML --out OUT.xml [options
   --agency ID          creationInfo agencyID (default "daybreak")
   --author NAME        creationInfo author (default "daybreak scan")
   --authority A        authority of the smi: identifiers (default "daybreak.local")
+  --progress MODE      bar (default on a terminal), none (default otherwise), or lines: one line
+                       "progress FRACTION WHAT" on stderr at most 4 times a second, for programs
 `;
 
 class ArgumentError extends Error {}
@@ -83,6 +85,8 @@ export interface ScanArgs {
   settingsFor: (preset: ScanPreset) => ScanSettings;
   /** settingsFor(preset), or settingsFor('local') until an 'auto' preset is chosen. */
   settings: ScanSettings;
+  /** How progress is shown on stderr. */
+  progress: 'bar' | 'lines' | 'none';
   agency: string;
   author: string;
   authority: string;
@@ -99,7 +103,7 @@ function num(name: string, v: string | undefined, min: number, max: number, inte
 export function parseScanArgs(args: string[]): ScanArgs {
   const values = new Map<string, string>();
   const paths: string[] = [];
-  const known = ['--stations', '--out', '--preset', '--band', '--sta', '--lta', '--on', '--off', '--min-sites', '--vmin', '--chunk', '--agency', '--author', '--authority', '--model'];
+  const known = ['--progress', '--stations', '--out', '--preset', '--band', '--sta', '--lta', '--on', '--off', '--min-sites', '--vmin', '--chunk', '--agency', '--author', '--authority', '--model'];
   let optionsDone = false;
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -156,6 +160,8 @@ export function parseScanArgs(args: string[]): ScanArgs {
   // Checked for every preset 'auto' may choose, so a bad combination is refused before any work.
   const settings = settingsFor(preset === 'auto' ? 'local' : preset as ScanPreset);
   if (preset === 'auto') settingsFor('near');
+  const progress = values.get('--progress') ?? (process.stderr.isTTY ? 'bar' : 'none');
+  if (progress !== 'bar' && progress !== 'lines' && progress !== 'none') throw new ArgumentError(`--progress must be bar, lines or none, got "${progress}"`);
   const agency = values.get('--agency') ?? 'daybreak';
   const author = values.get('--author') ?? 'daybreak scan';
   const authority = values.get('--authority') ?? 'daybreak.local';
@@ -178,7 +184,7 @@ export function parseScanArgs(args: string[]): ScanArgs {
   try {
     if (!statSync(dirname(out)).isDirectory()) throw new Error();
   } catch { throw new ArgumentError(`--out: the folder "${dirname(out)}" does not exist`); }
-  return { stations, model, modelId, out, paths, preset: preset as ScanPreset | 'auto', settingsFor, settings, agency, author, authority };
+  return { stations, model, modelId, out, paths, preset: preset as ScanPreset | 'auto', settingsFor, settings, progress, agency, author, authority };
 }
 
 function miniSeedKind(path: string): 'mseed2' | 'mseed3' | 'other' {
@@ -194,8 +200,26 @@ function miniSeedKind(path: string): 'mseed2' | 'mseed3' | 'other' {
   }
 }
 
+interface Progress { update: (fraction: number, text: string) => void; done: () => void }
+
+/** Progress as lines "progress FRACTION WHAT" for a program reading stderr, at most 4 a second. */
+function progressLines(stream: NodeJS.WritableStream): Progress {
+  let last = 0;
+  return {
+    update(fraction, text) {
+      const now = Date.now();
+      if (now - last < 250) return;
+      last = now;
+      stream.write(`progress ${Math.max(0, Math.min(1, fraction)).toFixed(4)} ${text.replace(/\s+/g, ' ')}\n`);
+    },
+    done() {
+      stream.write('progress 1.0000 writing\n');
+    },
+  };
+}
+
 /** A one-line progress bar on a terminal, redrawn at most ten times a second. */
-function progressBar(stream: NodeJS.WriteStream): { update: (fraction: number, text: string) => void; done: () => void } {
+function progressBar(stream: NodeJS.WriteStream): Progress {
   let last = 0;
   let shown = false;
   return {
@@ -280,7 +304,7 @@ export async function scan(args: string[]): Promise<number> {
   }
   const t0 = performance.now();
   let s = a.settings;
-  const bar = process.stderr.isTTY ? progressBar(process.stderr) : null;
+  const bar = a.progress === 'bar' ? progressBar(process.stderr) : a.progress === 'lines' ? progressLines(process.stderr) : null;
   const summary: ScanSummary = {
     files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
   };

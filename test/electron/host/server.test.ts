@@ -156,6 +156,10 @@ describe('browser-mode server', () => {
     expect(JSON.parse((await api('settings.set', { scanPreset: 'auto' })).body.toString()).value.scanPreset).toBe('auto');
   });
 
+  it('refuses to cancel the scan of a folder that was not opened', async () => {
+    expect(JSON.parse((await api('scan.cancel', { root: '/not/opened' })).body.toString())).toMatchObject({ ok: false, code: 'forbidden' });
+  });
+
   it('reports a finished demo scenario as ready', async () => {
     const r = JSON.parse((await api('demo.status', {})).body.toString());
     expect(r.value.state).toBe('ready');

@@ -71,7 +71,7 @@ beforeAll(() => {
   // Default chunk (600 s) holds the whole 300 s night; --chunk 7 cuts it into 43 pieces whose borders
   // fall at odd places, one of them 1 s after midnight. The chunked run also says --preset auto, which
   // must choose the local settings for this network tens of km wide: the two outputs must then agree.
-  single = daybreak('scan', '--stations', join(dir, 'night', 'stations.xml'), '--out', join(dir, 'single.xml'),
+  single = daybreak('scan', '--progress', 'lines', '--stations', join(dir, 'night', 'stations.xml'), '--out', join(dir, 'single.xml'),
     '--model', join(dir, 'night', 'model.json'), '--agency', 'XX-TEST', '--author', 'night shift', join(dir, 'night', 'waveforms'));
   chunked = daybreak('scan', '--stations', join(dir, 'night', 'stations.xml'), '--out', join(dir, 'chunked.xml'),
     '--model', join(dir, 'night', 'model.json'), '--agency', 'XX-TEST', '--author', 'night shift', '--chunk', '7', '--preset', 'auto', join(dir, 'night', 'waveforms'));
@@ -82,7 +82,6 @@ afterAll(() => {
 
 describe('daybreak scan on a small synthetic night (five stations, two earthquakes, data across midnight)', () => {
   it('exits 0, skips the text file in the folder with a note, and reports the accelerometer stream left aside', () => {
-    expect(single.stderr).toBe('');
     expect(single.code).toBe(0);
     expect(single.stdout).toContain('2 candidate events, 10 P and 8 S picks');
     expect(single.stdout).toContain('files: 32 miniSEED read, 1 skipped');
@@ -90,6 +89,15 @@ describe('daybreak scan on a small synthetic night (five stations, two earthquak
     for (const c of ['HNZ', 'HNN', 'HNE']) expect(single.stdout).toContain(`not used XX.T03.10.${c}: site XX.T03 uses 00.HH`);
     expect(single.stdout).toContain('preliminary');
     expect(single.stdout).toContain('settings: local\n');
+    // --progress lines: "progress FRACTION WHAT" on stderr, never going back, ending at 1; nothing else there.
+    const progress = single.stderr.trim().split('\n').map((l) => /^progress (\d\.\d{4}) (\S.*)$/.exec(l));
+    expect(progress.length).toBeGreaterThanOrEqual(2);
+    expect(progress.every((m) => m !== null)).toBe(true);
+    const fractions = progress.map((m) => Number(m![1]));
+    expect(fractions.every((f, i) => i === 0 || f >= fractions[i - 1])).toBe(true);
+    expect(fractions[fractions.length - 1]).toBe(1);
+    // Without --progress, and not on a terminal, stderr stays empty.
+    expect(chunked.stderr).toBe('');
     expect(chunked.stdout).toMatch(/settings: local \(auto: local-earthquake settings: the \d+ sites are \d+ km apart in the median/);
   });
 
@@ -274,6 +282,7 @@ describe('daybreak scan with unusable arguments', () => {
     ['an off ratio above the on ratio', ['--stations', 'S', '--out', 'O', '--on', '3', '--off', '4', 'P'], /--off must be at most --on \(3\), got 4/],
     ['a fractional --min-sites', ['--stations', 'S', '--out', 'O', '--min-sites', '2.5', 'P'], /--min-sites must be an integer from 1/],
     ['an unknown preset', ['--stations', 'S', '--out', 'O', '--preset', 'fast', 'P'], /--preset must be one of local, near or auto, got "fast"/],
+    ['an unknown progress mode', ['--stations', 'S', '--out', 'O', '--progress', 'json', 'P'], /--progress must be bar, lines or none, got "json"/],
     ['an output folder that does not exist', ['--stations', 'S', '--out', '/no/such/dir/out.xml', 'P'], /--out: the folder "\/no\/such\/dir" does not exist/],
     ['a velocity model that is not JSON', ['--stations', 'S', '--out', 'O', '--model', 'S', 'P'], /--model: .*not valid JSON/],
     ['a StationXML that does not exist', ['--stations', '/no/inv.xml', '--out', 'O', 'P'], /--stations: no such file: "\/no\/inv\.xml"/],
