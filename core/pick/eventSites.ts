@@ -44,24 +44,20 @@
  *    `minSnr`. Why: after a few hundred km of attenuation (t* of S about 0.25 s at 250 km for
  *    Q = 250) the S pulse is emergent, and a causal attenuation operator sends its highest
  *    frequencies first; a band's upper corner (15 Hz for the local band) delays the rise the AIC
- *    sees, a high-pass alone keeps it. A re-read pick whose onset is not impulsive is then stepped
- *    back to where the trace (the vertical for P, both horizontals for S) first leaves the noise
- *    (`distantStepBack`, departure.ts: envelope centred over 0.2 s, above 3 times its mean over the
- *    1 s ending 0.2 s before the pick, at most 0.2 s back): the AIC marks where the variance changes
- *    most, inside an emergent rise. Measured on generated regional events 136-300 km away
- *    (test/core/scan/regionalEvents.ts, Daybreak's measurements; filter, window and step chosen on
- *    seeds 31-33, checked on 41-44), with the generator's attenuation as of 2026-12-02 (Q constant up
- *    to 100 Hz whatever the sample rate, core/synth/pulse.ts): the re-read moved the median S error
- *    from 0.18-0.31 s late to 0.15-0.26 s late and S within 0.20 s from 13 to 27 of 39 sites
- *    (held out: 16 to 36 of 52); no S comes within 0.10 s, re-read or not, as the S front of such an
- *    event comes 0.15-0.2 s before the first per cent of the pulse, below any noise. P (Pn, t*
- *    about 0.1 s): within 0.05 s of the true P from 2 to 9 of 42 sites with the re-read and to 18
- *    with the step back (held out: 3, 21, 23 of 56); S within 0.10 / 0.20 s stayed as without the
- *    step back (1 / 27 of 39 against 0 / 27; held out 0 / 36 of 52 both).
+ *    sees, a high-pass alone keeps it. On generated regional events 136-300 km away
+ *    (test/core/scan/regionalEvents.ts, Daybreak's measurements; filter and window chosen on three
+ *    seeds, checked on four others), with the generator's attenuation of 2026-12-02 (Q constant up
+ *    to 100 Hz whatever the sample rate, core/synth/pulse.ts), the re-read moved the median S error
+ *    from 0.18-0.31 s late to 0.15-0.26 s late, S within 0.20 s from 13 to 27 of 39 sites (held out:
+ *    16 to 36 of 52), and P within 0.05 s from 2 to 9 of 42 (held out: 3 to 21 of 56). No S comes
+ *    within 0.10 s: the S front of such an event comes 0.15-0.2 s before the first per cent of the
+ *    pulse, below any noise, and the AIC pick already lies where the trace first leaves the noise (a
+ *    step back from it to where a trailing 0.02-0.2 s energy envelope first exceeds 2-5 times its
+ *    pre-pick mean changed P within 0.05 s and S within 0.10 s by at most one site each on seeds
+ *    31-33, and was left out).
  */
 import type { Micros } from '../time';
 import { pickP, pickS, type OnsetOptions, type SWindowOptions } from './onset';
-import { stepBack, type StepBackOptions } from './departure';
 import { siteDistanceKm, type SitePosition } from './coincidence';
 import { staLtaRatio, type StaLtaOptions, LOCAL_EARTHQUAKE_STA_LTA } from './staLta';
 import type { Pick, Trace } from './types';
@@ -112,11 +108,6 @@ export interface EventPickOptions {
   readonly distantP: { readonly before: number; readonly after: number };
   /** Distant events: the S re-read window on `distantHorizontals`, seconds before and after the first S pick. */
   readonly distantS: { readonly before: number; readonly after: number };
-  /**
-   * Distant events: the re-read P and S picks of emergent onsets stepped back to where the trace
-   * leaves the noise (departure.ts; step 4 of the module comment); null: not stepped back.
-   */
-  readonly distantStepBack: StepBackOptions | null;
 }
 
 /** A P pick with the position of its site, as `earliestOrigin` gets it. */
@@ -140,7 +131,6 @@ export const LOCAL_EVENT_PICKING: EventPickOptions = Object.freeze({
   minSnr: 2,
   distantP: Object.freeze({ before: 0.5, after: 0.2 }),
   distantS: Object.freeze({ before: 1, after: 0.2 }),
-  distantStepBack: Object.freeze({ noise: 1, maxBack: 0.2, smooth: 0.2, level: 3 }),
 });
 
 function indexAt(t: Trace, time: Micros): number {
@@ -191,9 +181,6 @@ function resolve(options: Partial<EventPickOptions>): EventPickOptions {
   }
   if (!(o.sShare > 0 && o.sShare <= 1)) throw new RangeError(`sShare must be in (0, 1], got ${o.sShare}`);
   if (!(o.slack >= 0) || !(o.minSnr >= 0)) throw new RangeError(`slack and minSnr must be >= 0, got ${o.slack}, ${o.minSnr}`);
-  if (o.distantStepBack !== null && (typeof o.distantStepBack !== 'object' || !o.distantStepBack)) {
-    throw new TypeError(`distantStepBack must be step-back options or null, got ${String(o.distantStepBack)}`);
-  }
   for (const k of ['distantP', 'distantS'] as const) {
     const d = o[k];
     if (!d || !(d.before > 0 && d.after > 0 && Number.isFinite(d.before + d.after))) {
@@ -312,26 +299,7 @@ function rereadDistantP(make: () => Trace | null, p: Pick, o: EventPickOptions):
   const z = make();
   if (!z) return p;
   const r = pickP(z, p.time, { ...o.onset, before: o.distantP.before, after: o.distantP.after });
-  return r && r.snr >= o.minSnr ? departure([z], r, o) : p;
-}
-
-/**
- * Step 4 of the module comment: an emergent pick `p` read on `traces` (same rate and start) moved
- * back to where they leave the noise (departure.ts). The AIC's own pick stays the latest plausible
- * onset: the upper uncertainty grows to reach it.
- */
-function departure(traces: readonly Trace[], p: Pick, o: EventPickOptions): Pick {
-  if (!o.distantStepBack || p.onset === 'impulsive') return p;
-  const t = traces[0];
-  const k = indexAt(t, p.time);
-  const j = stepBack(traces.map((x) => x.samples), k, t.sampleRate, o.distantStepBack);
-  if (j >= k) return p;
-  const moved = (k - j) / t.sampleRate;
-  return {
-    ...p,
-    time: t.start + Math.round((j * 1e6) / t.sampleRate),
-    upperUncertainty: Math.max(p.upperUncertainty, moved),
-  };
+  return r && r.snr >= o.minSnr ? r : p;
 }
 
 /**
@@ -347,7 +315,7 @@ function rereadDistantS(make: () => readonly [Trace, Trace] | null, pTime: Micro
   const from = Math.max(0, (sp.time - pTime) / 1e6 - o.distantS.before);
   const to = (sp.time - pTime) / 1e6 + o.distantS.after;
   const r = pickS(h[0], h[1], pTime, { vpVsMin: 2, vpVsMax: 2, pTravelTime: { min: from, max: to } }, o.onset);
-  return r && r.snr >= o.minSnr ? departure(h, r, o) : sp;
+  return r && r.snr >= o.minSnr ? r : sp;
 }
 
 function isSLike(site: EventSite, time: Micros, o: EventPickOptions): boolean {

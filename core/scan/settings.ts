@@ -13,8 +13,7 @@
  *   400 km: regional events still get their Sn, 25 s after Pn at 250 km), and the P and S of an event
  *   judged distant are re-read on traces high-passed at 1 Hz, order 2 (`distantFilter`: above the
  *   microseism; no upper corner, see core/pick/eventSites.ts step 4; 0.75-2 Hz and orders 1-4 gave
- *   the same picks on the generated regional events it was chosen on), their emergent picks then
- *   stepped back to where the trace leaves the noise (pickEventSites' `distantStepBack`).
+ *   the same picks on the generated regional events it was chosen on).
  * - `near`: near-source microseismic records at about 500 Hz cut into short windows (the P a couple
  *   of seconds after the record's start, travel times under 0.1 s, a network a few hundred metres
  *   across). Band-pass 5-150 Hz; STA 0.05 s, LTA 1 s (windows a tenth of the local ones, scaled
@@ -57,7 +56,7 @@ export interface ScanSettings {
    * pickEventSites options other than those set above (phase check, re-trigger level, SNR floor);
    * unset ones take LOCAL_EVENT_PICKING's values.
    */
-  readonly eventPicking: Partial<Pick<EventPickOptions, 'sShare' | 'shareSeconds' | 'maxSMinusP' | 'retrigger' | 'minSnr' | 'distantStepBack'>>;
+  readonly eventPicking: Partial<Pick<EventPickOptions, 'sShare' | 'shareSeconds' | 'maxSMinusP' | 'retrigger' | 'minSnr'>>;
   /**
    * Filter of the traces on which pickEventSites re-reads the P and S of a distant event (its step 4:
    * a high-pass only, so the emergent onset's first, highest frequencies are kept), designed per

@@ -52,30 +52,24 @@ function run(seeds: readonly number[]): { project: Score; floor: Score } {
 }
 
 // `... regional`: only the generated regional events (test/core/scan/regionalEvents.ts), P and S errors
-// without the re-read of distant events' picks on high-passed traces, with it, and with it and the
-// step back of its emergent picks to where the trace leaves the noise (core/pick/departure.ts).
+// with and without the re-read of distant events' picks on high-passed traces.
 if (process.argv[2] === 'regional') {
   const within = (x: number[], lim: number) => x.filter((e) => Math.abs(e) <= lim).length;
   const med = (x: number[]) => [...x].filter(Number.isFinite).sort((a, b) => a - b)[x.length >> 1].toFixed(3);
   for (const [name, seeds] of [['seeds used to choose', REGIONAL_TUNING_SEEDS], ['held-out seeds', REGIONAL_HELD_OUT_SEEDS]] as const) {
     const rows: string[] = [];
-    const all = {
-      with: { p: [] as number[], s: [] as number[] }, without: { p: [] as number[], s: [] as number[] },
-      noStep: { p: [] as number[], s: [] as number[] },
-    };
+    const all = { with: { p: [] as number[], s: [] as number[] }, without: { p: [] as number[], s: [] as number[] } };
     for (const seed of seeds) {
       const r = renderRegional(seed);
       const e = r.scenario.events[0];
       const w = regionalErrors(r, LOCAL_SCAN_SETTINGS);
       const o = regionalErrors(r, { ...LOCAL_SCAN_SETTINGS, distantFilter: null });
-      const n = regionalErrors(r, { ...LOCAL_SCAN_SETTINGS, eventPicking: { distantStepBack: null } });
       all.with.p.push(...w.p); all.with.s.push(...w.s); all.without.p.push(...o.p); all.without.s.push(...o.s);
-      all.noStep.p.push(...n.p); all.noStep.s.push(...n.s);
       const km = [...r.truth.values()].map((a) => a[0].epicentralKm);
       rows.push(`seed ${seed}: ML ${e.magnitude}, depth ${e.depthKm} km, ${Math.min(...km).toFixed(0)}-${Math.max(...km).toFixed(0)} km away; median P error ${med(o.p)} s -> ${med(w.p)} s, S ${med(o.s)} s -> ${med(w.s)} s`);
     }
     console.log(`\nregional events, ${name} (${seeds.join(', ')}):\n${rows.join('\n')}`);
-    for (const [k, label] of [['without', 'on 2-15 Hz only'], ['noStep', 'with the re-read, not stepped back'], ['with', 'with the re-read and step back']] as const) {
+    for (const [k, label] of [['without', 'on 2-15 Hz only'], ['with', 'with the re-read']] as const) {
       const { p, s } = all[k];
       console.log(`${label}: P within 0.05 s / 0.10 s ${within(p, 0.05)}/${within(p, 0.1)} of ${p.length}; S within 0.10 s / 0.20 s ${within(s, 0.1)}/${within(s, 0.2)} of ${s.length}`);
     }

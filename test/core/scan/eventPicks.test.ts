@@ -285,40 +285,4 @@ describe('eventPicks at a distant site of a local event (no trigger there)', () 
     expect(Math.abs(at('P')!.time - tp.timeMicros) / 1e6).toBeLessThanOrEqual(0.1);
     expect(Math.abs(at('S')!.time - ts.timeMicros) / 1e6).toBeLessThanOrEqual(0.2);
   });
-
-  it('is not judged distant with a P-only location given, so the step back of distant picks leaves its picks as they are', () => {
-    const ring = ringStations(6, 15);
-    const sc = tinyScenario(ring, [quake('near', 10, 2.8, 8, { strike: 120, dip: 50, rake: -60 }, 3, -2)], 40);
-    const { sites, coords, truth } = renderedSites(sc, 'near');
-    const ev = candidateAfterP(truth, 'XX.near');
-    const sosAt = (rate: number) => butterworth(4, [2, 15], 'bandpass', rate);
-    const origin = (pp: readonly OriginPick[]) => earliestOriginFromP(pp, coords, DEMO_MODEL, LOCAL_SCAN_SETTINGS.maxPTravelTime);
-    const stepped = eventPicks(ev, sites, sosAt, LOCAL_SCAN_SETTINGS, origin);
-    const plain = eventPicks(ev, sites, sosAt, { ...LOCAL_SCAN_SETTINGS, eventPicking: { distantStepBack: null } }, origin);
-    expect(stepped.length).toBeGreaterThanOrEqual(10);
-    expect(stepped).toEqual(plain);
-  });
-});
-
-// The step back of a distant event's emergent picks (core/pick/departure.ts, pickEventSites step 4)
-// on generated regional event seed 32 (one of the seeds it was chosen on): ML 3.9, 220-276 km away.
-// Values measured once (errors in s).
-describe('eventPicks steps back the emergent Pn of a generated regional event (seed 32)', () => {
-  it('moves BRAE, CALD, LUNE and PERR from 0.05-0.095 s late to within 0.03 s of the true P and leaves the other ten P picks where the AIC put them', () => {
-    const r = renderRegional(32);
-    const keys = [...r.truth.keys()];
-    const stepped = regionalErrors(r, LOCAL_SCAN_SETTINGS).p;
-    const plain = regionalErrors(r, { ...LOCAL_SCAN_SETTINGS, eventPicking: { distantStepBack: null } }).p;
-    expect(keys).toHaveLength(14);
-    const moved = ['XX.BRAE', 'XX.CALD', 'XX.LUNE', 'XX.PERR'];
-    keys.forEach((k, i) => {
-      if (moved.includes(k)) {
-        expect(plain[i]).toBeGreaterThanOrEqual(0.05);
-        expect(plain[i]).toBeLessThanOrEqual(0.095);
-        expect(Math.abs(stepped[i])).toBeLessThanOrEqual(0.03);
-      } else {
-        expect(stepped[i]).toBe(plain[i]);
-      }
-    });
-  }, 30_000);
 });
