@@ -1,8 +1,8 @@
 /**
  * The event list's measures: each event's location RMS (s) and local magnitude, worked out in the
- * background only when the list is sorted by one of them, one event at a time with a pause between
- * (so the interface stays responsive), and kept per event object: an edited event is a new object
- * and is measured again; an unchanged one never is.
+ * background only when the list is sorted by one of them, one event at a time (the desk locates and
+ * measures in workers, so the interface thread only sends and receives), and kept per event object:
+ * an edited event is a new object and is measured again; an unchanged one never is.
  */
 import type { ReviewEvent } from '../core/review';
 import type { ReviewLocation } from '../core/location';
@@ -21,7 +21,7 @@ export class EventMeasures {
    * null; `changed` is called when values arrive (at most every `notifyMs`).
    */
   constructor(
-    private readonly locate: (ev: ReviewEvent) => ReviewLocation | null,
+    private readonly locate: (ev: ReviewEvent) => Promise<ReviewLocation | null>,
     private readonly magnitude: (ev: ReviewEvent, loc: ReviewLocation) => Promise<number | null>,
     private readonly changed: () => void,
     private readonly notifyMs = 250,
@@ -61,12 +61,11 @@ export class EventMeasures {
     try {
       while (this.queue.length) {
         const { ev, ml } = this.queue.shift()!;
-        await new Promise((r) => setTimeout(r, 0));
         let k = this.known.get(ev);
         if (!k) {
           let location: ReviewLocation | null = null;
           try {
-            location = this.locate(ev);
+            location = await this.locate(ev);
           } catch {
             location = null;
           }

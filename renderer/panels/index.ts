@@ -1,23 +1,28 @@
 /**
  * The event panels beside the traces, stacked in one column (260-300 px wide): plan view, pick
- * residuals, Wadati diagram. `EventPanels.update` locates the event (core/location/fromReview.ts)
- * and redraws all three; `guides` gives the predicted P and S times for the pick layer; hovering a
+ * residuals, Wadati diagram. `EventPanels.update` has the event located in a worker
+ * (locationClient.ts: core/location/fromReview.ts off the interface thread) and redraws all three
+ * when the answer comes, unless a newer update was asked for meanwhile (a stale answer is never
+ * drawn over a newer one); `guides` gives the predicted P and S times for the pick layer; hovering a
  * site in any panel highlights it in all three and calls `onHover` so the desk can highlight its row.
  *
  *   const panels = new EventPanels(sideColumn, { onHover: (site) => traces.highlight(site) });
- *   const r = panels.update(event, siteLocations(metas), model);   // after every pick edit
- *   marks.guides = panels.guidesAt(event, ref);                     // PickMarks.guides (memoised)
- *   panels.highlight(site);                                        // a row hovered in the desk
+ *   const r = await panels.update(event, siteLocations(metas), model);   // after every pick edit; null when superseded
+ *   marks.guides = panels.guidesAt(event, ref);                           // PickMarks.guides (memoised)
+ *   panels.highlight(site);                                               // a row hovered in the desk
  */
 import './panels.css';
 import {
-  locateReviewEvent, predictedArrivals, siteLocations, spCircles, verticalAverageSpeeds, wadatiOfEvent, siteOfChannel,
+  locateReviewEvent, siteLocations, spCircles, verticalAverageSpeeds, siteOfChannel,
   type PredictedArrival, type ReviewLocateOptions, type ReviewLocateResult, type SiteLocation,
 } from '../../core/location/fromReview';
 import type { VelocityModel } from '../../core/location/velocityModel';
 import type { WadatiResult } from '../../core/location/wadati';
 import type { ReviewEvent } from '../../core/review/types';
 import { isoFromMicros, type Micros } from '../../core/time';
+import { SupersededError } from '../latestOnly';
+import { LocationWorker } from './locationClient';
+import { eventLocation, type EventLocation } from './locationJobs';
 import { PlanView } from './planView';
 import { ResidualPanel } from './residualPanel';
 import { WadatiPanel } from './wadatiPanel';
@@ -26,20 +31,25 @@ export { siteLocations };
 export { PlanView, type PlanInput, type PlanStation } from './planView';
 export { ResidualPanel, type ResidualInput, type ResidualItem } from './residualPanel';
 export { WadatiPanel, type WadatiInput } from './wadatiPanel';
+export { LocationWorker } from './locationClient';
 
 export interface EventPanelsOptions {
   /** A site hovered in any panel (null when none). */
   onHover?(site: string | null): void;
   /** Passed to locateReviewEvent (e.g. a fixed depth). */
   locate?: ReviewLocateOptions;
+  /** The worker that locates (default: one of the panels' own). */
+  locator?: LocationWorker;
 }
 
 /** What update() found, for the desk's status line and the QuakeML origin. */
 export interface EventPanelsState {
+  /** The event these results are of (null: no event open). */
+  event: ReviewEvent | null;
   location: ReviewLocateResult | null;
   wadati: WadatiResult | null;
   predicted: Map<string, PredictedArrival> | null;
-  /** Time spent locating and drawing, ms. */
+  /** Time the worker spent locating, and the interface thread drawing, ms. */
   locateMs: number;
   drawMs: number;
 }
@@ -50,11 +60,15 @@ export class EventPanels {
   readonly residuals: ResidualPanel;
   readonly wadati: WadatiPanel;
   private readonly summary = document.createElement('div');
-  private state: EventPanelsState = { location: null, wadati: null, predicted: null, locateMs: 0, drawMs: 0 };
+  private state: EventPanelsState = { event: null, location: null, wadati: null, predicted: null, locateMs: 0, drawMs: 0 };
   private highlighted: string | null = null;
-  private lastInput: { event: ReviewEvent | null; sites: ReadonlyMap<string, SiteLocation>; model: VelocityModel } | null = null;
+
+  private readonly locator: LocationWorker;
+  /** Number of the newest update asked for. */
+  private seq = 0;
 
   constructor(container: HTMLElement, private readonly options: EventPanelsOptions = {}) {
+    this.locator = options.locator ?? new LocationWorker();
     this.root.className = 'db-panels';
     this.summary.className = 'db-panels-summary';
     this.root.append(this.summary);
@@ -68,39 +82,65 @@ export class EventPanels {
     this.wadati = new WadatiPanel(this.root, { onHover: hover });
   }
 
-  /** The last update's results. */
+  /** The last results drawn. */
   get current(): EventPanelsState {
     return this.state;
   }
 
   /**
-   * Locates `event` with the sites' coordinates and the model, fits its Wadati line, and redraws
-   * the three panels. Call after every pick edit and when another event opens (null: no event).
+   * Has `event` located with the sites' coordinates and the model, its Wadati line fitted (in the
+   * worker), and redraws the three panels with the answer. Call after every pick edit and when
+   * another event opens (null: no event). Resolves with what was drawn, or null when a newer update
+   * was asked for before the answer came (nothing is drawn then: the newer one will be).
    */
-  update(event: ReviewEvent | null, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel): EventPanelsState {
+  update(event: ReviewEvent | null, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel): Promise<EventPanelsState | null> {
     // Review events are immutable values (an edit makes a new one): the same event, sites and model
     // need no new solution (a click that only selects a pick costs nothing).
     const last = this.lastInput;
-    if (last && last.event === event && last.sites === sites && last.model === model) return this.state;
-    this.lastInput = { event, sites, model };
-    const t0 = performance.now();
-    let location: ReviewLocateResult | null = null;
-    let wadati: WadatiResult | null = null;
-    let predicted: Map<string, PredictedArrival> | null = null;
+    if (last && last.event === event && last.sites === sites && last.model === model) return last.result;
+    const result = this.locateAndDraw(++this.seq, event, sites, model);
+    this.lastInput = { event, sites, model, result };
+    return result;
+  }
+
+  /** The results of the newest update once it is drawn (at once when none is on its way). */
+  async settled(): Promise<EventPanelsState> {
+    for (;;) {
+      const p = this.lastInput?.result;
+      if (!p) return this.state;
+      const r = await p;
+      if (p === this.lastInput?.result) return r ?? this.state;
+    }
+  }
+
+  private lastInput: { event: ReviewEvent | null; sites: ReadonlyMap<string, SiteLocation>; model: VelocityModel; result: Promise<EventPanelsState | null> } | null = null;
+
+  private async locateAndDraw(seq: number, event: ReviewEvent | null, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel): Promise<EventPanelsState | null> {
+    let found: EventLocation | null = null;
+    let locateMs = 0;
     if (event) {
       try {
-        location = locateReviewEvent(event, sites, model, this.options.locate);
+        const r = await this.locator.panels(event, sites, model, this.options.locate);
+        found = r.value;
+        locateMs = r.ms;
       } catch (e) {
-        location = { ok: false, code: 'did-not-converge', message: e instanceof Error ? e.message : String(e), skipped: [] };
+        if (e instanceof SupersededError) return null;
+        const message = e instanceof Error ? e.message : String(e);
+        found = { location: { ok: false, code: 'did-not-converge', message, skipped: [] }, wadati: { ok: false, code: 'degenerate', message }, predicted: null };
       }
-      try {
-        wadati = wadatiOfEvent(event);
-      } catch (e) {
-        wadati = { ok: false, code: 'degenerate', message: e instanceof Error ? e.message : String(e) };
-      }
-      if (location.ok) predicted = predictedArrivals(location.value.hypocentre, sites, model);
     }
+    if (seq !== this.seq) return null;
     const t1 = performance.now();
+    this.draw(event, sites, model, found);
+    this.state = { event, location: found?.location ?? null, wadati: found?.wadati ?? null, predicted: found?.predicted ?? null, locateMs, drawMs: performance.now() - t1 };
+    return this.state;
+  }
+
+  /** Draws the three panels and the summary from a location (null: no event). */
+  private draw(event: ReviewEvent | null, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel, found: EventLocation | null): void {
+    const location = found?.location ?? null;
+    const wadati = found?.wadati ?? null;
+    const predicted = found?.predicted ?? null;
     const picked = new Set((event?.picks ?? []).map((p) => siteOfChannel(p.channel)));
     const stations = [...sites].map(([site, s]) => ({ site, latitude: s.latitude, longitude: s.longitude, picked: picked.has(site) }));
     let circles: { site: string; epicentralKm: number }[] = [];
@@ -124,9 +164,6 @@ export class EventPanels {
     this.wadati.set({ result: wadati, locatedOrigin: h ? h.originTime : null, highlight: this.highlighted });
     this.summary.replaceChildren(...summaryLines(event, location));
     this.summary.classList.toggle('failed', !!location && !location.ok);
-    const t2 = performance.now();
-    this.state = { location, wadati, predicted, locateMs: t1 - t0, drawMs: t2 - t1 };
-    return this.state;
   }
 
   /** Highlights a site in all three panels (null: none); does not call onHover. */
@@ -141,11 +178,12 @@ export class EventPanels {
   /**
    * Predicted-arrival guides for the pick layer (PickMarks.guides): for every site, the P and S of
    * the current solution that the event has no pick of; `toView` turns µs into the view's seconds.
+   * None while the solution drawn is of another event (the event's own is on its way).
    */
   guides(event: ReviewEvent | null, toView: (t: number) => number): Map<string, { phase: 'P' | 'S'; t: number }[]> {
     const out = new Map<string, { phase: 'P' | 'S'; t: number }[]>();
     const pred = this.state.predicted;
-    if (!pred) return out;
+    if (!pred || !event || this.state.event?.id !== event.id) return out;
     const have = new Set((event?.picks ?? []).filter((p) => p.status !== 'rejected').map((p) => `${siteOfChannel(p.channel)}|${p.phase}`));
     for (const [site, a] of pred) {
       const list: { phase: 'P' | 'S'; t: number }[] = [];
@@ -171,6 +209,7 @@ export class EventPanels {
   private guideMemo: { state: EventPanelsState; event: ReviewEvent | null; ref: Micros; guides: Map<string, { phase: 'P' | 'S'; t: number }[]> } | null = null;
 
   destroy(): void {
+    if (!this.options.locator) this.locator.terminate();
     this.plan.destroy();
     this.residuals.destroy();
     this.wadati.destroy();
@@ -208,12 +247,18 @@ export interface PanelsDemoInput {
   model: VelocityModel;
   highlight?: string | null;
   theme?: 'light' | 'dark';
+  /** Ask for this event's location first and for `event`'s at once after it (an edit before the answer came). */
+  before?: ReviewEvent;
 }
 
 let demo: { host: HTMLElement; panels: EventPanels; hovered: (string | null)[] } | null = null;
 
-/** Shows the panels in a fixed column at the right of the page with `input`; returns timings and where things are. */
-function panelsDemo(input: PanelsDemoInput) {
+/**
+ * Shows the panels in a fixed column at the right of the page with `input` (located in the worker);
+ * returns timings, where things are, and whether the worker's answer is the same, value for value,
+ * as eventLocation called here on the page's own thread.
+ */
+async function panelsDemo(input: PanelsDemoInput) {
   if (input.theme) document.documentElement.dataset.theme = input.theme;
   if (!demo) {
     const host = document.createElement('div');
@@ -223,8 +268,13 @@ function panelsDemo(input: PanelsDemoInput) {
     demo = { host, panels: new EventPanels(host, { onHover: (s) => hovered.push(s) }), hovered };
   }
   const sites = new Map(input.sites);
-  const st = demo.panels.update(input.event, sites, input.model);
-  const memoised = demo.panels.update(input.event, sites, input.model) === st;
+  const older = input.before ? demo.panels.update(input.before, sites, input.model) : null;
+  const asked = demo.panels.update(input.event, sites, input.model);
+  const st = await asked;
+  if (!st) throw new Error('the panels update was superseded although no other was asked for');
+  const memoised = demo.panels.update(input.event, sites, input.model) === asked;
+  const direct = eventLocation(input.event, sites, input.model);
+  const fromWorker = { location: st.location, wadati: st.wadati, predicted: st.predicted };
   demo.panels.highlight(input.highlight ?? null);
   // redraw timings of each panel alone, best of 20 (the first draw pays for fonts and layout)
   const best = (p: { draw(): number }) => Math.min(...Array.from({ length: 20 }, () => p.draw()));
@@ -255,12 +305,36 @@ function panelsDemo(input: PanelsDemoInput) {
     guides: [...demo.panels.guidesAt(input.event, input.event.start)],
     updateMemoised: memoised,
     guidesMemoised: demo.panels.guidesAt(input.event, input.event.start) === demo.panels.guidesAt(input.event, input.event.start),
+    workerDiffers: firstDifference(fromWorker, direct, 'result'),
+    /** What the update asked for first resolved with (null: superseded, not drawn); undefined without `before`. */
+    beforeDrawn: older ? ((await older) === null ? null : 'drawn') : undefined,
+    drawnEvent: demo.panels.current.event?.id ?? null,
+    summary: demo.panels.root.querySelector('.db-panels-summary')?.textContent ?? '',
     spots,
     column: box(demo.panels.root),
     hovered: demo.hovered,
   };
 }
 
-export type PanelsDemoOutput = ReturnType<typeof panelsDemo>;
+export type PanelsDemoOutput = Awaited<ReturnType<typeof panelsDemo>>;
+
+/** Where `a` and `b` first differ (a path), or null when they are the same value for value (NaN equals NaN, Maps by entries). */
+function firstDifference(a: unknown, b: unknown, path: string): string | null {
+  if (Object.is(a, b)) return null;
+  if (typeof a !== 'object' || typeof b !== 'object' || a === null || b === null) return `${path}: ${String(a)} vs ${String(b)}`;
+  if (a instanceof Map || b instanceof Map) {
+    if (!(a instanceof Map && b instanceof Map)) return `${path}: a Map and something else`;
+    return firstDifference([...a], [...b], path);
+  }
+  if (Array.isArray(a) !== Array.isArray(b)) return `${path}: an array and something else`;
+  const ka = Object.keys(a);
+  const kb = Object.keys(b);
+  if (ka.length !== kb.length || ka.some((k, i) => k !== kb[i])) return `${path}: keys ${ka.join(',')} vs ${kb.join(',')}`;
+  for (const k of ka) {
+    const d = firstDifference((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], `${path}.${k}`);
+    if (d) return d;
+  }
+  return null;
+}
 
 (window as unknown as { daybreakPanelsDemo: typeof panelsDemo }).daybreakPanelsDemo = panelsDemo;

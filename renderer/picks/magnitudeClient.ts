@@ -1,80 +1,108 @@
 /**
- * The desk's side of the magnitude worker: sends the event (and the raw pieces when they are new to
- * the worker) and gives back the magnitude with the time its computation took.
+ * The desk's side of the magnitude worker (magnitudeWorker.ts), one job at a time
+ * (renderer/latestOnly.ts):
+ * - `compute`: the open event's magnitude. Sends the event, and the raw pieces when they are new to
+ *   the worker (it keeps them for the next edit). Only the newest waiting job runs.
+ * - `measure`: a magnitude for the event list or an export, from pieces read for it alone (moved to
+ *   the worker, not copied), after any `compute` job waiting.
+ * The channels' metadata and the sites go to the worker when the sites change (by identity: the
+ * desk sets both when a dataset opens).
  */
 import type { EvaluationStatus } from '../../core/pick/types';
 import type { ReviewLocation, SiteLocation } from '../../core/location/fromReview';
 import type { RawPiece, ReviewMagnitude } from '../../core/review/reviewMagnitude';
 import type { ChannelMeta } from '../../core/stationxml/types';
 import type { ReviewEvent } from '../../core/review/types';
-import type { MagnitudeData, MagnitudeReply, MagnitudeRequest } from './magnitudeProtocol';
+import type { MagnitudePieces, MagnitudeReply, MagnitudeRequest } from './magnitudeProtocol';
 import { LatestOnly } from '../latestOnly';
+import { WorkerCalls, type WorkerPort } from '../workerPort';
 
-export interface MagnitudeJob {
+interface MagnitudeInput {
   ev: ReviewEvent;
   loc: ReviewLocation;
   evaluationStatus: EvaluationStatus;
-  /** Identifies what the pieces were read for ("channels|from|to"). */
-  readKey: string;
-  /** Reads the raw pieces (only called when the worker does not hold them for readKey). */
-  read(): Promise<RawPiece[]>;
   metas(): ChannelMeta[];
   sites(): ReadonlyMap<string, SiteLocation>;
 }
 
+export interface MagnitudeJob extends MagnitudeInput {
+  /** Identifies what the pieces were read for ("channels|from|to"). */
+  readKey: string;
+  /** Reads the raw pieces (only called when the worker does not hold them for readKey). */
+  read(): Promise<RawPiece[]>;
+}
+
+/** A job with its own pieces (they are moved to the worker: do not use them afterwards). */
+export interface MeasureJob extends MagnitudeInput {
+  pieces: RawPiece[];
+}
+
+type Job = { kind: 'compute'; job: MagnitudeJob } | { kind: 'measure'; job: MeasureJob };
+
 export class MagnitudeWorker {
-  private readonly worker = new Worker(new URL('./magnitudeWorker.ts', import.meta.url), { type: 'module' });
-  private readonly pending = new Map<number, (r: MagnitudeReply) => void>();
-  private nextId = 1;
-  /** readKey of the pieces last sent. */
-  private sentKey: string | null = null;
+  private readonly calls: WorkerCalls<MagnitudeRequest, MagnitudeReply>;
+  /** readKey of the pieces the worker holds. */
+  private heldKey: string | null = null;
+  private contextKey = 0;
+  /** The sites the worker's context was made with. */
+  private sentSites: ReadonlyMap<string, SiteLocation> | null = null;
+  private readonly jobs = new LatestOnly<Job, { value: ReviewMagnitude | null; ms: number }>((job) => this.run(job));
 
-  constructor() {
-    this.worker.onmessage = (e: MessageEvent<MagnitudeReply>) => {
-      const done = this.pending.get(e.data.id);
-      this.pending.delete(e.data.id);
-      done?.(e.data);
-    };
-    this.worker.onerror = (e) => {
-      for (const [, done] of this.pending) done({ id: 0, ok: false, message: `magnitude worker failed: ${e.message}`, stale: false });
-      this.pending.clear();
-    };
+  constructor(worker?: WorkerPort) {
+    this.calls = new WorkerCalls(worker ?? new Worker(new URL('./magnitudeWorker.ts', import.meta.url), { type: 'module' }), 'magnitude');
   }
-
-  private readonly jobs = new LatestOnly<MagnitudeJob, { value: ReviewMagnitude | null; ms: number }>((job) => this.run(job));
 
   /**
-   * The job's magnitude (null when it has none) and the worker's computing time, ms. One job runs at
+   * The open event's magnitude (null when it has none) and the worker's computing time, ms. One job runs at
    * a time; a job still waiting when a newer one comes is dropped (its promise rejects with
-   * SupersededError), so stepping through events does not queue a magnitude for each.
+   * SupersededError), so stepping through events does not queue a magnitude computation for each.
    */
   compute(job: MagnitudeJob): Promise<{ value: ReviewMagnitude | null; ms: number }> {
-    return this.jobs.submit(job);
+    return this.jobs.submit({ kind: 'compute', job });
   }
 
-  private async run(job: MagnitudeJob): Promise<{ value: ReviewMagnitude | null; ms: number }> {
+  /** The magnitude of `job.ev` from `job.pieces` (null when it has none), after the jobs asked before it. */
+  async measure(job: MeasureJob): Promise<ReviewMagnitude | null> {
+    return (await this.jobs.queue({ kind: 'measure', job })).value;
+  }
+
+  private async run(j: Job): Promise<{ value: ReviewMagnitude | null; ms: number }> {
+    const job = j.job;
     for (let attempt = 0; attempt < 2; attempt++) {
-      let data: MagnitudeData | null = null;
-      if (this.sentKey !== job.readKey || attempt > 0) {
-        // Only the fields the magnitude reads (a window piece also carries its drawing pyramid).
-        const pieces = (await job.read()).map((p) => ({ key: p.key, start: p.start, sampleRate: p.sampleRate, samples: p.samples, clipped: p.clipped }));
-        data = { readKey: job.readKey, pieces, metas: job.metas(), sites: [...job.sites()] };
-        this.sentKey = job.readKey;
+      const sites = job.sites();
+      const fresh = this.sentSites !== sites || attempt > 0;
+      if (fresh) {
+        this.contextKey++;
+        this.sentSites = sites;
       }
-      const id = this.nextId++;
-      const req: MagnitudeRequest = { id, ev: job.ev, loc: job.loc, evaluationStatus: job.evaluationStatus, readKey: job.readKey, data };
-      const reply = await new Promise<MagnitudeReply>((resolve) => {
-        this.pending.set(id, resolve);
-        this.worker.postMessage(req);
-      });
+      let pieces: MagnitudePieces;
+      const transfer = new Set<ArrayBuffer>();
+      if (j.kind === 'measure') {
+        pieces = { kind: 'once', pieces: onlyRead(j.job.pieces) };
+        for (const p of pieces.pieces) if (p.samples.buffer instanceof ArrayBuffer) transfer.add(p.samples.buffer);
+      } else if (this.heldKey !== j.job.readKey || attempt > 0) {
+        pieces = { kind: 'hold', readKey: j.job.readKey, pieces: onlyRead(await j.job.read()) };
+        this.heldKey = j.job.readKey;
+      } else {
+        pieces = { kind: 'held', readKey: j.job.readKey };
+      }
+      const req: MagnitudeRequest = {
+        id: this.calls.id(), ev: job.ev, loc: job.loc, evaluationStatus: job.evaluationStatus, pieces, contextKey: this.contextKey,
+        context: fresh ? { key: this.contextKey, metas: job.metas(), sites: [...sites] } : null,
+      };
+      const reply = await this.calls.call(req, [...transfer]);
       if (reply.ok) return { value: reply.value, ms: reply.ms };
-      if (!reply.stale) throw new Error(reply.message);
+      if (!reply.stale || j.kind === 'measure') throw new Error(reply.message);
     }
-    throw new Error('the magnitude worker lost the pieces it was sent');
+    throw new Error('the magnitude worker lost the pieces or metadata it was sent');
   }
 
   terminate(): void {
-    this.worker.terminate();
-    this.pending.clear();
+    this.calls.terminate();
   }
+}
+
+/** Only the fields the magnitude reads (a window piece also carries its drawing pyramid). */
+function onlyRead(pieces: readonly RawPiece[]): RawPiece[] {
+  return pieces.map((p) => ({ key: p.key, start: p.start, sampleRate: p.sampleRate, samples: p.samples, clipped: p.clipped }));
 }

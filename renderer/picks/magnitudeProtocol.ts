@@ -5,25 +5,35 @@ import type { RawPiece, ReviewMagnitude } from '../../core/review/reviewMagnitud
 import type { ChannelMeta } from '../../core/stationxml/types';
 import type { ReviewEvent } from '../../core/review/types';
 
-/** What the pieces were read for ("channels|from|to"), and, when they are new to the worker, the pieces. */
-export interface MagnitudeData {
-  readKey: string;
-  pieces: RawPiece[];
+/** The channels' metadata and the sites' coordinates; sent when they change, held by the worker. */
+export interface MagnitudeContext {
+  key: number;
   metas: ChannelMeta[];
   sites: [string, SiteLocation][];
 }
+
+/**
+ * The raw pieces of a job: those the worker holds for `readKey` ('held'), new ones to hold for the
+ * jobs after this one too ('hold': the open event's, kept while its picks move), or pieces for this
+ * job only ('once': the event list's and the exports', which leave the held ones alone).
+ */
+export type MagnitudePieces =
+  | { kind: 'held'; readKey: string }
+  | { kind: 'hold'; readKey: string; pieces: RawPiece[] }
+  | { kind: 'once'; pieces: RawPiece[] };
 
 export interface MagnitudeRequest {
   id: number;
   ev: ReviewEvent;
   loc: ReviewLocation;
   evaluationStatus: EvaluationStatus;
-  readKey: string;
-  /** Null: use the pieces held for `readKey`. */
-  data: MagnitudeData | null;
+  pieces: MagnitudePieces;
+  contextKey: number;
+  /** Null: use the context held for `contextKey`. */
+  context: MagnitudeContext | null;
 }
 
 export type MagnitudeReply =
   | { id: number; ok: true; value: ReviewMagnitude | null; ms: number }
-  /** `stale`: the worker does not hold the pieces for the request's readKey (send them). */
+  /** `stale`: the worker does not hold the context or the pieces the request names (send them). */
   | { id: number; ok: false; message: string; stale: boolean };

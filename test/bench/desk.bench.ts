@@ -13,6 +13,15 @@
  * task after its paint, with nothing to draw) and a fixed piece of arithmetic (a CPU reference, so
  * figures from a loaded machine can be compared with those from a quiet one), and beside the issue's
  * budget. Each figure is the median of several runs; the spread (min-max) is printed too.
+ *
+ * The interface thread: while an event opens (from the click until its rows are loaded and its
+ * magnitude has arrived), while the list is sorted by magnitude (until every event has its ML) and
+ * while the review is exported, the longest task Chromium reports (PerformanceObserver 'longtask',
+ * tasks of 50 ms or more; 0 when there was none) and the longest time between two
+ * requestAnimationFrame callbacks (what the analyst sees as a stall), and, finer than both, the
+ * longest stretch between two turns of a message ping running meanwhile (an event-loop probe: a
+ * MessageChannel message posted again as soon as it arrives, so any gap is a task or a frame's
+ * rendering that held the thread).
  */
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -39,6 +48,48 @@ async function untilLoaded(page: Page, prev: Timings): Promise<Timings> {
     await page.waitForTimeout(25);
   }
   throw new Error('the window did not load within 30 s');
+}
+
+/** Installs the long-task observer and a frame loop in the page (once per page). */
+async function watchInterface(page: Page): Promise<void> {
+  await page.evaluate(`(() => {
+    const s = window.__ui = { tasks: [], gaps: [], last: 0 };
+    new PerformanceObserver((l) => { for (const e of l.getEntries()) s.tasks.push([e.startTime, e.duration]); }).observe({ type: 'longtask' });
+    const loop = (t) => { if (s.last) s.gaps.push([s.last, t - s.last]); s.last = t; if (s.gaps.length > 20000) s.gaps.splice(0, 10000); requestAnimationFrame(loop); };
+    requestAnimationFrame(loop);
+    const p = window.__probe = { on: false, max: 0, last: 0, ch: new MessageChannel() };
+    p.ch.port1.onmessage = () => { const t = performance.now(); if (t - p.last > p.max) p.max = t - p.last; p.last = t; if (p.on) p.ch.port2.postMessage(0); };
+  })()`);
+}
+
+/** Starts the event-loop probe and returns the page's time now, ms. */
+async function probeStart(page: Page): Promise<number> {
+  return (await page.evaluate(`(() => { const p = window.__probe; p.on = true; p.max = 0; p.last = performance.now(); p.ch.port2.postMessage(0); return p.last; })()`)) as number;
+}
+
+/** Stops the probe; the longest stretch without a turn since probeStart, ms. */
+async function probeStop(page: Page): Promise<number> {
+  return (await page.evaluate(`(() => { const p = window.__probe; p.on = false; return p.max; })()`)) as number;
+}
+
+/** The longest long task and the longest frame gap that began at or after `since` (page ms). */
+async function interfaceSince(page: Page, since: number): Promise<{ task: number; gap: number }> {
+  return (await page.evaluate(`(() => {
+    const s = window.__ui; let task = 0, gap = 0;
+    for (const [t, d] of s.tasks) if (t >= ${since} && d > task) task = d;
+    for (const [t, d] of s.gaps) if (t >= ${since} && d > gap) gap = d;
+    return { task, gap };
+  })()`)) as { task: number; gap: number };
+}
+
+
+/** Waits until the open event's magnitude is the one of `id` (or 10 s passed: no magnitude). */
+async function untilMagnitude(page: Page, id: string): Promise<void> {
+  for (let i = 0; i < 400; i++) {
+    const m = (await page.evaluate('window.daybreakMagnitude && window.daybreakMagnitude()')) as { event: string | null } | null;
+    if (m?.event === id) return;
+    await page.waitForTimeout(25);
+  }
 }
 
 interface Refs { frame: number; emptyFrame: number; cpu: number; shared: string }
@@ -138,6 +189,10 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
     await page.waitForTimeout(500);
     const refs = await references(page);
     const { lines, row } = reporter(refs);
+    await watchInterface(page);
+    const openTask: number[] = [];
+    const openProbe: number[] = [];
+    const openGap: number[] = [];
     const opened: number[] = [];
     const all: number[] = [];
     const parts = { read: [] as number[], draw: [] as number[], paint: [] as number[] };
@@ -151,12 +206,20 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
     // Open the three events in turn, three rounds (by clicking them in the list).
     for (let round = 0; round < 3; round++) {
       for (let e = 0; e < 3; e++) {
-        await page.locator('.event-list li').nth((e + 1) % 3).click();
+        const item = page.locator('.event-list li').nth((e + 1) % 3);
+        const id = (await item.getAttribute('data-id'))!;
+        const since = await probeStart(page);
+        await item.click();
         last = await untilLoaded(page, last);
+        await untilMagnitude(page, id);
+        await page.waitForTimeout(150);
+        openProbe.push(await probeStop(page));
+        const ui = await interfaceSince(page, since);
+        openTask.push(ui.task);
+        openGap.push(ui.gap);
         opened.push(last.readMs + last.drawMs);
         all.push(last.allMs ?? NaN);
         split(last, parts);
-        await page.waitForTimeout(150);
       }
     }
     const refilter: number[] = [];
@@ -169,6 +232,37 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
       split(last, rparts);
       await page.waitForTimeout(100);
     }
+    // The list sorted by magnitude: every event's ML worked out (location, read, magnitude).
+    let since = await probeStart(page);
+    const t0List = performance.now();
+    await page.locator('select.sort-key').selectOption('magnitude');
+    for (let i = 0; i < 1200; i++) {
+      const done = (await page.evaluate(`[...document.querySelectorAll('.event-list li[data-id]')].filter((li) => li.dataset.ml !== '').length`)) as number;
+      if (done >= 3) break;
+      await page.waitForTimeout(25);
+    }
+    const listMs = performance.now() - t0List;
+    await page.waitForTimeout(150);
+    const listProbe = await probeStop(page);
+    const listUi = await interfaceSince(page, since);
+    await page.locator('select.sort-key').selectOption('time');
+    // Export: every event located and its magnitude measured again, QuakeML and CSV written.
+    since = await probeStart(page);
+    const t0Export = performance.now();
+    await page.getByRole('button', { name: 'Export QuakeML + CSV' }).click();
+    let exportNote = '';
+    for (let i = 0; ; i++) {
+      const text = (await page.evaluate(`document.querySelector('span.status')?.textContent ?? ''`)) as string;
+      if (text.startsWith('exported')) break;
+      // The host refuses requests over 1 MiB (electron/host/server.ts): the 60-site review's QuakeML is larger.
+      if (text.startsWith('export failed')) { exportNote = ` (${text})`; break; }
+      if (i > 2400) throw new Error(`the export did not finish within 60 s; status: ${text}`);
+      await page.waitForTimeout(25);
+    }
+    const exportMs = performance.now() - t0Export;
+    await page.waitForTimeout(150);
+    const exportProbe = await probeStop(page);
+    const exportUi = await interfaceSince(page, since);
     lines.unshift(`--- generated network: ${sites} sites x 3 components x 90 s at 100 Hz (${last.channels} channels, ${last.rows} rows)`);
     row('open an event: until the rows in view are drawn', opened, budgetOpen);
     row('  of which: read, decode and filter them (host and workers)', parts.read, null);
@@ -180,6 +274,18 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
     row('  of which: drawing them, until painted', rparts.paint, null);
     row('    (the drawing work itself)', rparts.draw, null);
     row('  ... until every row is filtered', refilterAll, null);
+    row('interface thread, opening an event: longest task (probe)', openProbe, null);
+    row('interface thread, opening an event: longest task (0: none >= 50 ms)', openTask, null);
+    row('interface thread, opening an event: longest gap between frames', openGap, null);
+    row(`sort the list by ML (3 events): until every ML is shown`, [listMs], null);
+    row('  interface thread meanwhile: longest task (probe)', [listProbe], null);
+    row('  interface thread meanwhile: longest task (longtask)', [listUi.task], null);
+    row('  interface thread meanwhile: longest gap between frames', [listUi.gap], null);
+    row(`export QuakeML + CSV (3 events): until written${exportNote ? ' or refused' : ''}`, [exportMs], null);
+    if (exportNote) lines.push(`  ${exportNote.trim()}`);
+    row('  interface thread meanwhile: longest task (probe)', [exportProbe], null);
+    row('  interface thread meanwhile: longest task (longtask)', [exportUi.task], null);
+    row('  interface thread meanwhile: longest gap between frames', [exportUi.gap], null);
     return lines;
   } finally {
     await app.close();

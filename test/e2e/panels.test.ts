@@ -38,7 +38,8 @@ describe('event panels: plan view, residuals and Wadati diagram (Chromium, brows
     // The panels as a module of their own, served beside the app (script-src 'self' allows it).
     const staticDir = await buildRenderer();
     await build({
-      configFile: false, root: repoRoot, logLevel: 'warn',
+      // base './': the location worker's file is found beside panels.js (the app's build does the same)
+      configFile: false, root: repoRoot, logLevel: 'warn', base: './',
       build: {
         outDir: join(staticDir, 'panels-demo'), emptyOutDir: true, sourcemap: false, target: 'es2022',
         lib: { entry: join(repoRoot, 'renderer', 'panels', 'index.ts'), formats: ['es'], fileName: () => 'panels.js', cssFileName: 'panels' },
@@ -68,7 +69,8 @@ describe('event panels: plan view, residuals and Wadati diagram (Chromium, brows
     if (!node.ok) throw new Error(node.message);
     expect(out.ok).toBe(true);
     const h = out.hypocentre!;
-    // the page's bundle and the core in Node give the same solution
+    // located in the worker: the same values as the core called on the page's own thread, and as in Node
+    expect(out.workerDiffers).toBeNull();
     expect(h.originTime).toBe(node.value.hypocentre.originTime);
     expect(h.latDeg).toBeCloseTo(node.value.hypocentre.latDeg, 9);
     expect(h.depthKm).toBeCloseTo(node.value.hypocentre.depthKm, 6);
@@ -132,6 +134,7 @@ describe('event panels: plan view, residuals and Wadati diagram (Chromium, brows
     const event: ReviewEvent = { id: 'km', source: 'analyst', start: T0, end: T0 + 60e6, state: 'started', type: null, typeCertainty: null, note: '', picks };
     const out = await show({ event, sites: [...net], model, highlight: 'XX.C3', theme: 'light' });
     expect(out.ok).toBe(true);
+    expect(out.workerDiffers).toBeNull();
     expect(out.hypocentre!.phaseCount).toBe(12); // 7 P + 6 S, one of them rejected
     expect(out.guides.find(([s]) => s === 'XX.H8')?.[1].map((g) => g.phase)).toEqual(['P', 'S']);
     expect(out.guides.find(([s]) => s === 'XX.G7')?.[1].map((g) => g.phase)).toEqual(['S']);
@@ -141,5 +144,22 @@ describe('event panels: plan view, residuals and Wadati diagram (Chromium, brows
     for (const ms of Object.values(out.drawMs)) expect(ms).toBeLessThan(5);
     console.log(`km network: locate ${out.locateMs.toFixed(2)} ms (warm ${out.locateWarmMs.toFixed(2)} ms), redraw plan ${out.drawMs.plan.toFixed(2)} / residuals ${out.drawMs.residuals.toFixed(2)} / Wadati ${out.drawMs.wadati.toFixed(2)} ms`);
     await app.page.locator('.db-panels-demo').screenshot({ path: screenshotPath('panels-km-network-light') });
+  });
+
+  it('draws only the newest of two updates asked for one after the other: the older answer is dropped, never drawn over it', async () => {
+    const model = checkVelocityModel([{ topKm: 0, vp: 4.2, vs: 4.2 / 1.73 }], 'mine half-space');
+    const older = realEvent(REAL, '2019-01-21T11-50-32-914c4.xml', 8_000_000);
+    // the analyst moved the first P by 40 ms before the first answer came
+    const newer: ReviewEvent = { ...older, id: 'moved', picks: older.picks.map((p, i) => (i === 0 ? { ...p, time: p.time + 40_000 } : p)) };
+    const out = await show({ event: newer, before: older, sites: [...sites], model, highlight: null, theme: 'dark' });
+    expect(out.beforeDrawn).toBeNull();
+    expect(out.drawnEvent).toBe('moved');
+    expect(out.workerDiffers).toBeNull();
+    const a = locateReviewEvent(newer, sites, model);
+    const b = locateReviewEvent(older, sites, model);
+    if (!a.ok || !b.ok) throw new Error('not located');
+    expect(out.hypocentre!.originTime).toBe(a.value.hypocentre.originTime);
+    expect(a.value.hypocentre.originTime).not.toBe(b.value.hypocentre.originTime);
+    expect(out.summary).toContain(`RMS ${(a.value.hypocentre.rmsS * 1000).toFixed(1)} ms`);
   });
 });

@@ -43,4 +43,36 @@ describe('LatestOnly: one job at a time, only the newest of those waiting', () =
     await expect(a).rejects.toThrow('bad job 1');
     await expect(b).resolves.toBe(20);
   });
+
+  it('runs background jobs in the order queued, each after any latest-only job waiting, and never drops them', async () => {
+    const started: string[] = [];
+    const gates = new Map<string, ReturnType<typeof gate>>();
+    const q = new LatestOnly<string, string>(async (n) => {
+      started.push(n);
+      const g = gate();
+      gates.set(n, g);
+      await g.done;
+      return `done ${n}`;
+    });
+    const b1 = q.queue('list 1');
+    const b2 = q.queue('list 2');
+    const stale = q.submit('open A');
+    const latest = q.submit('open B');
+    await Promise.resolve();
+    expect(started).toEqual(['list 1']);
+    expect(q.queued).toBe(1);
+    await expect(stale).rejects.toBeInstanceOf(SupersededError);
+    gates.get('list 1')!.open();
+    await expect(b1).resolves.toBe('done list 1');
+    await new Promise((r) => setTimeout(r, 0));
+    // the latest-only job goes before the background job that was queued before it
+    expect(started).toEqual(['list 1', 'open B']);
+    gates.get('open B')!.open();
+    await expect(latest).resolves.toBe('done open B');
+    await new Promise((r) => setTimeout(r, 0));
+    expect(started).toEqual(['list 1', 'open B', 'list 2']);
+    gates.get('list 2')!.open();
+    await expect(b2).resolves.toBe('done list 2');
+    expect(q.queued).toBe(0);
+  });
 });
