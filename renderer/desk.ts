@@ -25,12 +25,12 @@ import {
 } from '../core/review';
 import { microsFromIso } from '../core/time';
 import { readQuakeMl } from '../core/quakeml';
-import { EventPanels } from './panels';
+import { EventPanels, LocationWorker, type EventPanelsState } from './panels';
 import {
-  DEFAULT_MODEL, locateReviewEvent, parseVelocityModel, siteLocations, type ReviewLocation, type SiteLocation, type VelocityModel,
+  DEFAULT_MODEL, parseVelocityModel, siteLocations, type ReviewLocation, type SiteLocation, type VelocityModel,
 } from '../core/location';
 import { KEY_MAP, actionForKey, type KeyAction } from './keys';
-import { magnitudeRead, reviewMagnitude, withMagnitude } from '../core/review/reviewMagnitude';
+import { magnitudeRead, withMagnitude } from '../core/review/reviewMagnitude';
 import { magnitudesToCsv } from '../core/review/magnitudeCsv';
 import { writeQuakeMl } from '../core/quakeml';
 import type { ReviewMagnitude } from '../core/review/reviewMagnitude';
@@ -76,8 +76,6 @@ export class Desk {
   /** Show the sites the limit leaves out too (after the others). */
   private showAllSites = false;
   private sheet: SheetSites | null = null;
-  /** The open event's epicentre as last located (for the distance limit). */
-  private located: { event: ReviewEvent; epicentre: { latitude: number; longitude: number } } | null = null;
   private readonly limitToggle = el('button', { className: 'limit-toggle', hidden: true });
   private windowSpan: [Micros, Micros] | null = null;
   private ref: Micros = 0;
@@ -112,7 +110,7 @@ export class Desk {
   private selected: string | null = null;
   private drag: { pickId: string; part: 'line' | 'lower' | 'upper'; startT: number; preview: number } | null = null;
   /** RMS and magnitude per event for the list, worked out in the background when it is sorted by them. */
-  private readonly measures = new EventMeasures((ev) => this.locateForList(ev), (ev, loc) => this.listMagnitude(ev, loc), () => this.eventList.refresh());
+  private readonly measures = new EventMeasures((ev) => this.locateForList(ev), async (ev, loc) => (await this.eventMagnitude(ev, loc))?.magnitude?.mag ?? null, () => this.eventList.refresh());
   private readonly eventList = new EventList((id) => void this.openEvent(id), (e) => this.measures.get(e), (key, events) => this.measures.want(key, events));
   private readonly eventBar = el('div', { className: 'event-bar' });
   private readonly banner = el('div', { className: 'banner', hidden: true });
@@ -233,7 +231,7 @@ export class Desk {
     const traceHost = el('div', { className: 'trace-host' });
     const side = el('aside', { className: 'event-side' });
     this.sheetHost.replaceChildren(toolbar, el('div', { className: 'sheet-body' }, traceHost, side));
-    this.panels = new EventPanels(side, { onHover: (site) => this.traces?.highlightRow(site) });
+    this.panels = new EventPanels(side, { onHover: (site) => this.traces?.highlightRow(site), locator: this.locator });
     traceHost.addEventListener('pointermove', () => this.panels?.highlight(this.traces?.pointer()?.row.key ?? null));
     traceHost.addEventListener('pointerleave', () => this.panels?.highlight(null));
     this.sheetHost.dataset.filter = String(this.filterIndex);
@@ -277,7 +275,8 @@ export class Desk {
     (window as unknown as { daybreakView: () => unknown }).daybreakView = () => {
       const [x0, x1] = this.traces?.window ?? [0, 0];
       return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.fullDrawMs ?? 0, frameMs: this.traces?.lastDrawMs ?? 0,
-        sheet: this.sheet && { shown: this.sheet.shown.map((x) => x.streams.site), hidden: this.sheet.hidden.map((x) => x.streams.site), reference: this.sheet.reference, showAll: this.showAllSites } };
+        sheet: this.sheet && { shown: this.sheet.shown.map((x) => x.streams.site), hidden: this.sheet.hidden.map((x) => x.streams.site), reference: this.sheet.reference, showAll: this.showAllSites },
+        panels: this.panels && { event: this.panels.current.event?.id ?? null, location: this.panels.current.location, locateMs: this.panels.current.locateMs, drawMs: this.panels.current.drawMs } };
     };
     // Read-only magnitude state for end-to-end tests: amplitudes (times µs), removed ones, station magnitudes, ML.
     (window as unknown as { daybreakMagnitude: () => unknown }).daybreakMagnitude = () => {
@@ -373,8 +372,12 @@ export class Desk {
     this.sheetTitle.textContent = `${isoFromMicros(start).slice(0, 19).replace('T', ' ')} UTC \u00b7 ${Math.round((end - start) / 1e6)} s \u00b7 ${preset.label}${this.zeroPhase && preset.filter ? ' (zero-phase view)' : ''}`;
     // Order and limit the sites first (picks and coordinates only), then read the rows in view before
     // the others, so the sheet is drawn while the rest is still being read and filtered.
+    // The open event's epicentre (located in a worker, waited for when on its way) orders and limits them.
+    const located = this.panels ? await this.panels.settled() : null;
+    if (seq !== this.loadSeq) return;
     const ev = this.currentEv();
-    const epi = this.located && this.located.event === ev ? this.located.epicentre : null;
+    const h = located?.event === ev && located?.location?.ok ? located.location.value.hypocentre : null;
+    const epi = h ? { latitude: h.latDeg, longitude: h.lonDeg } : null;
     const sheet = sheetSites(this.sites, ev?.picks ?? [], this.siteCoords, epi, this.siteLimit);
     this.sheet = sheet;
     const listed = this.showAllSites ? [...sheet.shown, ...sheet.hidden] : sheet.shown;
@@ -483,23 +486,25 @@ export class Desk {
     this.traces?.redrawMarks();
   }
 
-  /** The event's location for the list (4 picks at least), or null. */
-  private locateForList(ev: ReviewEvent): ReviewLocation | null {
+  /** The event's location for the list and the exports (4 picks at least), or null; located in the worker. */
+  private async locateForList(ev: ReviewEvent): Promise<ReviewLocation | null> {
     if (ev.picks.length < 4) return null;
-    const r = locateReviewEvent(ev, this.siteCoords, this.model);
+    const r = await this.locator.locate(ev, this.siteCoords, this.model);
     return r.ok ? r.value : null;
   }
 
-  /** The event's ML for the list, as the event bar works it out (null when there is none). */
-  private async listMagnitude(ev: ReviewEvent, loc: ReviewLocation): Promise<number | null> {
+  /** The event's magnitude for the list and the exports, as the event bar works it out (null when there is none); computed in the worker. */
+  private async eventMagnitude(ev: ReviewEvent, loc: ReviewLocation): Promise<ReviewMagnitude | null> {
     const rd = magnitudeRead(ev, loc, this.channelMetas(), this.siteCoords);
     if (!rd) return null;
     const { pieces } = await this.session.window(rd.channels, rd.from, rd.to, null, false, 0, false);
-    return reviewMagnitude(ev, loc, pieces, (k) => this.session.channels.get(k)?.meta, this.siteCoords, undefined, { evaluationStatus: quakemlStatus(ev.state) })?.magnitude?.mag ?? null;
+    return this.magnitudeWorker.measure({ ev, loc, evaluationStatus: quakemlStatus(ev.state), pieces, metas: () => this.channelMetas(), sites: () => this.siteCoords });
   }
 
   private readonly magnitudeText = el('span', { className: 'magnitude' });
   private readonly magnitudeWorker = new MagnitudeWorker();
+  /** Locations of the open event (the panels), the list and the exports, off the interface thread. */
+  private readonly locator = new LocationWorker();
   /** Time the last magnitude computation took in the worker (response removal, Wood-Anderson, peaks), ms. */
   private magnitudeMs = 0;
 
@@ -566,15 +571,21 @@ export class Desk {
       this.listedEvents = doc.events;
     }
     this.renderEventBar();
-    const located = this.panels?.update(this.currentEv(), this.siteCoords, this.model);
-    const h = located?.location?.ok ? located.location.value.hypocentre : null;
-    this.located = ev && h ? { event: ev, epicentre: { latitude: h.latDeg, longitude: h.lonDeg } } : null;
-    if (located?.location && !located.location.ok && ev && ev.picks.length > 0) this.setStatus(`not located: ${located.location.message}`);
-    if (this.rotation.setEpicentre(located?.location?.ok ? located.location.value.hypocentre : null)) this.showRotation();
+    // Located in a worker (renderer/panels/locationClient): what follows from the solution comes with it.
+    void this.panels?.update(ev, this.siteCoords, this.model).then((st) => { if (st) this.afterLocated(st); });
+    this.traces?.redrawMarks();
+  }
+
+  /** What follows from the open event's solution once the panels have drawn it. */
+  private afterLocated(located: EventPanelsState): void {
+    const ev = located.event;
+    if (ev !== this.currentEv()) return;
+    if (located.location && !located.location.ok && ev && ev.picks.length > 0) this.setStatus(`not located: ${located.location.message}`);
+    if (this.rotation.setEpicentre(located.location?.ok ? located.location.value.hypocentre : null)) this.showRotation();
     // The magnitude follows the event's picks (not selection changes): same event object, no work.
     if (ev !== this.magnitudeFor) {
       this.magnitudeFor = ev;
-      const loc = located?.location?.ok ? located.location.value : null;
+      const loc = located.location?.ok ? located.location.value : null;
       // After the sheet's rows in view are drawn (a window being opened now starts before this runs).
       void Promise.resolve().then(() => this.sheetDrawn).then(() => this.updateMagnitude(ev, loc));
     }
@@ -825,7 +836,8 @@ export class Desk {
 
   /** The open event's solved depth, km (null when not located). */
   private solvedDepthKm(): number | null {
-    const loc = this.panels?.current.location;
+    const st = this.panels?.current;
+    const loc = st && st.event === this.currentEv() ? st.location : null;
     return loc?.ok ? loc.value.hypocentre.depthKm : null;
   }
 
@@ -929,23 +941,16 @@ export class Desk {
     const s = settings.ok ? settings.value : { analyst: '', agency: '', authority: 'daybreak.local' };
     const now = new Date().toISOString();
     const stamp = now.slice(0, 19).replace(/[-:]/g, '');
-    // Every event with enough picks gets its location as the preferred origin.
+    // Every event with enough picks gets its location as the preferred origin (located in the worker).
     const locations = new Map<string, ReviewLocation>();
-    for (const ev of doc.events) {
-      if (ev.state === 'discarded' || ev.picks.length < 4) continue;
-      const r = locateReviewEvent(ev, this.siteCoords, this.model);
-      if (r.ok) locations.set(ev.id, r.value);
-    }
-    // Located events also get their local magnitude (amplitudes, station magnitudes, network ML).
+    const located = await Promise.all(doc.events.map((ev) => (ev.state === 'discarded' ? null : this.locateForList(ev))));
+    doc.events.forEach((ev, i) => { const loc = located[i]; if (loc) locations.set(ev.id, loc); });
+    // Located events also get their local magnitude (amplitudes, station magnitudes, network ML), in the worker.
     const qevents = reviewEventsToQuakeMl(doc, locations, this.modelName);
     for (let i = 0; i < qevents.length; i++) {
       const ev = doc.events[i];
       const loc = locations.get(ev.id);
-      const rd = loc ? magnitudeRead(ev, loc, this.channelMetas(), this.siteCoords) : null;
-      if (!loc || !rd) continue;
-      const reply = await this.session.window(rd.channels, rd.from, rd.to, null, false, 0, false);
-      qevents[i] = withMagnitude(qevents[i], reviewMagnitude(ev, loc, reply.pieces, (k) => this.session.channels.get(k)?.meta, this.siteCoords,
-        undefined, { evaluationStatus: quakemlStatus(ev.state) }));
+      if (loc) qevents[i] = withMagnitude(qevents[i], await this.eventMagnitude(ev, loc));
     }
     const xml = writeQuakeMl({ events: qevents }, {
       authority: s.authority, agencyId: s.agency || 'unknown', author: s.analyst || 'unknown',
@@ -976,6 +981,7 @@ export class Desk {
     this.traces?.destroy();
     this.session.close();
     this.magnitudeWorker.terminate();
+    this.locator.terminate();
   }
 }
 
