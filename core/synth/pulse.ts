@@ -11,12 +11,17 @@
  * no longer constant, else the dispersion (phase delay (t* / π) ln(f_top / f) relative to the front)
  * grows without bound. That band is fixed here in Hz, the same for every channel, so a ground
  * motion looks the same at 40, 100 and 200 Hz sampling: Q is constant from 0 to
- * CONSTANT_Q_TOP_HZ = 100 Hz (the highest frequency the generator records: its fastest channels
- * sample at 200 Hz) and the loss stops growing above it:
+ * CONSTANT_Q_TOP_HZ = 100 Hz and the loss stops growing above it:
  *   ln|A(f)| = -π t* min(|f|, f_top).
+ * 100 Hz is the smallest top that keeps the amplitude exp(-π f t*) of t* and κ0 over the whole band
+ * of every channel the generator writes (its fastest sample at 200 Hz); a higher top would only move
+ * the front earlier against a pulse that no channel sees change (each doubling by (t* / π) ln 2).
+ * The front is the arrival time of the truth file; the visible pulse comes after it: the S of a
+ * regional event (t* = 0.25 s) reaches 1 % of its peak about 0.18 s after its front, a local P
+ * (t* = 0.05 s) about 0.015 s after (Daybreak's measurements on a Brune pulse).
  * Its phase is the Hilbert transform of the log amplitude (the gain-phase relation of a
- * minimum-phase filter: Bode 1945; Papoulis, The Fourier Integral, 1962, §10 - from memory), in
- * closed form, with u = f / f_top (f >= 0; the phase is odd in f):
+ * minimum-phase filter: Bode 1945; Papoulis, The Fourier Integral and its Applications, 1962 -
+ * from memory), in closed form, with u = f / f_top (f >= 0; the phase is odd in f):
  *   φ(f) = -t* f_top [(u + 1) ln(u + 1) + (u - 1) ln|u - 1| - 2 u ln u],
  * the phase of exp(-i 2π f t) for a delay t. For f << f_top the phase delay -φ / (2π f) is
  * (t* / π) (ln(f_top / f) + 1): the constant-Q dispersion of Aki & Richards (2002, eq. 5.81) with the
@@ -27,7 +32,7 @@
  *
  * At a channel rate whose Nyquist frequency lies below f_top the spectrum is cut there, as the
  * source's is: the small precursor that cut makes wraps to the end of the pulse's transform, which
- * the renderer does not use.
+ * the renderer does not use, and a ripple of about 0.1 % of the peak stays at the front.
  */
 import FFT from 'fft.js';
 import { instrumentResponse, responseScale, type Cx, type Instrument } from './response';
