@@ -26,6 +26,7 @@ import {
 import { microsFromIso } from '../core/time';
 import { readQuakeMl } from '../core/quakeml';
 import { EventPanels, LocationWorker, type EventPanelsState } from './panels';
+import { readWhileLocating } from './panels/readWhileLocating';
 import {
   DEFAULT_MODEL, parseVelocityModel, siteLocations, type ReviewLocation, type SiteLocation, type VelocityModel,
 } from '../core/location';
@@ -372,23 +373,26 @@ export class Desk {
     this.sheetTitle.textContent = `${isoFromMicros(start).slice(0, 19).replace('T', ' ')} UTC \u00b7 ${Math.round((end - start) / 1e6)} s \u00b7 ${preset.label}${this.zeroPhase && preset.filter ? ' (zero-phase view)' : ''}`;
     // Order and limit the sites first (picks and coordinates only), then read the rows in view before
     // the others, so the sheet is drawn while the rest is still being read and filtered.
-    // The open event's epicentre (located in a worker, waited for when on its way) orders and limits them.
-    const located = this.panels ? await this.panels.settled() : null;
-    if (seq !== this.loadSeq) return;
-    const ev = this.currentEv();
-    const h = located?.event === ev && located?.location?.ok ? located.location.value.hypocentre : null;
-    const epi = h ? { latitude: h.latDeg, longitude: h.lonDeg } : null;
-    const sheet = sheetSites(this.sites, ev?.picks ?? [], this.siteCoords, epi, this.siteLimit);
-    this.sheet = sheet;
-    const listed = this.showAllSites ? [...sheet.shown, ...sheet.hidden] : sheet.shown;
     const channelsOf = (list: SheetSite[]) => list.flatMap((x) => (this.verticalOnly ? x.streams.channels.slice(0, 1) : x.streams.channels));
     const empty = new Map<string, WindowPiece[]>();
-    const blank = listed.map((x) => this.siteRow(x, empty));
-    const [a, b] = this.traces.rowsInView(blank);
-    const head = a < 0 ? listed : listed.slice(a, b + 1);
+    const layoutFor = (st: EventPanelsState | null) => {
+      const ev = this.currentEv();
+      const h = st?.event === ev && st?.location?.ok ? st.location.value.hypocentre : null;
+      const sheet = sheetSites(this.sites, ev?.picks ?? [], this.siteCoords, h ? { latitude: h.latDeg, longitude: h.lonDeg } : null, this.siteLimit);
+      const listed = this.showAllSites ? [...sheet.shown, ...sheet.hidden] : sheet.shown;
+      const blank = listed.map((x) => this.siteRow(x, empty));
+      const [a, b] = this.traces!.rowsInView(blank);
+      return { sheet, listed, blank, a, b, head: a < 0 ? listed : listed.slice(a, b + 1) };
+    };
     const t0 = performance.now();
-    const reply = await this.session.window(channelsOf(head), start, end, preset.filter, this.zeroPhase);
+    // The open event's epicentre orders and limits them; it comes from the location worker, so the rows
+    // in view are read meanwhile as the last solution drawn lays them out (renderer/panels/readWhileLocating).
+    const { layout, reply, waitMs } = await readWhileLocating(layoutFor(this.panels?.current ?? null),
+      (this.panels?.settled() ?? Promise.resolve(null)).then(layoutFor), (l) => channelsOf(l.head),
+      (chs) => this.session.window(chs, start, end, preset.filter, this.zeroPhase));
     if (seq !== this.loadSeq) return;
+    const { sheet, listed, blank, a, b } = layout;
+    this.sheet = sheet;
     const byKey = piecesByChannel(reply.pieces);
     const rows = listed.map((x, i) => (a < 0 || (i >= a && i <= b) ? this.siteRow(x, byKey) : blank[i]));
     this.rowsBySite = new Map(rows.map((r) => [r.key, r]));
@@ -400,7 +404,7 @@ export class Desk {
     const t2 = performance.now();
     drawn();
     const window1 = this.session.lastWindowTiming;
-    this.timings = { readMs: t1 - t0, drawMs: t2 - t1, rows: rows.length, channels: channelsOf(listed).length, rowsDrawMs: this.traces.lastDrawMs, window: window1, allMs: t2 - t0, complete: false };
+    this.timings = { readMs: t1 - t0, locateWaitMs: waitMs, drawMs: t2 - t1, rows: rows.length, channels: channelsOf(listed).length, rowsDrawMs: this.traces.lastDrawMs, window: window1, allMs: t2 - t0, complete: false };
     const notes = [...reply.notes];
     const rest = listed.filter((_, i) => a >= 0 && (i < a || i > b));
     if (rest.length === 0) this.timings.complete = true;

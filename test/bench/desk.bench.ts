@@ -35,7 +35,7 @@ import { DEMO_COMPLETE_MARKER } from '../../electron/host/service';
 const repo = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
 const demo = join(repo, 'samples', 'generated');
 
-interface Timings { readMs: number; drawMs: number; rows: number; channels: number; allMs?: number; rowsDrawMs?: number; complete?: boolean }
+interface Timings { readMs: number; locateWaitMs?: number; drawMs: number; rows: number; channels: number; allMs?: number; rowsDrawMs?: number; complete?: boolean }
 interface View { x0: number; x1: number; timings: Timings; openMs: number; overviewMs: number; frameMs: number }
 
 const med = (a: number[]) => [...a].sort((x, y) => x - y)[a.length >> 1];
@@ -195,12 +195,13 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
     const openGap: number[] = [];
     const opened: number[] = [];
     const all: number[] = [];
-    const parts = { read: [] as number[], draw: [] as number[], paint: [] as number[] };
-    const rparts = { read: [] as number[], draw: [] as number[], paint: [] as number[] };
+    const parts = { read: [] as number[], draw: [] as number[], paint: [] as number[], wait: [] as number[] };
+    const rparts = { read: [] as number[], draw: [] as number[], paint: [] as number[], wait: [] as number[] };
     const split = (t: Timings, into: typeof parts) => {
       into.read.push(t.readMs);
       into.draw.push(t.rowsDrawMs ?? NaN);
       into.paint.push(t.drawMs);
+      into.wait.push(t.locateWaitMs ?? 0);
     };
     let last: Timings = (await view(page)).timings;
     // Open the three events in turn, three rounds (by clicking them in the list).
@@ -266,6 +267,7 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
     lines.unshift(`--- generated network: ${sites} sites x 3 components x 90 s at 100 Hz (${last.channels} channels, ${last.rows} rows)`);
     row('open an event: until the rows in view are drawn', opened, budgetOpen);
     row('  of which: read, decode and filter them (host and workers)', parts.read, null);
+    row('    (meanwhile: waiting for the event\'s location, worker)', parts.wait, null);
     row('  of which: drawing them, until painted', parts.paint, null);
     row('    (the drawing work itself)', parts.draw, null);
     row('  ... until every row is loaded', all, null);
