@@ -5,14 +5,23 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { readFile } from 'node:fs/promises';
-import { existsSync } from 'node:fs';
-import { dirname, join, resolve } from 'node:path';
+import { existsSync, unlinkSync } from 'node:fs';
+import { basename, dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { ScanPresetSetting, ScanStatus } from '../contract';
 
 export const SCAN_OUTPUT_NAME = 'daybreak-scan.xml';
 
 interface Job { status: ScanStatus; child: ChildProcess | null; output: string }
+
+/**
+ * The temporary file `daybreak scan` writes its output to before renaming it over `path`
+ * (electron/host/cli/scan.ts, writeAtomically): in the output's folder, so the rename stays on one
+ * file system. Named here so that the job can remove what a scan killed mid-write leaves behind.
+ */
+export function atomicTempPath(path: string, pid: number): string {
+  return join(dirname(path), `.${basename(path)}.${pid}.tmp`);
+}
 
 function cliPath(): string {
   // bin/daybreak.mjs from this file (electron/host) or from the bundled shell (dist/electron).
@@ -27,6 +36,12 @@ function cliPath(): string {
 export class ScanJobs {
   private readonly jobs = new Map<string, Job>();
 
+  /**
+   * `cli`: the command-line script to run (default bin/daybreak.mjs beside the app); `execPath`: the
+   * program that runs it (default this process's own, as plain Node). Both for tests.
+   */
+  constructor(private readonly opts: { cli?: string; execPath?: string } = {}) {}
+
   status(root: string): ScanStatus {
     return { ...(this.jobs.get(root)?.status ?? { state: 'idle', message: '', fraction: null, startedAt: null, seconds: 0 }) };
   }
@@ -39,39 +54,65 @@ export class ScanJobs {
     const running = this.jobs.get(root);
     if (running?.status.state === 'running') return this.status(root);
     const output = join(outDir, SCAN_OUTPUT_NAME);
-    const args = [cliPath(), 'scan', '--progress', 'lines', '--preset', preset, '--stations', stations, '--out', output, ...(model ? ['--model', model] : []), root];
+    const args = [this.opts.cli ?? cliPath(), 'scan', '--progress', 'lines', '--preset', preset, '--stations', stations, '--out', output, ...(model ? ['--model', model] : []), root];
     const started = Date.now();
     const job: Job = { status: { state: 'running', message: 'scanning the night', fraction: null, startedAt: new Date(started).toISOString(), seconds: 0 }, child: null, output };
     // Under Electron, process.execPath is Electron itself: ask it to behave as plain Node.
-    const child = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, ELECTRON_RUN_AS_NODE: '1' } });
+    const child = spawn(this.opts.execPath ?? process.execPath, args, { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, ELECTRON_RUN_AS_NODE: '1' } });
     job.child = child;
+    const pid = child.pid;
     let out = '';
     // The summary's head (counts and the settings used) is what the desk shows; stderr's tail says why a scan failed.
     let head = '';
-    child.stdout?.on('data', (b: Buffer) => { if (head.length < 4000) head += b.toString(); });
+    // Decoded as UTF-8 across chunk borders (the summary holds characters such as '±' and '·').
+    child.stdout?.setEncoding('utf8');
+    child.stderr?.setEncoding('utf8');
+    child.stdout?.on('data', (text: string) => { if (head.length < 4000) head += text; });
     // stderr: progress lines ("progress FRACTION WHAT") become the status; anything else is kept to say why a scan failed.
     let partial = '';
-    child.stderr?.on('data', (b: Buffer) => {
-      const lines = (partial + b.toString()).split('\n');
+    const takeLine = (line: string) => {
+      const m = /^progress (\d+(?:\.\d+)?) (.*)$/.exec(line);
+      if (m && job.status.state === 'running') job.status = { ...job.status, fraction: Number(m[1]), message: m[2] };
+      else if (!m) out = (out + line + '\n').slice(-4000);
+    };
+    child.stderr?.on('data', (text: string) => {
+      const lines = (partial + text).split('\n');
       partial = lines.pop() ?? '';
-      for (const line of lines) {
-        const m = /^progress (\d+(?:\.\d+)?) (.*)$/.exec(line);
-        if (m && job.status.state === 'running') job.status = { ...job.status, fraction: Number(m[1]), message: m[2] };
-        else if (!m) out = (out + line + '\n').slice(-4000);
-      }
+      for (const line of lines) takeLine(line);
     });
     const tick = setInterval(() => { job.status = { ...job.status, seconds: (Date.now() - started) / 1000 }; }, 500);
-    child.on('exit', (code) => {
+    let ended = false;
+    const end = (code: number | null, signal: NodeJS.Signals | null, spawnError: Error | null) => {
+      if (ended) return;
+      ended = true;
       clearInterval(tick);
       const seconds = (Date.now() - started) / 1000;
       job.child = null;
-      if (job.status.state === 'cancelled') { job.status = { ...job.status, seconds }; return; }
+      // The last line of a child that died mid-line (an error printed without a newline).
+      if (partial) takeLine(partial);
+      partial = '';
+      const finished = spawnError === null && signal === null && (code === 0 || code === 1);
+      // A scan killed (or failed) while writing its output leaves its temporary file: remove it; the
+      // previous output stays as it was.
+      if (!finished && pid !== undefined) {
+        try { unlinkSync(atomicTempPath(output, pid)); } catch { /* none was left */ }
+      }
       const summary = head.split('\n').filter((l) => /^daybreak scan:|^ {2}settings:/.test(l)).map((l) => l.trim().replace(/^daybreak scan: /, '')).join(' \u00b7 ');
       const last = (out.trim() || head.trim()).split('\n').slice(-3).join(' \u00b7 ');
-      job.status = code === 0 || code === 1
-        ? { state: 'done', message: code === 1 ? `done; some input was reported: ${summary || last}` : `done: ${summary || last}`, fraction: 1, startedAt: job.status.startedAt, seconds }
-        : { state: 'failed', message: `scan stopped (exit ${code}): ${last}`, fraction: null, startedAt: job.status.startedAt, seconds };
-    });
+      if (job.status.state === 'cancelled' && !finished) { job.status = { ...job.status, seconds }; return; }
+      // A cancel that reached a child already past its last write (or exiting) stops nothing: its
+      // output has been replaced, so the scan is reported done.
+      const how = `done${job.status.state === 'cancelled' ? ' before the cancel arrived' : ''}${code === 1 ? '; some input was reported' : ''}`;
+      job.status = spawnError
+        ? { state: 'failed', message: `scan could not start: ${spawnError.message}`, fraction: null, startedAt: job.status.startedAt, seconds }
+        : finished
+          ? { state: 'done', message: `${how}: ${summary || last}`, fraction: 1, startedAt: job.status.startedAt, seconds }
+          : { state: 'failed', message: `scan stopped (${signal ? `killed by ${signal}` : `exit ${code}`}): ${last}`, fraction: null, startedAt: job.status.startedAt, seconds };
+    };
+    // 'close', not 'exit': only then has all of the child's output been read.
+    child.on('close', (code, signal) => end(code, signal, null));
+    // The program could not be started (or the child could not be signalled); no 'close' may follow.
+    child.on('error', (e) => { if (pid === undefined) end(null, null, e); });
     this.jobs.set(root, job);
     return this.status(root);
   }

@@ -26,7 +26,7 @@
  * output is written to a temporary file beside OUT and renamed over it when complete.
  */
 import { openSync, readSync, closeSync, readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
+import { basename, dirname } from 'node:path';
 import { channelKey, parseChannelKey, sampleTime, stationKey, type ChannelData, type ChannelId } from '../../../core/model';
 import { isoFromMicros, type Micros } from '../../../core/time';
 import { isMiniSeed3, looksLikeRecordStart } from '../../../core/mseed';
@@ -40,6 +40,7 @@ import {
 import { CAUTION } from '../../../core/caution';
 import { presetSettings, SCAN_PRESETS, type ScanPreset, type ScanSettings } from '../../../core/scan/settings';
 import { choosePreset } from '../../../core/scan/presetChoice';
+import { atomicTempPath } from '../scanJob';
 import { TriggerStream } from '../../../core/scan/triggerStream';
 import { eventPicks, pickId, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
 import { earliestOriginFromP, eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';
@@ -630,7 +631,7 @@ export function toQmlEvent(ev: CandidateEvent, picks: readonly Pick[]): QmlEvent
 
 /** Writes `text` to a temporary file beside `path`, then renames it over `path` (never a half-written file). */
 export function writeAtomically(path: string, text: string): void {
-  const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
+  const tmp = atomicTempPath(path, process.pid);
   const cleanup = () => { try { unlinkSync(tmp); } catch { /* already gone */ } };
   process.once('exit', cleanup);
   try {

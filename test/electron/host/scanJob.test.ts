@@ -1,8 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { SCAN_OUTPUT_NAME, ScanJobs } from '../../../electron/host/scanJob';
+import { atomicTempPath, SCAN_OUTPUT_NAME, ScanJobs } from '../../../electron/host/scanJob';
 import type { ScanStatus } from '../../../electron/contract';
 import { writeSmallNight } from './cli/scanFixture';
 
@@ -63,8 +63,103 @@ describe('the desk\'s background scan job (daybreak scan as a child process)', (
     expect(jobs.status(data).state).toBe('cancelled');
     expect(await jobs.result(data)).toBeNull();
     expect(readFileSync(join(out, SCAN_OUTPUT_NAME), 'utf8')).toBe('previous scan\n');
-    expect(existsSync(join(out, `.${SCAN_OUTPUT_NAME}.tmp`))).toBe(false);
+    expect(readdirSync(out)).toEqual([SCAN_OUTPUT_NAME]);
     // Cancelling when nothing runs changes nothing.
     expect(jobs.cancel(data).state).toBe('cancelled');
   }, 60_000);
+
+  /**
+   * A stand-in for bin/daybreak.mjs that behaves as the script `body` says (Node, ES module; `out` is
+   * the --out path it was given), for the ways a child can end that the real scan shows only by chance.
+   */
+  function fakeCli(name: string, body: string): string {
+    const path = join(dir, `${name}.mjs`);
+    writeFileSync(path, `const out = process.argv[process.argv.indexOf('--out') + 1];\n${body}\n`);
+    return path;
+  }
+
+  it('keeps the last line a dying scan printed without a newline, and names the signal that killed it', async () => {
+    const out = join(dir, 'dies');
+    mkdirSync(out);
+    const jobs = new ScanJobs({ cli: fakeCli('dies', `
+process.stderr.write('progress 0.2500 reading\\nRangeError: the disk is full');
+setTimeout(() => process.exit(3), 50);`) });
+    jobs.start(data, 'S', out, null, 'local');
+    const failed = (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
+    expect(failed).toMatchObject({ state: 'failed', fraction: null });
+    expect(failed.message).toBe('scan stopped (exit 3): RangeError: the disk is full');
+
+    const killed = new ScanJobs({ cli: fakeCli('killed', `process.stderr.write('progress 0.5 picking\\n'); setTimeout(() => process.kill(process.pid, 'SIGKILL'), 50);`) });
+    killed.start(data, 'S', out, null, 'local');
+    const last = (await pollUntil(killed, data, (s) => s.state !== 'running')).at(-1)!;
+    expect(last.state).toBe('failed');
+    expect(last.message).toMatch(/^scan stopped \(killed by SIGKILL\)/);
+  }, 30_000);
+
+  it('reads the summary to its end even when the child\'s output outlives it (a grandchild holding stdout)', async () => {
+    const out = join(dir, 'late');
+    mkdirSync(out);
+    // The child exits at once; what it started writes the summary 300 ms later on the same stdout.
+    const jobs = new ScanJobs({ cli: fakeCli('late', `
+import { spawn } from 'node:child_process';
+import { writeFileSync } from 'node:fs';
+writeFileSync(out, '<q:quakeml/>');
+spawn(process.execPath, ['-e', "setTimeout(() => process.stdout.write('daybreak scan: 3 candidate events\\\\n  settings: near\\\\n'), 300)"], { stdio: ['ignore', 'inherit', 'inherit'] }).unref();
+process.exit(0);`) });
+    jobs.start(data, 'S', out, null, 'local');
+    const done = (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
+    expect(done).toMatchObject({ state: 'done', fraction: 1, message: 'done: 3 candidate events · settings: near' });
+  }, 30_000);
+
+  it('says the scan finished when a cancel came too late to stop it, since its output was replaced', async () => {
+    const out = join(dir, 'late-cancel');
+    mkdirSync(out);
+    writeFileSync(join(out, SCAN_OUTPUT_NAME), 'previous scan\n');
+    // The output is written, then the child takes a moment to exit and does not die of the cancel's
+    // signal (as a child that has already exited does not).
+    const jobs = new ScanJobs({ cli: fakeCli('finishing', `
+process.on('SIGTERM', () => {});
+import { writeFileSync } from 'node:fs';
+writeFileSync(out, '<q:quakeml>new</q:quakeml>');
+process.stdout.write('daybreak scan: 1 candidate event\\n');
+setTimeout(() => process.exit(0), 400);`) });
+    jobs.start(data, 'S', out, null, 'local');
+    for (let i = 0; i < 500 && readFileSync(join(out, SCAN_OUTPUT_NAME), 'utf8') === 'previous scan\n'; i++) await new Promise((r) => setTimeout(r, 10));
+    expect(jobs.cancel(data).state).toBe('cancelled');
+    const last = (await pollUntil(jobs, data, (s) => s.seconds > 0.3 && s.state !== 'cancelled')).at(-1)!;
+    expect(last).toMatchObject({ state: 'done', fraction: 1, message: 'done before the cancel arrived: 1 candidate event' });
+    expect(await jobs.result(data)).toBe('<q:quakeml>new</q:quakeml>');
+  }, 30_000);
+
+  it('removes the temporary file of a scan killed while writing its output, and leaves the previous output', async () => {
+    const out = join(dir, 'mid-write');
+    mkdirSync(out);
+    writeFileSync(join(out, SCAN_OUTPUT_NAME), 'previous scan\n');
+    // As daybreak scan's atomic write: the whole text into the temporary file, then a rename; the
+    // cancel's SIGTERM lands between the two.
+    const tmpFor = atomicTempPath(join(out, SCAN_OUTPUT_NAME), 999_999_999);
+    const jobs = new ScanJobs({ cli: fakeCli('mid-write', `
+import { writeFileSync } from 'node:fs';
+writeFileSync(${JSON.stringify(tmpFor)}.replace('999999999', String(process.pid)), '<q:quakeml>half');
+process.stderr.write('progress 1.0000 writing\\n');
+setTimeout(() => {}, 60_000);`) });
+    jobs.start(data, 'S', out, null, 'local');
+    await pollUntil(jobs, data, (s) => s.fraction === 1);
+    expect(readdirSync(out).length).toBe(2);
+    jobs.cancel(data);
+    await pollUntil(jobs, data, (s) => s.seconds > 0 && s.state === 'cancelled');
+    await new Promise((r) => setTimeout(r, 600));
+    expect(readdirSync(out)).toEqual([SCAN_OUTPUT_NAME]);
+    expect(readFileSync(join(out, SCAN_OUTPUT_NAME), 'utf8')).toBe('previous scan\n');
+  }, 30_000);
+
+  it('fails with the reason, not a crash of the host, when the scan program cannot be started', async () => {
+    const out = join(dir, 'no-node');
+    mkdirSync(out);
+    const jobs = new ScanJobs({ cli: fakeCli('never', ''), execPath: join(dir, 'no-such-node') });
+    jobs.start(data, 'S', out, null, 'local');
+    const last = (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
+    expect(last.state).toBe('failed');
+    expect(last.message).toMatch(/^scan could not start: .*ENOENT/);
+  }, 30_000);
 });
