@@ -148,8 +148,10 @@ export function parseScanArgs(args: string[]): ScanArgs {
     const base = presetSettings(name);
     const staLta = { ...base.staLta, ...ownStaLta };
     const sta = staLta.sta ?? 0.5, lta = staLta.lta ?? 60, on = staLta.triggerOn ?? 4, off = staLta.triggerOff ?? 2;
-    if (!(lta > sta)) throw new ArgumentError(`--lta must be longer than --sta (${sta} s${ownStaLta.sta === undefined ? ` in the ${name} preset` : ''}), got ${lta}`);
-    if (!(off <= on)) throw new ArgumentError(`--off must be at most --on (${on}${ownStaLta.triggerOn === undefined ? ` in the ${name} preset` : ''}), got ${off}`);
+    // Each value not given on the command line is named as the preset's.
+    const of = (k: keyof typeof ownStaLta) => (ownStaLta[k] === undefined ? ` (the ${name} preset's)` : '');
+    if (!(lta > sta)) throw new ArgumentError(`--lta must be longer than --sta (${sta} s${of('sta')}), got ${lta}${of('lta')}`);
+    if (!(off <= on)) throw new ArgumentError(`--off must be at most --on (${on}${of('triggerOn')}), got ${off}${of('triggerOff')}`);
     return {
       ...base, staLta,
       filter: corners ? { ...base.filter, corners } : base.filter,

@@ -279,6 +279,8 @@ describe('daybreak scan with unusable arguments', () => {
     ['a band with one corner', ['--stations', 'S', '--out', 'O', '--band', '5', 'P'], /--band must be LO,HI/],
     ['a band upside down', ['--stations', 'S', '--out', 'O', '--band', '15,2', 'P'], /--band high corner must be above the low corner/],
     ['an LTA shorter than the STA', ['--stations', 'S', '--out', 'O', '--sta', '2', '--lta', '1', 'P'], /--lta must be longer than --sta \(2 s\), got 1/],
+    ['an STA longer than the LTA of a preset --preset auto may choose, naming that LTA as the preset\'s', ['--stations', 'S', '--out', 'O', '--preset', 'auto', '--sta', '2', 'P'], /--lta must be longer than --sta \(2 s\), got 1 \(the near preset's\)/],
+    ['an off ratio above the preset\'s on ratio', ['--stations', 'S', '--out', 'O', '--off', '5', 'P'], /--off must be at most --on \(4 \(the local preset's\)\), got 5$/],
     ['an off ratio above the on ratio', ['--stations', 'S', '--out', 'O', '--on', '3', '--off', '4', 'P'], /--off must be at most --on \(3\), got 4/],
     ['a fractional --min-sites', ['--stations', 'S', '--out', 'O', '--min-sites', '2.5', 'P'], /--min-sites must be an integer from 1/],
     ['an unknown preset', ['--stations', 'S', '--out', 'O', '--preset', 'fast', 'P'], /--preset must be one of local, near or auto, got "fast"/],
