@@ -160,12 +160,21 @@ export class HostService {
   private async readSettings(): Promise<Settings> {
     const text = await readFile(this.settingsPath(), 'utf8').catch(() => null);
     if (!text) return { ...DEFAULT_SETTINGS };
+    let raw: Partial<Settings>;
     try {
-      const raw = JSON.parse(text) as Partial<Settings>;
-      return { ...DEFAULT_SETTINGS, ...pickSettings(raw) };
+      raw = JSON.parse(text) as Partial<Settings>;
     } catch {
       return { ...DEFAULT_SETTINGS };
     }
+    // Field by field: one this version cannot use (hand-edited, or a scan preset of another
+    // version) falls back to its default alone, and the others are kept.
+    const kept: Partial<Settings> = {};
+    for (const k of Object.keys(DEFAULT_SETTINGS) as (keyof Settings)[]) {
+      try {
+        Object.assign(kept, pickSettings({ [k]: raw?.[k] }));
+      } catch { /* the default */ }
+    }
+    return { ...DEFAULT_SETTINGS, ...kept };
   }
 
   private async writeSettings(req: unknown): Promise<Settings> {

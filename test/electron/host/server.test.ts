@@ -27,6 +27,7 @@ function send(port: number, opts: { method?: string; path: string; headers?: Rec
 describe('browser-mode server', () => {
   let server: BrowserServer;
   let dataRoot: string;
+  let userDir: string;
   const api = (name: string, body: unknown, extra: Record<string, string> = {}) => send(server.port, {
     method: 'POST', path: `/api/${name}`, body: JSON.stringify(body),
     headers: { host: `127.0.0.1:${server.port}`, 'content-type': 'application/json', [TOKEN_HEADER]: server.token, ...extra },
@@ -44,9 +45,10 @@ describe('browser-mode server', () => {
     writeFileSync(join(dataRoot, 'day1', 'event.xml'), EVENT_XML);
     writeFileSync(join(base, 'secret.txt'), 'not yours');
     const demoRoot = join(base, 'demo');
+    userDir = join(base, 'user');
     mkdirSync(demoRoot);
     writeFileSync(join(demoRoot, DEMO_COMPLETE_MARKER), '{}');
-    server = await startBrowserServer({ service: new HostService({ mode: 'browser', version: '9.9.9', demoRoot, userDir: join(base, 'user') }), staticDir });
+    server = await startBrowserServer({ service: new HostService({ mode: 'browser', version: '9.9.9', demoRoot, userDir }), staticDir });
   });
   afterAll(async () => { await server.close(); });
 
@@ -154,6 +156,13 @@ describe('browser-mode server', () => {
     expect(JSON.parse((await api('settings.set', { scanPreset: 'near' })).body.toString()).value.scanPreset).toBe('near');
     expect(JSON.parse((await api('settings.set', { scanPreset: 'fast' })).body.toString())).toMatchObject({ ok: false, code: 'bad-request', message: expect.stringMatching(/scanPreset must be one of auto, local, near, got "fast"/) });
     expect(JSON.parse((await api('settings.set', { scanPreset: 'auto' })).body.toString()).value.scanPreset).toBe('auto');
+  });
+
+  it('keeps the other settings when the settings file holds a scan preset it does not know (another version, or edited by hand)', async () => {
+    mkdirSync(userDir, { recursive: true });
+    writeFileSync(join(userDir, 'settings.json'), JSON.stringify({ analyst: 'J. Doe', agency: 'XX', authority: 'obs.example', scanPreset: 'regional' }));
+    expect(JSON.parse((await api('settings.get', {})).body.toString()).value).toEqual({ analyst: 'J. Doe', agency: 'XX', authority: 'obs.example', scanPreset: 'auto' });
+    expect(JSON.parse((await api('settings.set', { scanPreset: 'near' })).body.toString()).value).toEqual({ analyst: 'J. Doe', agency: 'XX', authority: 'obs.example', scanPreset: 'near' });
   });
 
   it('refuses to cancel the scan of a folder that was not opened', async () => {
