@@ -31,8 +31,11 @@ export const CLIP_RUN = 4;
 /** Range from lowest to highest raw value (counts) a stretch must exceed to be called clipped. */
 export const CLIP_MIN_RANGE = 2000;
 
-/** Whether samples i0 to i1 - 1 of x look clipped (the rule of the module comment). */
+/** Whether samples i0 to i1 - 1 of x look clipped (the rule of the module comment); 0 <= i0 <= i1 <= x.length. */
 export function looksClipped(x: ArrayLike<number>, i0: number, i1: number): boolean {
+  if (!Number.isInteger(i0) || !Number.isInteger(i1) || i0 < 0 || i1 < i0 || i1 > x.length) {
+    throw new RangeError(`sample range must be integers with 0 <= i0 <= i1 <= ${x.length} (the samples' length), got i0 = ${i0}, i1 = ${i1}`);
+  }
   let hi = -Infinity, lo = Infinity, runHi = 0, runLo = 0, bestHi = 0, bestLo = 0;
   for (let i = i0; i < i1; i++) {
     const v = x[i];

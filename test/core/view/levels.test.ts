@@ -97,4 +97,13 @@ print(json.dumps({"x": x.tolist(), "flags": flags}))`]).toString()) as { x: numb
     expect(looksClipped(swing, 0, swing.length)).toBe(false);
     expect(looksClipped([...swing, 3000, 3000, 3000, 3000], 0, swing.length + 4)).toBe(true);
   });
+
+  it('looksClipped refuses a sample range outside the samples, naming it', () => {
+    const x = [0, 3000, 3000, 3000, 3000];
+    expect(looksClipped(x, 0, 0)).toBe(false);
+    expect(() => looksClipped(x, 0, 6)).toThrow(/0 <= i0 <= i1 <= 5 .*got i0 = 0, i1 = 6/);
+    expect(() => looksClipped(x, 3, 2)).toThrow(RangeError);
+    expect(() => looksClipped(x, -1, 2)).toThrow(RangeError);
+    expect(() => looksClipped(x, 0.5, 2)).toThrow(RangeError);
+  });
 });
