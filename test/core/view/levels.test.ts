@@ -98,6 +98,20 @@ print(json.dumps({"x": x.tolist(), "flags": flags}))`]).toString()) as { x: numb
     expect(looksClipped([...swing, 3000, 3000, 3000, 3000], 0, swing.length + 4)).toBe(true);
   });
 
+  it('continues a flat run across a record boundary inside a segment, but not across a gap between segments', () => {
+    // 100 Hz, one 10 s bin. A swing of ±3000 counts, then 4 samples at +3000 split 2 + 2 by a record
+    // boundary (records of 102 samples: the run is samples 100-103).
+    const x = new Float64Array(200);
+    x[10] = -3000;
+    x.fill(3000, 100, 104);
+    expect(levelBins([segment(0, 100, x, 102)], 0, 10_000_000, 1).clipped[0]).toBe(1);
+    expect(looksClipped(x, 0, 200)).toBe(true);
+    // The same samples as two segments with a 1 s gap after sample 101: runs of 2 and 2.
+    const a = segment(0, 100, x.slice(0, 102), 102);
+    const b = segment(2_020_000, 100, x.slice(102), 102);
+    expect(levelBins([a, b], 0, 10_000_000, 1).clipped[0]).toBe(0);
+  });
+
   it('looksClipped refuses a sample range outside the samples, naming it', () => {
     const x = [0, 3000, 3000, 3000, 3000];
     expect(looksClipped(x, 0, 0)).toBe(false);
