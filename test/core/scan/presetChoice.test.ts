@@ -20,7 +20,7 @@ function stationPositions(path: string): { latitude: number; longitude: number }
 }
 
 /**
- * Reference: the pairwise haversine distances computed by numpy from the same positions
+ * Reference: the pairwise haversine distances computed by numpy 2.4 from the same positions
  * (haversine formula, Sinnott 1984, Sky & Telescope 68(2):159; Earth radius 6371.0 km, the IUGG
  * mean radius), written here independently of core/pick/coincidence.
  */

@@ -60,7 +60,7 @@ print(json.dumps(out))`], { input: JSON.stringify(Array.from(x)) }).toString()) 
   it('flags the bins where a signal sits flat at its extreme, as numpy finds them by the same rule', () => {
     // A 2 Hz wave whose amplitude grows through 60 s at 100 Hz, on an offset of 3,000 counts, with
     // some integer noise, cut at 3,000 ± 20,000 counts by numpy's clip (a digitiser at full scale).
-    // Reference: numpy computes the rule independently: in each 5 s bin, the longest run of samples
+    // Reference: numpy 2.4 computes the rule independently: in each 5 s bin, the longest run of samples
     // equal to the bin's highest or lowest value, at least 4, and a range over 2000 counts.
     const out = JSON.parse(execFileSync('python3', ['-c', `
 import json, numpy as np
