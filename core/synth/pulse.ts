@@ -61,6 +61,19 @@ export function nextPow2(n: number): number {
   return p;
 }
 
+/**
+ * Fills bins n/2+1..n-1 of the interleaved spectrum `x` (length 2n) as the conjugates of bins
+ * 1..n/2-1 and makes the Nyquist bin real, so that its inverse transform is real; returns `x`.
+ */
+function hermitian(x: Float64Array, n: number): Float64Array {
+  x[n + 1] = 0;
+  for (let k = 1; k < n / 2; k++) {
+    x[2 * (n - k)] = x[2 * k];
+    x[2 * (n - k) + 1] = -x[2 * k + 1];
+  }
+  return x;
+}
+
 /** Upper end of the constant-Q band, Hz (see the module comment). */
 export const CONSTANT_Q_TOP_HZ = 100;
 
@@ -100,12 +113,7 @@ export function minimumPhaseAttenuation(n: number, sampleRate: number, tStar: nu
     out[2 * k] = c.re;
     out[2 * k + 1] = c.im;
   }
-  out[n + 1] = 0;
-  for (let k = 1; k < n / 2; k++) {
-    out[2 * (n - k)] = out[2 * k];
-    out[2 * (n - k) + 1] = -out[2 * k + 1];
-  }
-  return out;
+  return hermitian(out, n);
 }
 
 export interface PulseSpec {
@@ -167,13 +175,7 @@ export function pulseSpectrum(spec: PulseSpec): Float64Array {
     spec2[2 * k] = tmp.re * ar - tmp.im * ai;
     spec2[2 * k + 1] = tmp.re * ai + tmp.im * ar;
   }
-  // Hermitian symmetry for a real signal; the Nyquist bin must be real.
-  spec2[n + 1] = 0;
-  for (let k = 1; k < n / 2; k++) {
-    spec2[2 * (n - k)] = spec2[2 * k];
-    spec2[2 * (n - k) + 1] = -spec2[2 * k + 1];
-  }
-  return spec2;
+  return hermitian(spec2, n);
 }
 
 /** Real time series of an interleaved complex spectrum (length n), scaled so sample values are per second of time (divided by 1/fs). */
