@@ -83,13 +83,14 @@ function xLogAbs(x: number): number {
 }
 
 /**
- * The causal constant-Q operator at frequency f (Hz, f >= 0) for t* (s), with Q constant up to
- * topHz: amplitude exp(-π t* min(f, topHz)) and phase φ(f) of the module comment (radians, the
- * phase of exp(-i 2π f t) for a delay t). Written into `out`.
+ * The causal constant-Q operator at frequency f (Hz, either sign) for t* (s), with Q constant up to
+ * topHz: amplitude exp(-π t* min(|f|, topHz)) and phase φ(f) of the module comment, odd in f
+ * (radians, the phase of exp(-i 2π f t) for a delay t); the value at -f is the conjugate of that at
+ * f. Written into `out`.
  */
 export function attenuationAt(f: number, tStar: number, topHz: number, out: Cx): Cx {
   const u = f / topHz;
-  const amp = Math.exp(-Math.PI * tStar * Math.min(f, topHz));
+  const amp = Math.exp(-Math.PI * tStar * Math.min(Math.abs(f), topHz));
   const phase = -tStar * topHz * (xLogAbs(u + 1) + xLogAbs(u - 1) - 2 * xLogAbs(u));
   out.re = amp * Math.cos(phase);
   out.im = amp * Math.sin(phase);

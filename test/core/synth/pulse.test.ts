@@ -43,6 +43,16 @@ print(json.dumps(out))`, { top: CONSTANT_Q_TOP_HZ, ts, f: fs });
     });
   });
 
+  it('the operator at a negative frequency is the conjugate of that at the positive one (a real impulse response)', () => {
+    const pos = { re: 0, im: 0 }, neg = { re: 0, im: 0 };
+    for (const f of [0.5, 7, 99, 100, 150]) {
+      attenuationAt(f, 0.1, CONSTANT_Q_TOP_HZ, pos);
+      attenuationAt(-f, 0.1, CONSTANT_Q_TOP_HZ, neg);
+      expect(neg.re).toBeCloseTo(pos.re, 15);
+      expect(neg.im).toBeCloseTo(-pos.im, 15);
+    }
+  });
+
   it('the attenuation operator is causal: its impulse response at 200 Hz holds less than 1e-9 of its energy at negative times', () => {
     // A long transform: the response's slow tail (1/t², from the cusp of exp(-π |f| t*) at 0 Hz) wraps round.
     const n = 65536, fs = 200;
