@@ -72,7 +72,7 @@ export const DEFAULT_SETTINGS: Settings = { analyst: '', agency: '', authority: 
 export interface ScanStatus {
   state: 'idle' | 'running' | 'done' | 'failed' | 'cancelled';
   message: string;
-  /** Share of the work done, 0-1, while running (null until the scan first reports it). */
+  /** Share of the work done, 0-1: while running, null until the scan first reports it; 1 when done; null after a failure or a cancel. */
   fraction: number | null;
   startedAt: string | null;
   /** Seconds since it started (or that it took). */
@@ -107,7 +107,11 @@ export interface HostRequests {
   /** Starts the overnight scan of an opened dataset in the background (no-op while one runs). */
   'scan.start': [{ root: string }, ScanStatus];
   'scan.status': [{ root: string }, ScanStatus];
-  /** Stops a running scan (its output file is left as it was: the scan writes it atomically at the end). */
+  /**
+   * Stops a running scan: the state stays 'running' with the message 'cancelling' until the scan's
+   * process is gone, then becomes 'cancelled' (its output file left as it was: the scan writes it
+   * atomically at the end), or 'done' when the scan had already written its output.
+   */
   'scan.cancel': [{ root: string }, ScanStatus];
   /** The finished scan's QuakeML text, or null when there is none. */
   'scan.result': [{ root: string }, string | null];

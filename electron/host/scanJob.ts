@@ -12,7 +12,18 @@ import type { ScanPresetSetting, ScanStatus } from '../contract';
 
 export const SCAN_OUTPUT_NAME = 'daybreak-scan.xml';
 
-interface Job { status: ScanStatus; child: ChildProcess | null; output: string }
+interface Job {
+  status: ScanStatus;
+  child: ChildProcess | null;
+  output: string;
+  /** Set by cancel(): the child has been signalled; the state stays 'running' until it is gone. */
+  cancelling: boolean;
+  /** SIGKILL for a child that outlives its SIGTERM. */
+  killTimer: NodeJS.Timeout | null;
+}
+
+/** How long a cancelled scan may take to end on SIGTERM before it is killed outright, ms. */
+const CANCEL_GRACE_MS = 5000;
 
 /**
  * The temporary file `daybreak scan` writes its output to before renaming it over `path`
@@ -38,9 +49,10 @@ export class ScanJobs {
 
   /**
    * `cli`: the command-line script to run (default bin/daybreak.mjs beside the app); `execPath`: the
-   * program that runs it (default this process's own, as plain Node). Both for tests.
+   * program that runs it (default this process's own, as plain Node); `cancelGraceMs`: how long a
+   * cancelled scan may take to end on SIGTERM before SIGKILL (default CANCEL_GRACE_MS). For tests.
    */
-  constructor(private readonly opts: { cli?: string; execPath?: string } = {}) {}
+  constructor(private readonly opts: { cli?: string; execPath?: string; cancelGraceMs?: number } = {}) {}
 
   status(root: string): ScanStatus {
     return { ...(this.jobs.get(root)?.status ?? { state: 'idle', message: '', fraction: null, startedAt: null, seconds: 0 }) };
@@ -56,7 +68,7 @@ export class ScanJobs {
     const output = join(outDir, SCAN_OUTPUT_NAME);
     const args = [this.opts.cli ?? cliPath(), 'scan', '--progress', 'lines', '--preset', preset, '--stations', stations, '--out', output, ...(model ? ['--model', model] : []), root];
     const started = Date.now();
-    const job: Job = { status: { state: 'running', message: 'scanning the night', fraction: null, startedAt: new Date(started).toISOString(), seconds: 0 }, child: null, output };
+    const job: Job = { status: { state: 'running', message: 'scanning the night', fraction: null, startedAt: new Date(started).toISOString(), seconds: 0 }, child: null, output, cancelling: false, killTimer: null };
     // Under Electron, process.execPath is Electron itself: ask it to behave as plain Node.
     const child = spawn(this.opts.execPath ?? process.execPath, args, { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, ELECTRON_RUN_AS_NODE: '1' } });
     job.child = child;
@@ -72,7 +84,7 @@ export class ScanJobs {
     let partial = '';
     const takeLine = (line: string) => {
       const m = /^progress (\d+(?:\.\d+)?) (.*)$/.exec(line);
-      if (m && job.status.state === 'running') job.status = { ...job.status, fraction: Number(m[1]), message: m[2] };
+      if (m && !job.cancelling) job.status = { ...job.status, fraction: Number(m[1]), message: m[2] };
       else if (!m) out = (out + line + '\n').slice(-4000);
     };
     child.stderr?.on('data', (text: string) => {
@@ -86,6 +98,7 @@ export class ScanJobs {
       if (ended) return;
       ended = true;
       clearInterval(tick);
+      if (job.killTimer) clearTimeout(job.killTimer);
       const seconds = (Date.now() - started) / 1000;
       job.child = null;
       // The last line of a child that died mid-line (an error printed without a newline).
@@ -99,11 +112,12 @@ export class ScanJobs {
       }
       const summary = head.split('\n').filter((l) => /^daybreak scan:|^ {2}settings:/.test(l)).map((l) => l.trim().replace(/^daybreak scan: /, '')).join(' \u00b7 ');
       const last = (out.trim() || head.trim()).split('\n').slice(-3).join(' \u00b7 ');
-      if (job.status.state === 'cancelled' && !finished) { job.status = { ...job.status, seconds }; return; }
-      // A cancel that reached a child already past its last write (or exiting) stops nothing: its
+      // A cancel that reached a child already past its last write (or exiting) stopped nothing: its
       // output has been replaced, so the scan is reported done.
-      const how = `done${job.status.state === 'cancelled' ? ' before the cancel arrived' : ''}${code === 1 ? '; some input was reported' : ''}`;
-      job.status = spawnError
+      const how = `done${job.cancelling ? ' before the cancel arrived' : ''}${code === 1 ? '; some input was reported' : ''}`;
+      job.status = job.cancelling && !finished
+        ? { state: 'cancelled', message: 'cancelled by the analyst', fraction: null, startedAt: job.status.startedAt, seconds }
+        : spawnError
         ? { state: 'failed', message: `scan could not start: ${spawnError.message}`, fraction: null, startedAt: job.status.startedAt, seconds }
         : finished
           ? { state: 'done', message: `${how}: ${summary || last}`, fraction: 1, startedAt: job.status.startedAt, seconds }
@@ -117,12 +131,21 @@ export class ScanJobs {
     return this.status(root);
   }
 
-  /** Stops the running scan of `root`, if any; the previous output file stays as it was. */
+  /**
+   * Stops the running scan of `root`, if any: signals the child (SIGTERM, SIGKILL after
+   * CANCEL_GRACE_MS). The state stays 'running' (message 'cancelling') until the child is gone, then
+   * becomes 'cancelled', with the previous output file as it was, or 'done' when the scan had
+   * already written its output (the cancel came too late). A new start waits for that.
+   */
   cancel(root: string): ScanStatus {
     const job = this.jobs.get(root);
-    if (job?.status.state === 'running') {
-      job.status = { ...job.status, state: 'cancelled', message: 'cancelled by the analyst', fraction: null };
-      job.child?.kill();
+    if (job?.status.state === 'running' && !job.cancelling && job.child) {
+      job.cancelling = true;
+      job.status = { ...job.status, message: 'cancelling' };
+      const child = job.child;
+      child.kill();
+      job.killTimer = setTimeout(() => child.kill('SIGKILL'), this.opts.cancelGraceMs ?? CANCEL_GRACE_MS);
+      job.killTimer.unref();
     }
     return this.status(root);
   }

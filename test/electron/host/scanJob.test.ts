@@ -48,16 +48,19 @@ describe('the desk\'s background scan job (daybreak scan as a child process)', (
     expect(await jobs.result(data)).toContain('<q:quakeml');
   }, 90_000);
 
-  it('stops on cancel, says so, and leaves the previous output file as it was', async () => {
+  it('stops on cancel: says it is cancelling until the child is gone, then cancelled, and leaves the previous output file as it was', async () => {
     const jobs = new ScanJobs();
     const out = join(dir, 'cancel');
     mkdirSync(out);
     writeFileSync(join(out, SCAN_OUTPUT_NAME), 'previous scan\n');
     jobs.start(data, join(data, 'stations.xml'), out, null, 'local');
     await new Promise((r) => setTimeout(r, 100));
-    expect(jobs.cancel(data)).toMatchObject({ state: 'cancelled', message: 'cancelled by the analyst', fraction: null });
-    const seen = await pollUntil(jobs, data, (s) => s.seconds > 0 && s.state === 'cancelled');
-    expect(seen.every((s) => s.state === 'cancelled')).toBe(true);
+    expect(jobs.cancel(data)).toMatchObject({ state: 'running', message: 'cancelling' });
+    // A start while it is cancelling does not start a second scan.
+    expect(jobs.start(data, join(data, 'stations.xml'), out, null, 'local')).toMatchObject({ state: 'running', message: 'cancelling' });
+    const seen = await pollUntil(jobs, data, (s) => s.state !== 'running');
+    expect(seen.every((s) => s.state === 'cancelled' || s.message === 'cancelling')).toBe(true);
+    expect(seen.at(-1)).toMatchObject({ state: 'cancelled', message: 'cancelled by the analyst', fraction: null });
     // The child is gone: nothing changes the status or the file any more.
     await new Promise((r) => setTimeout(r, 1500));
     expect(jobs.status(data).state).toBe('cancelled');
@@ -125,8 +128,8 @@ process.stdout.write('daybreak scan: 1 candidate event\\n');
 setTimeout(() => process.exit(0), 400);`) });
     jobs.start(data, 'S', out, null, 'local');
     for (let i = 0; i < 500 && readFileSync(join(out, SCAN_OUTPUT_NAME), 'utf8') === 'previous scan\n'; i++) await new Promise((r) => setTimeout(r, 10));
-    expect(jobs.cancel(data).state).toBe('cancelled');
-    const last = (await pollUntil(jobs, data, (s) => s.seconds > 0.3 && s.state !== 'cancelled')).at(-1)!;
+    expect(jobs.cancel(data)).toMatchObject({ state: 'running', message: 'cancelling' });
+    const last = (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
     expect(last).toMatchObject({ state: 'done', fraction: 1, message: 'done before the cancel arrived: 1 candidate event' });
     expect(await jobs.result(data)).toBe('<q:quakeml>new</q:quakeml>');
   }, 30_000);
@@ -147,10 +150,23 @@ setTimeout(() => {}, 60_000);`) });
     await pollUntil(jobs, data, (s) => s.fraction === 1);
     expect(readdirSync(out).length).toBe(2);
     jobs.cancel(data);
-    await pollUntil(jobs, data, (s) => s.seconds > 0 && s.state === 'cancelled');
-    await new Promise((r) => setTimeout(r, 600));
+    expect((await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!.state).toBe('cancelled');
     expect(readdirSync(out)).toEqual([SCAN_OUTPUT_NAME]);
     expect(readFileSync(join(out, SCAN_OUTPUT_NAME), 'utf8')).toBe('previous scan\n');
+  }, 30_000);
+
+  it('kills a cancelled scan that does not end on SIGTERM once its grace time is over', async () => {
+    const out = join(dir, 'stubborn');
+    mkdirSync(out);
+    const jobs = new ScanJobs({ cli: fakeCli('stubborn', `process.on('SIGTERM', () => {}); process.stderr.write('progress 0.1 reading\\n'); setInterval(() => {}, 1000);`), cancelGraceMs: 800 });
+    jobs.start(data, 'S', out, null, 'local');
+    await pollUntil(jobs, data, (s) => s.fraction !== null);
+    const t0 = Date.now();
+    jobs.cancel(data);
+    const last = (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
+    expect(last).toMatchObject({ state: 'cancelled', message: 'cancelled by the analyst' });
+    expect(Date.now() - t0).toBeGreaterThanOrEqual(750);
+    expect(Date.now() - t0).toBeLessThan(5000);
   }, 30_000);
 
   it('fails with the reason, not a crash of the host, when the scan program cannot be started', async () => {
