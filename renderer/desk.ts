@@ -43,6 +43,7 @@ import { DepthControl, holdDepthKm } from './panels/depthControl';
 import { setFixedDepth } from '../core/location/reviewDepth';
 import { NoteField } from './noteField';
 import { channelKey, type ChannelId } from '../core/model';
+import { SpectrumPanel } from './spectrum/spectrumPanel';
 
 export interface FilterPreset { label: string; filter: FilterRequest | null }
 
@@ -115,6 +116,8 @@ export class Desk {
   private readonly eventList = new EventList((id) => void this.openEvent(id), (e) => this.measures.get(e), (key, events) => this.measures.want(key, events));
   private readonly eventBar = el('div', { className: 'event-bar' });
   private readonly banner = el('div', { className: 'banner', hidden: true });
+  /** The spectrum of the site under the pointer (N; renderer/spectrum). */
+  private spectrum: SpectrumPanel | null = null;
 
   constructor(
     private readonly host: HostApi, dataset: Dataset, private readonly setStatus: (text: string) => void,
@@ -242,11 +245,21 @@ export class Desk {
         const iso = isoFromMicros(this.ref + Math.round(t * 1e6));
         return step >= 1 ? iso.slice(11, 19) : step >= 0.1 ? iso.slice(11, 21) : iso.slice(11, 23);
       },
-      onWindow: (x0, x1) => this.overview?.setCursorSpan([this.ref + x0 * 1e6, this.ref + x1 * 1e6]),
+      onWindow: (x0, x1) => { this.overview?.setCursorSpan([this.ref + x0 * 1e6, this.ref + x1 * 1e6]); this.spectrum?.follow(); },
       drawMarks: (m) => { drawPicks(m, this.marks()); drawAmplitudes(m, this.amplitudeTool.marks()); },
       onPointerDown: (row, t, band) => this.pointerDown(row.key, t, band),
       onPointerDrag: (t) => this.pointerDrag(t),
       onPointerUp: (t) => this.pointerUp(t),
+    });
+    this.spectrum = new SpectrumPanel(traceHost, {
+      view: () => this.traces && {
+        span: [this.ref + Math.round(this.traces.window[0] * 1e6), this.ref + Math.round(this.traces.window[1] * 1e6)],
+        firstPick: this.currentEv()?.picks.reduce<number | null>((m, p) => (m === null || p.time < m ? p.time : m), null) ?? null,
+        filter: FILTER_PRESETS[this.filterIndex].filter, filterLabel: FILTER_PRESETS[this.filterIndex].label, zeroPhase: this.zeroPhase,
+        channels: (site) => this.sites.find((s) => s.site === site)?.channels ?? [],
+      },
+      read: async (chs, a, b) => (await this.session.window(chs, a, b, null, false, 0, false)).pieces,
+      status: (text) => this.setStatus(text),
     });
     const exportButton = el('button', { title: 'Write the review as QuakeML 1.2 and a CSV of picks beside the review file' }, 'Export QuakeML + CSV');
     exportButton.addEventListener('click', () => void this.exportAll());
@@ -361,6 +374,7 @@ export class Desk {
     } finally {
       drawn();
     }
+    this.spectrum?.follow();
   }
 
   /** Resolves once the window being loaded has its rows in view drawn (or was superseded). */
@@ -822,6 +836,7 @@ export class Desk {
       case 'undo': if (this.history?.undo()) this.afterDocChange(true); return;
       case 'redo': if (this.history?.redo()) this.afterDocChange(true); return;
       case 'help': this.toggleHelp(); return;
+      case 'spectrum': this.spectrum?.toggle(this.traces?.pointer()?.row.key ?? null); return;
       case 'holdDepth': {
         const z = this.solvedDepthKm();
         if (ev && ev.fixedDepthKm !== undefined) this.apply((d) => setFixedDepth(d, ev.id, null));
@@ -983,6 +998,7 @@ export class Desk {
   close(): void {
     document.removeEventListener('keydown', this.onKey);
     this.traces?.destroy();
+    this.spectrum?.destroy();
     this.session.close();
     this.magnitudeWorker.terminate();
     this.locator.terminate();

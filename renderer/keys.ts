@@ -10,6 +10,9 @@
  *   index stretch T / G / B   zoom to the selected pick / whole window / accept every automatic pick
  * Location: H holds the depth at the current solution's (or frees it), Y switches the horizontals
  * between radial / transverse and as recorded.
+ * N, below H at the end of the same far index stretch (a look at the data, not an edit), opens the
+ * amplitude spectrum of the site under the pointer; N again or Escape closes it (the panel takes
+ * Escape itself, and only while it is open, so Escape still closes the dialogs).
  * Thumb and reach keys: Tab / Shift+Tab next / previous event, Enter marks the event done,
  * Backspace discards it, 1-6 filter presets, arrows pan, Ctrl+Z / Ctrl+Shift+Z undo / redo,
  * ? shows this map.
@@ -26,7 +29,7 @@ export type KeyAction =
   | 'nextEvent' | 'previousEvent' | 'markDone' | 'discardEvent' | 'sortNext' | 'sortReverse' | 'filterNext'
   | 'filter1' | 'filter2' | 'filter3' | 'filter4' | 'filter5' | 'filter6'
   | 'panLeft' | 'panRight' | 'undo' | 'redo' | 'help'
-  | 'holdDepth' | 'radialTransverse';
+  | 'holdDepth' | 'radialTransverse' | 'spectrum';
 
 export interface KeyBinding { keys: string; action: KeyAction; what: string; group: string }
 
@@ -50,6 +53,7 @@ export const KEY_MAP: readonly KeyBinding[] = [
   { group: 'View and event (index stretch)', keys: 'B', action: 'acceptAutomatic', what: 'accept every automatic pick of the event' },
   { group: 'Location', keys: 'H', action: 'holdDepth', what: 'hold the depth where the solution has it, or free a held depth' },
   { group: 'Location', keys: 'Y', action: 'radialTransverse', what: 'horizontals as radial / transverse (from the location) or as recorded' },
+  { group: 'Spectrum', keys: 'N', action: 'spectrum', what: 'amplitude spectrum of the site under the pointer over the span in view, beside the noise before the first pick; N again or Esc closes it' },
   { group: 'Events', keys: 'Tab', action: 'nextEvent', what: 'next event' },
   { group: 'Events', keys: 'Shift+Tab', action: 'previousEvent', what: 'previous event' },
   { group: 'Events', keys: 'Enter', action: 'markDone', what: 'mark the event done' },
@@ -71,7 +75,7 @@ const PLAIN: Record<string, KeyAction> = {
   w: 'polarityPositive', s: 'polarityUndecidable', x: 'polarityNegative',
   q: 'widen', a: 'uncertaintyFromZoom', z: 'narrow',
   t: 'zoomToPick', g: 'wholeWindow', b: 'acceptAutomatic',
-  h: 'holdDepth', y: 'radialTransverse',
+  h: 'holdDepth', y: 'radialTransverse', n: 'spectrum',
   Enter: 'markDone', Backspace: 'discardEvent', Delete: 'deletePick',
   '1': 'filter1', '2': 'filter2', '3': 'filter3', '4': 'filter4', '5': 'filter5', '6': 'filter6',
   ArrowLeft: 'panLeft', ArrowRight: 'panRight', '?': 'help',
