@@ -43,9 +43,8 @@ export function pairDistancesKm(sites: readonly { latitude: number; longitude: n
 
 /** The preset for a network of these sites (at least two; latitude and longitude in degrees). */
 export function choosePreset(sites: readonly { latitude: number; longitude: number }[]): PresetChoice {
-  if (!Array.isArray(sites) || sites.length < 2) {
-    throw new RangeError(`choosing scan settings needs at least two sites with coordinates, got ${Array.isArray(sites) ? sites.length : String(sites)}`);
-  }
+  if (!Array.isArray(sites)) throw new TypeError(`choosing scan settings needs an array of sites, got ${String(sites)}`);
+  if (sites.length < 2) throw new RangeError(`choosing scan settings needs at least two sites with coordinates, got ${sites.length}`);
   for (const s of sites) {
     if (!Number.isFinite(s?.latitude) || !Number.isFinite(s?.longitude) || Math.abs(s.latitude) > 90) {
       throw new RangeError(`site coordinates must be finite degrees (latitude within ±90), got ${JSON.stringify(s)}`);

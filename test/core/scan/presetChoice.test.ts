@@ -77,8 +77,9 @@ describe('choosing the scan settings from the network', () => {
     expect(choosePreset(pair(3.1)).preset).toBe('local');
   });
 
-  it('refuses fewer than two sites and coordinates that are not degrees', () => {
-    expect(() => choosePreset([{ latitude: 1, longitude: 2 }])).toThrow(/at least two sites/);
+  it('refuses fewer than two sites, anything but an array, and coordinates that are not degrees', () => {
+    expect(() => choosePreset([{ latitude: 1, longitude: 2 }])).toThrow(/at least two sites .*got 1/);
+    expect(() => choosePreset(null as never)).toThrow(TypeError);
     expect(() => choosePreset([{ latitude: 1, longitude: 2 }, { latitude: 95, longitude: 2 }])).toThrow(/latitude within/);
     expect(() => choosePreset([{ latitude: 1, longitude: 2 }, { latitude: NaN, longitude: 2 }])).toThrow(/finite degrees/);
   });
