@@ -631,19 +631,19 @@ export function toQmlEvent(ev: CandidateEvent, picks: readonly Pick[]): QmlEvent
   };
 }
 
-/** Writes `text` to a temporary file beside `path`, then renames it over `path` (never a half-written file). */
+/**
+ * Writes `text` to a temporary file beside `path`, then renames it over `path` (never a half-written
+ * file). A failed write removes the temporary file; a process killed during the write leaves it (no
+ * handler runs inside the synchronous write), which the desk's scan job removes (scanJob.ts).
+ */
 export function writeAtomically(path: string, text: string): void {
   const tmp = atomicTempPath(path, process.pid);
-  const cleanup = () => { try { unlinkSync(tmp); } catch { /* already gone */ } };
-  process.once('exit', cleanup);
   try {
     writeFileSync(tmp, text);
     renameSync(tmp, path);
   } catch (e) {
-    cleanup();
+    try { unlinkSync(tmp); } catch { /* already gone */ }
     throw e;
-  } finally {
-    process.removeListener('exit', cleanup);
   }
 }
 

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawn, spawnSync } from 'node:child_process';
-import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -8,7 +8,7 @@ import { readQuakeMl } from '../../../../core/quakeml';
 import type { QmlDocument, QmlPick } from '../../../../core/quakeml';
 import { microsFromIso } from '../../../../core/time';
 import type { TruthArrival } from '../../../../core/synth/truth';
-import { parseScanArgs } from '../../../../electron/host/cli/scan';
+import { parseScanArgs, writeAtomically } from '../../../../electron/host/cli/scan';
 import { distanceAzimuth } from '../../../../core/synth/geometry';
 import { smallNight, writeSmallNight } from './scanFixture';
 
@@ -314,6 +314,18 @@ describe('daybreak scan with unusable arguments', () => {
 });
 
 describe('daybreak scan writes its output atomically', () => {
+  it('writeAtomically replaces the file whole, and leaves no temporary file when the rename fails', () => {
+    const folder = join(dir, 'atomic');
+    mkdirSync(folder);
+    writeAtomically(join(folder, 'a.xml'), 'one');
+    writeAtomically(join(folder, 'a.xml'), 'two');
+    expect(readFileSync(join(folder, 'a.xml'), 'utf8')).toBe('two');
+    // A folder where the file should go: the rename fails (EISDIR), the error reaches the caller.
+    mkdirSync(join(folder, 'b.xml'));
+    expect(() => writeAtomically(join(folder, 'b.xml'), 'three')).toThrow(/EISDIR|EEXIST|ENOTEMPTY|EPERM/);
+    expect(readdirSync(folder).sort()).toEqual(['a.xml', 'b.xml']);
+  });
+
   it('never leaves a partial file: runs killed at several moments leave the previous file or a complete new one, and no temporary file', async () => {
     const outcomes: string[] = [];
     for (const ms of [400, 900, 1400, 2000]) {
