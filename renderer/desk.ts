@@ -92,6 +92,8 @@ export class Desk {
     redraw: () => this.traces?.redrawMarks(), status: (text) => this.setStatus(text),
   });
   private magnitudeFor: ReviewEvent | null = null;
+  /** The event whose magnitude is shown (magnitudeFor's comes when the worker answers). */
+  private magnitudeShownFor: ReviewEvent | null = null;
   private magnitudeSeq = 0;
   private siteCoords = new Map<string, SiteLocation>();
   /** Horizontals as radial/transverse from the current location (view option, renderer/traces/radialTransverse). */
@@ -290,14 +292,14 @@ export class Desk {
       const [x0, x1] = this.traces?.window ?? [0, 0];
       return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.fullDrawMs ?? 0, frameMs: this.traces?.lastDrawMs ?? 0,
         sheet: this.sheet && { shown: this.sheet.shown.map((x) => x.streams.site), hidden: this.sheet.hidden.map((x) => x.streams.site), reference: this.sheet.reference, showAll: this.showAllSites },
-        panels: this.panels && { event: this.panels.current.event?.id ?? null, location: this.panels.current.location, locateMs: this.panels.current.locateMs, drawMs: this.panels.current.drawMs } };
+        panels: this.panels && { event: this.panels.current.event?.id ?? null, location: this.panels.current.location, locateMs: this.panels.current.locateMs, drawMs: this.panels.current.drawMs, locatedBefore: this.panels.current.locatedBefore } };
     };
     // Read-only magnitude state for end-to-end tests: amplitudes (times µs), removed ones, station magnitudes, ML.
     (window as unknown as { daybreakMagnitude: () => unknown }).daybreakMagnitude = () => {
       const m = this.magnitude;
       const key = (a: { waveformId: ChannelId | null }) => (a.waveformId ? channelKey(a.waveformId) : '');
       return m && {
-        event: this.magnitudeFor?.id ?? null, ref: this.ref, ml: m.magnitude?.mag ?? null, uncertainty: m.magnitude?.uncertainty ?? null, stationCount: m.magnitude?.stationCount ?? 0, evaluationMode: m.magnitude?.evaluationMode ?? null, computeMs: this.magnitudeMs,
+        event: this.magnitudeShownFor?.id ?? null, ref: this.ref, ml: m.magnitude?.mag ?? null, uncertainty: m.magnitude?.uncertainty ?? null, stationCount: m.magnitude?.stationCount ?? 0, evaluationMode: m.magnitude?.evaluationMode ?? null, computeMs: this.magnitudeMs,
         amplitudes: m.amplitudes.map((a) => ({ id: a.id, channel: key(a), time: a.time, value: a.value, mode: a.evaluationMode })),
         removed: m.removed.map((a) => ({ id: a.id, channel: key(a), time: a.time, value: a.value })),
         stationMagnitudes: m.stationMagnitudes.map((s) => ({ id: s.id, mag: s.mag, amplitudeId: s.amplitudeId })),
@@ -418,7 +420,7 @@ export class Desk {
     const t2 = performance.now();
     drawn();
     const window1 = this.session.lastWindowTiming;
-    this.timings = { readMs: t1 - t0, locateWaitMs: waitMs, drawMs: t2 - t1, rows: rows.length, channels: channelsOf(listed).length, rowsDrawMs: this.traces.lastDrawMs, window: window1, allMs: t2 - t0, complete: false };
+    this.timings = { readMs: t1 - t0, locateWaitMs: waitMs, drawMs: t2 - t1, drawnAt: t2, rows: rows.length, channels: channelsOf(listed).length, rowsDrawMs: this.traces.lastDrawMs, window: window1, allMs: t2 - t0, complete: false };
     const notes = [...reply.notes];
     const rest = listed.filter((_, i) => a >= 0 && (i < a || i > b));
     if (rest.length === 0) this.timings.complete = true;
@@ -498,6 +500,7 @@ export class Desk {
     }
     if (seq !== this.magnitudeSeq) return;
     this.magnitude = r.value;
+    this.magnitudeShownFor = ev;
     this.magnitudeMs = r.ms;
     this.magnitudeText.textContent = magnitudeSummary(this.magnitude, ev);
     this.renderEventBar();
@@ -606,6 +609,8 @@ export class Desk {
       const loc = located.location?.ok ? located.location.value : null;
       // After the sheet's rows in view are drawn (a window being opened now starts before this runs).
       void Promise.resolve().then(() => this.sheetDrawn).then(() => this.updateMagnitude(ev, loc));
+      // Then the list's next and previous events are located, so that stepping to one draws its panels at once.
+      void this.sheetDrawn.then(() => this.panels?.prefetch(this.eventList.neighbours(this.currentEvent), this.siteCoords, this.model));
     }
     this.traces?.redrawMarks();
   }

@@ -162,6 +162,13 @@ export class EventList {
     return shown[Math.min(shown.length - 1, Math.max(0, i + step))].id;
   }
 
+  /** The events just after and before `id` in list order (those there are), e.g. to locate them ahead. */
+  neighbours(id: string | null): ReviewEvent[] {
+    const shown = this.shown();
+    const i = shown.findIndex((e) => e.id === id);
+    return i < 0 ? [] : [shown[i + 1], shown[i - 1]].filter((e): e is ReviewEvent => e !== undefined);
+  }
+
   private shown(): ReviewEvent[] {
     const f = this.filter.value as StateFilter;
     const kept = this.events.filter((e) => f === 'all' || (f === 'open' ? e.state === 'todo' || e.state === 'started' : e.state === f));

@@ -9,6 +9,7 @@
  *   const panels = new EventPanels(sideColumn, { onHover: (site) => traces.highlight(site) });
  *   const r = await panels.update(event, siteLocations(metas), model);   // after every pick edit; null when superseded
  *   marks.guides = panels.guidesAt(event, ref);                           // PickMarks.guides (memoised)
+ *   panels.prefetch([next, previous], sites, model);                     // located ahead, drawn at once when opened
  *   panels.highlight(site);                                               // a row hovered in the desk
  */
 import './panels.css';
@@ -51,6 +52,8 @@ export interface EventPanelsState {
   predicted: Map<string, PredictedArrival> | null;
   /** Time the worker spent locating, and the interface thread drawing, ms. */
   locateMs: number;
+  /** Whether the location had been asked for before the update (located ahead, or the same event open before): no wait. */
+  locatedBefore: boolean;
   drawMs: number;
 }
 
@@ -60,7 +63,7 @@ export class EventPanels {
   readonly residuals: ResidualPanel;
   readonly wadati: WadatiPanel;
   private readonly summary = document.createElement('div');
-  private state: EventPanelsState = { event: null, location: null, wadati: null, predicted: null, locateMs: 0, drawMs: 0 };
+  private state: EventPanelsState = { event: null, location: null, wadati: null, predicted: null, locateMs: 0, drawMs: 0, locatedBefore: false };
   private highlighted: string | null = null;
 
   private readonly locator: LocationWorker;
@@ -115,12 +118,43 @@ export class EventPanels {
 
   private lastInput: { event: ReviewEvent | null; sites: ReadonlyMap<string, SiteLocation>; model: VelocityModel; result: Promise<EventPanelsState | null> } | null = null;
 
+  /**
+   * Has `events` located in the background (after any update), so that opening one of them draws at
+   * once. Events already located with these sites and model are skipped. Results are kept per event
+   * object, and so is every update's: an edited event is a new object and is located again.
+   */
+  prefetch(events: readonly ReviewEvent[], sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel): void {
+    for (const event of events) {
+      const had = this.known.get(event);
+      if (had && had.sites === sites && had.model === model) continue;
+      const result = this.locator.panelsLater(event, sites, model, this.options.locate);
+      this.known.set(event, { sites, model, result });
+      result.catch(() => { if (this.known.get(event)?.result === result) this.known.delete(event); });
+    }
+  }
+
+  /** Locations asked for, by event object, with the sites and model they were asked with. */
+  private readonly known = new WeakMap<ReviewEvent, { sites: ReadonlyMap<string, SiteLocation>; model: VelocityModel; result: Promise<{ value: EventLocation; ms: number }> }>();
+
+  /** The event's location: one asked for before with the same sites and model, else a new panels job. */
+  private located(event: ReviewEvent, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel): Promise<{ value: EventLocation; ms: number }> {
+    const had = this.known.get(event);
+    if (had && had.sites === sites && had.model === model) return had.result.catch(() => this.located(event, sites, model));
+    const result = this.locator.panels(event, sites, model, this.options.locate);
+    this.known.set(event, { sites, model, result });
+    // A job dropped for a newer one (or failed) is not kept: asked again if this event opens again.
+    result.catch(() => { if (this.known.get(event)?.result === result) this.known.delete(event); });
+    return result;
+  }
+
   private async locateAndDraw(seq: number, event: ReviewEvent | null, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel): Promise<EventPanelsState | null> {
     let found: EventLocation | null = null;
     let locateMs = 0;
+    const had = event ? this.known.get(event) : undefined;
+    const locatedBefore = !!had && had.sites === sites && had.model === model;
     if (event) {
       try {
-        const r = await this.locator.panels(event, sites, model, this.options.locate);
+        const r = await this.located(event, sites, model);
         found = r.value;
         locateMs = r.ms;
       } catch (e) {
@@ -132,7 +166,7 @@ export class EventPanels {
     if (seq !== this.seq) return null;
     const t1 = performance.now();
     this.draw(event, sites, model, found);
-    this.state = { event, location: found?.location ?? null, wadati: found?.wadati ?? null, predicted: found?.predicted ?? null, locateMs, drawMs: performance.now() - t1 };
+    this.state = { event, location: found?.location ?? null, wadati: found?.wadati ?? null, predicted: found?.predicted ?? null, locateMs, drawMs: performance.now() - t1, locatedBefore };
     return this.state;
   }
 

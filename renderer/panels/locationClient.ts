@@ -4,7 +4,8 @@
  * - `panels`: the open event's location, Wadati fit and predicted arrivals. Only the newest waiting
  *   job runs; an older one still waiting rejects with SupersededError, so moving a pick or stepping
  *   through events never queues a location per step.
- * - `locate`: a location for the event list or an export, in the order asked, after any panels job.
+ * - `locate`: a location for the event list or an export, in the order asked, after any panels job;
+ *   `panelsLater`: the panels' results the same way (events located ahead of being opened).
  * The sites and the model go to the worker only when they change (by identity), and it holds them.
  *
  *   const locator = new LocationWorker();
@@ -47,6 +48,13 @@ export class LocationWorker {
    */
   async panels(event: ReviewEvent, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel, options?: ReviewLocateOptions): Promise<{ value: EventLocation; ms: number }> {
     const a = await this.jobs.submit({ kind: 'panels', event, sites, model, options });
+    if (a.kind !== 'panels') throw new Error('the location worker answered a panels job with a location only');
+    return { value: a.value, ms: a.ms };
+  }
+
+  /** As `panels`, but in the background lane: after the jobs asked before it, never dropped. */
+  async panelsLater(event: ReviewEvent, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel, options?: ReviewLocateOptions): Promise<{ value: EventLocation; ms: number }> {
+    const a = await this.jobs.queue({ kind: 'panels', event, sites, model, options });
     if (a.kind !== 'panels') throw new Error('the location worker answered a panels job with a location only');
     return { value: a.value, ms: a.ms };
   }

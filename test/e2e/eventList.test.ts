@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { openApp, screenshotPath, type RunningApp } from '../support/browserApp';
@@ -10,6 +10,7 @@ import { locateReviewEvent, siteLocations, type SiteLocation } from '../../core/
 import { parseVelocityModel } from '../../core/location/velocityModel';
 import type { ReviewDocument, ReviewEvent } from '../../core/review';
 import type { Truth } from '../../core/synth';
+import { readQuakeMl } from '../../core/quakeml';
 
 /**
  * Great-circle distance on a sphere of the IUGG mean radius 6371.0088 km (haversine formula; Sinnott,
@@ -211,5 +212,39 @@ describe('event list order and the sheet\'s distance limit (Chromium, browser mo
     const idOf = (i: number) => eventOf(i).id;
     expect(rows.slice(0, 3).map((r) => r.id)).toEqual([idOf(2), idOf(0), idOf(3)]);
     await page().screenshot({ path: screenshotPath('event-list-by-magnitude') });
+  }, 120_000);
+
+  it('locates the list\'s next and previous events ahead: opening one draws its panels without waiting, with the core\'s solution', async () => {
+    await page().locator('select.sort-key').selectOption('time');
+    await openEvent(eventOf(2));
+    await expect.poll(async () => ((await page().evaluate('window.daybreakMagnitude()')) as { event: string | null } | null)?.event, { timeout: 30_000 }).toBe(eventOf(2).id);
+    await page().waitForTimeout(1000);
+    const v = (await openEvent(eventOf(3))) as View & { panels: { event: string; locatedBefore: boolean; location: { ok: boolean; value: { hypocentre: { latDeg: number; lonDeg: number; depthKm: number; rmsS: number } } } } };
+    expect(v.panels.event).toBe(eventOf(3).id);
+    expect(v.panels.locatedBefore).toBe(true);
+    const model = parseVelocityModel(readFileSync(join(data, 'model.json'), 'utf8'), 'model.json');
+    const node = locateReviewEvent(eventOf(3), coords, model);
+    if (!node.ok) throw new Error(node.message);
+    const h = v.panels.location.value.hypocentre;
+    for (const k of ['latDeg', 'lonDeg', 'depthKm', 'rmsS'] as const) expect(h[k]).toBeCloseTo(node.value.hypocentre[k], 6);
+  });
+
+  it('lists for each event the ML its event bar shows and its export holds, to the last digit (all from the magnitude worker)', async () => {
+    const rows = (await listed()).filter((r) => r.ml !== '');
+    expect(rows).toHaveLength(3);
+    for (const r of rows) {
+      await openEvent(review.events.find((e) => e.id === r.id)!);
+      await expect.poll(async () => ((await page().evaluate('window.daybreakMagnitude()')) as { event: string | null } | null)?.event, { timeout: 30_000 }).toBe(r.id);
+      const m = (await page().evaluate('window.daybreakMagnitude()')) as { ml: number | null };
+      expect(m.ml).toBe(Number(r.ml));
+    }
+    await page().getByRole('button', { name: 'Export QuakeML + CSV' }).click();
+    await page().getByText(/^exported /).waitFor({ timeout: 60_000 });
+    const dir = join(data, 'daybreak-exports');
+    const xmlName = readdirSync(dir).find((f) => f.endsWith('.quakeml.xml'))!;
+    const exported = readQuakeMl(readFileSync(join(dir, xmlName), 'utf8'), xmlName).events;
+    for (const r of rows) expect(exported.find((e) => e.id === r.id)?.magnitudes?.[0]?.mag).toBe(Number(r.ml));
+    // the event of three P picks: not located, no magnitude in the list or the export
+    expect(exported.find((e) => e.id === eventOf(1).id)?.magnitudes ?? []).toEqual([]);
   }, 120_000);
 });
