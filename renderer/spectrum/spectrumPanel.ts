@@ -240,8 +240,12 @@ export class SpectrumPanel {
     }
     const axisNote = el('div', { className: 'spectrum-axis muted' }, 'frequency, Hz (log) \u00b7 amplitude, counts (log)');
     this.plotsHost.append(axisNote);
-    const missing = spectra.filter((s) => s.signal && s.noiseSeconds + 1e-6 < s.signalSeconds);
-    if (missing.length) this.legend.append(el('div', { className: 'spectrum-warn' }, `noise span shorter than the view on ${missing.map((s) => s.channel.split('.')[3]).join(', ')} (${missing[0].noiseSeconds.toFixed(1)} s: data start or a gap)`));
+    // A gap or the data's end inside a span: the spectrum is of the longest gap-free part, and says so.
+    const cut = shown.filter((s) => s.signalSeconds < seconds - 1.5 / s.sampleRate);
+    if (cut.length) this.legend.append(el('div', { className: 'spectrum-warn' }, `signal: only ${cut[0].signalSeconds.toFixed(1)} s without a gap on ${cut.map((s) => s.channel.split('.')[3]).join(', ')} (the longest part is used)`));
+    const missing = shown.filter((s) => s.noiseSeconds + 1.5 / s.sampleRate < s.signalSeconds);
+    if (missing.length && missing.every((s) => !s.noise)) this.legend.append(el('div', { className: 'spectrum-warn' }, 'noise: no data in the noise span (before the data\u2019s start or in a gap)'));
+    else if (missing.length) this.legend.append(el('div', { className: 'spectrum-warn' }, `noise: only ${missing[0].noiseSeconds.toFixed(1)} s on ${missing.map((s) => s.channel.split('.')[3]).join(', ')} (data start or a gap), so its level reads higher than a full span's`));
     this.state = { open: true, site, spans, band, window: WINDOW_LABEL[SPECTRUM_WINDOW], components, draws: this.state.draws + 1 };
   }
 

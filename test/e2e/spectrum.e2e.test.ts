@@ -14,8 +14,11 @@ import type { SpectrumState } from '../../renderer/spectrum/spectrumPanel';
 // The generator's small night (test/electron/host/cli/scanFixture: five sites on a 10 km ring, an ML 1.6
 // and an ML 2.2 earthquake in five minutes). Its noise (core/synth/noise.ts) is a secondary microseism
 // band of 0.12-0.35 Hz at 3e-8 m/s RMS (the ring's noise spec, test/core/synth/scenarioFixtures) above a
-// site band of 0.5-15 Hz at 5e-9 m/s; the earthquakes' ground velocity lies well above 1 Hz (Brune
-// corners of several Hz, core/synth/source.ts). The review holds the ML 2.2 event with a P pick on every
+// site band of 0.5-15 Hz at 5e-9 m/s. The ML 2.2 event's S corner is 17.7 Hz by Brune (1970) with the
+// generator's 3 MPa stress drop and 3.41 km/s at its 6 km depth (core/synth/source.ts, DEMO_MODEL); its
+// ground velocity spectrum f/(1 + (f/fc)^2)·exp(-π f t*), with t* = 0.016 s over 14 km at Q_S 250 plus the
+// ring's κ 0.02 s, is broadest near 6.7 Hz (worked out by hand from those values), so a single spectrum's
+// largest bin lies somewhere between 1 and 20 Hz. The review holds that event with a P pick on every
 // vertical at the generator's true arrival time.
 
 const VIEW = () => (window as unknown as { daybreakView: () => { x0: number; x1: number } }).daybreakView();
@@ -109,6 +112,11 @@ describe('the spectrum panel in the review desk (Chromium, browser mode)', () =>
     }
     console.log(`spectrum of T00 (Hz): ${s.components.map((c) => `${c.channel.split('.')[3]} peak ${c.peakHz.toFixed(2)}, noise peak ${c.noisePeakHz.toFixed(3)}, median signal/noise 1-20 Hz ${medianRatio(c, 1, 20).toFixed(0)}, 0.12-0.35 Hz ${medianRatio(c, 0.12, 0.35).toFixed(2)}`).join('; ')}`);
     expect(s.band).toEqual([1, 20]);
+    // The pointer over a plot reads out the frequency and both amplitudes there.
+    const plot = await app.page.locator('.spectrum-plot .u-over').first().boundingBox();
+    await app.page.mouse.move(plot!.x + plot!.width * 0.75, plot!.y + plot!.height / 2);
+    await expect(app.page.locator('.spectrum-readout').innerText()).resolves.toMatch(/^HHZ \d+(\.\d+)? Hz: signal [\d.e+-]+, noise [\d.e+-]+ counts$/);
+    await app.page.screenshot({ path: screenshotPath('spectrum-readout') });
   });
 
   it('follows a pan and a zoom of the view, and the filter choice (the shaded band)', async () => {
@@ -157,6 +165,30 @@ describe('the spectrum panel in the review desk (Chromium, browser mode)', () =>
     await app.page.keyboard.press('Escape');
     await until('closed by Escape', spectrum, (x) => !x.open);
     await expect(app.page.locator('.spectrum-panel').isVisible()).resolves.toBe(false);
+  });
+
+  it('says so when the spans reach before the data: browsing from the night\u2019s first seconds, no pick, noise before the span', async () => {
+    const canvas = await app.page.locator('.overview-canvas').boundingBox();
+    await app.page.mouse.click(canvas!.x + 2, canvas!.y + canvas!.height / 2);
+    await app.page.locator('.event-bar', { hasText: 'Browsing' }).waitFor();
+    await app.page.waitForTimeout(300);
+    await pointAt('T00');
+    await app.page.keyboard.press('n');
+    const s = await until('spectrum while browsing', spectrum, (x) => x.open && x.spans?.noiseBefore === 'span');
+    const span = await app.page.evaluate(VIEW);
+    // The sheet opened 20 s before the moment clicked: the noise span, as long, lies wholly before the data.
+    expect(s.spans!.noise[1]).toBe(s.spans!.signal[0]);
+    expect(s.spans!.signal[1] - s.spans!.signal[0]).toBe(Math.round((span.x1 - span.x0) * 1e6));
+    expect(s.components.every((c) => c.noiseSamples === 0 && c.drawn.noise.every((y) => y === null))).toBe(true);
+    // The signal is the part of the span after the data's start.
+    expect(s.components[0].samples).toBeLessThan(((s.spans!.signal[1] - s.spans!.signal[0]) / 1e6) * 100 - 1000);
+    const legend = await app.page.locator('.spectrum-legend').innerText();
+    expect(legend).toMatch(/just before the span/);
+    expect(legend).toMatch(/signal: only \d+\.\d s without a gap on HHZ, HHN, HHE/);
+    expect(legend).toMatch(/noise: no data in the noise span/);
+    await app.page.screenshot({ path: screenshotPath('spectrum-browsing') });
+    await app.page.keyboard.press('Escape');
+    await until('closed', spectrum, (x) => !x.open);
   });
 
   it('draws in the light theme too', async () => {
