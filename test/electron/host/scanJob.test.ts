@@ -81,100 +81,93 @@ describe('the desk\'s background scan job (daybreak scan as a child process)', (
     return path;
   }
 
-  it('keeps the last line a dying scan printed without a newline, and names the signal that killed it', async () => {
-    const out = join(dir, 'dies');
+  /**
+   * Starts a job on the stand-in `body` with its output in a new folder `name` (holding a previous
+   * output when `previous` is given); `opts` as ScanJobs takes them.
+   */
+  function startFake(name: string, body: string, previous?: string, opts: { execPath?: string; cancelGraceMs?: number } = {}): { jobs: ScanJobs; out: string } {
+    const out = join(dir, name);
     mkdirSync(out);
-    const jobs = new ScanJobs({ cli: fakeCli('dies', `
-process.stderr.write('progress 0.2500 reading\\nRangeError: the disk is full');
-setTimeout(() => process.exit(3), 50);`) });
+    if (previous !== undefined) writeFileSync(join(out, SCAN_OUTPUT_NAME), previous);
+    const jobs = new ScanJobs({ cli: fakeCli(name, body), ...opts });
     jobs.start(data, 'S', out, null, 'local');
-    const failed = (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
+    return { jobs, out };
+  }
+
+  /** The first status of `jobs` that is no longer running. */
+  async function settled(jobs: ScanJobs): Promise<ScanStatus> {
+    return (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
+  }
+
+  it('keeps the last line a dying scan printed without a newline, and names the signal that killed it', async () => {
+    const dies = startFake('dies', `
+process.stderr.write('progress 0.2500 reading\\nRangeError: the disk is full');
+setTimeout(() => process.exit(3), 50);`);
+    const failed = await settled(dies.jobs);
     expect(failed).toMatchObject({ state: 'failed', fraction: null });
     expect(failed.message).toBe('scan stopped (exit 3): RangeError: the disk is full');
-
-    const killed = new ScanJobs({ cli: fakeCli('killed', `process.stderr.write('progress 0.5 picking\\n'); setTimeout(() => process.kill(process.pid, 'SIGKILL'), 50);`) });
-    killed.start(data, 'S', out, null, 'local');
-    const last = (await pollUntil(killed, data, (s) => s.state !== 'running')).at(-1)!;
+    const killed = startFake('killed', `process.stderr.write('progress 0.5 picking\\n'); setTimeout(() => process.kill(process.pid, 'SIGKILL'), 50);`);
+    const last = await settled(killed.jobs);
     expect(last.state).toBe('failed');
     expect(last.message).toMatch(/^scan stopped \(killed by SIGKILL\)/);
   }, 30_000);
 
   it('reads the summary to its end even when the child\'s output outlives it (a grandchild holding stdout)', async () => {
-    const out = join(dir, 'late');
-    mkdirSync(out);
     // The child exits at once; what it started writes the summary 300 ms later on the same stdout.
-    const jobs = new ScanJobs({ cli: fakeCli('late', `
+    const { jobs } = startFake('late', `
 import { spawn } from 'node:child_process';
 import { writeFileSync } from 'node:fs';
 writeFileSync(out, '<q:quakeml/>');
 spawn(process.execPath, ['-e', "setTimeout(() => process.stdout.write('daybreak scan: 3 candidate events\\\\n  settings: near\\\\n'), 300)"], { stdio: ['ignore', 'inherit', 'inherit'] }).unref();
-process.exit(0);`) });
-    jobs.start(data, 'S', out, null, 'local');
-    const done = (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
-    expect(done).toMatchObject({ state: 'done', fraction: 1, message: 'done: 3 candidate events · settings: near' });
+process.exit(0);`);
+    expect(await settled(jobs)).toMatchObject({ state: 'done', fraction: 1, message: 'done: 3 candidate events · settings: near' });
   }, 30_000);
 
   it('says the scan finished when a cancel came too late to stop it, since its output was replaced', async () => {
-    const out = join(dir, 'late-cancel');
-    mkdirSync(out);
-    writeFileSync(join(out, SCAN_OUTPUT_NAME), 'previous scan\n');
     // The output is written, then the child takes a moment to exit and does not die of the cancel's
     // signal (as a child that has already exited does not).
-    const jobs = new ScanJobs({ cli: fakeCli('finishing', `
+    const { jobs, out } = startFake('finishing', `
 process.on('SIGTERM', () => {});
 import { writeFileSync } from 'node:fs';
 writeFileSync(out, '<q:quakeml>new</q:quakeml>');
 process.stdout.write('daybreak scan: 1 candidate event\\n');
-setTimeout(() => process.exit(0), 400);`) });
-    jobs.start(data, 'S', out, null, 'local');
+setTimeout(() => process.exit(0), 400);`, 'previous scan\n');
     for (let i = 0; i < 500 && readFileSync(join(out, SCAN_OUTPUT_NAME), 'utf8') === 'previous scan\n'; i++) await new Promise((r) => setTimeout(r, 10));
     expect(jobs.cancel(data)).toMatchObject({ state: 'running', message: 'cancelling' });
-    const last = (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
-    expect(last).toMatchObject({ state: 'done', fraction: 1, message: 'done before the cancel arrived: 1 candidate event' });
+    expect(await settled(jobs)).toMatchObject({ state: 'done', fraction: 1, message: 'done before the cancel arrived: 1 candidate event' });
     expect(await jobs.result(data)).toBe('<q:quakeml>new</q:quakeml>');
   }, 30_000);
 
   it('removes the temporary file of a scan killed while writing its output, and leaves the previous output', async () => {
-    const out = join(dir, 'mid-write');
-    mkdirSync(out);
-    writeFileSync(join(out, SCAN_OUTPUT_NAME), 'previous scan\n');
     // As daybreak scan's atomic write: the whole text into the temporary file, then a rename; the
     // cancel's SIGTERM lands between the two.
-    const tmpFor = atomicTempPath(join(out, SCAN_OUTPUT_NAME), 999_999_999);
-    const jobs = new ScanJobs({ cli: fakeCli('mid-write', `
+    const tmpFor = atomicTempPath(join(dir, 'mid-write', SCAN_OUTPUT_NAME), 999_999_999);
+    const { jobs, out } = startFake('mid-write', `
 import { writeFileSync } from 'node:fs';
 writeFileSync(${JSON.stringify(tmpFor)}.replace('999999999', String(process.pid)), '<q:quakeml>half');
 process.stderr.write('progress 1.0000 writing\\n');
-setTimeout(() => {}, 60_000);`) });
-    jobs.start(data, 'S', out, null, 'local');
+setTimeout(() => {}, 60_000);`, 'previous scan\n');
     await pollUntil(jobs, data, (s) => s.fraction === 1);
     expect(readdirSync(out).length).toBe(2);
     jobs.cancel(data);
-    expect((await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!.state).toBe('cancelled');
+    expect((await settled(jobs)).state).toBe('cancelled');
     expect(readdirSync(out)).toEqual([SCAN_OUTPUT_NAME]);
     expect(readFileSync(join(out, SCAN_OUTPUT_NAME), 'utf8')).toBe('previous scan\n');
   }, 30_000);
 
   it('kills a cancelled scan that does not end on SIGTERM once its grace time is over', async () => {
-    const out = join(dir, 'stubborn');
-    mkdirSync(out);
-    const jobs = new ScanJobs({ cli: fakeCli('stubborn', `process.on('SIGTERM', () => {}); process.stderr.write('progress 0.1 reading\\n'); setInterval(() => {}, 1000);`), cancelGraceMs: 800 });
-    jobs.start(data, 'S', out, null, 'local');
+    const { jobs } = startFake('stubborn', `process.on('SIGTERM', () => {}); process.stderr.write('progress 0.1 reading\\n'); setInterval(() => {}, 1000);`, undefined, { cancelGraceMs: 800 });
     await pollUntil(jobs, data, (s) => s.fraction !== null);
     const t0 = Date.now();
     jobs.cancel(data);
-    const last = (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
-    expect(last).toMatchObject({ state: 'cancelled', message: 'cancelled by the analyst' });
+    expect(await settled(jobs)).toMatchObject({ state: 'cancelled', message: 'cancelled by the analyst' });
     expect(Date.now() - t0).toBeGreaterThanOrEqual(750);
     expect(Date.now() - t0).toBeLessThan(5000);
   }, 30_000);
 
   it('fails with the reason, not a crash of the host, when the scan program cannot be started', async () => {
-    const out = join(dir, 'no-node');
-    mkdirSync(out);
-    const jobs = new ScanJobs({ cli: fakeCli('never', ''), execPath: join(dir, 'no-such-node') });
-    jobs.start(data, 'S', out, null, 'local');
-    const last = (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
+    const { jobs } = startFake('no-node', '', undefined, { execPath: join(dir, 'no-such-node') });
+    const last = await settled(jobs);
     expect(last.state).toBe('failed');
     expect(last.message).toMatch(/^scan could not start: .*ENOENT/);
   }, 30_000);
