@@ -74,6 +74,7 @@ export class SpectrumPanel {
   private seq = 0;
   private timer: ReturnType<typeof setTimeout> | null = null;
   private readonly host: HTMLElement;
+  private readonly themeWatch = new MutationObserver(() => this.follow());
   private pointerY = 0;
   private state: SpectrumState = { open: false, site: null, spans: null, band: null, window: WINDOW_LABEL[SPECTRUM_WINDOW], components: [], draws: 0 };
 
@@ -89,6 +90,8 @@ export class SpectrumPanel {
     host.addEventListener('pointermove', (e) => { if (!this.root.contains(e.target as Node)) this.pointerY = e.clientY; });
     this.host = host;
     document.addEventListener('keydown', this.onEscape);
+    // The colours come from the theme: drawn again when it changes while the panel is open.
+    this.themeWatch.observe(document.documentElement, { attributes: true, attributeFilter: ['data-theme'] });
     (window as unknown as { daybreakSpectrum: () => SpectrumState }).daybreakSpectrum = () => structuredClone(this.state);
   }
 
@@ -136,6 +139,7 @@ export class SpectrumPanel {
 
   destroy(): void {
     document.removeEventListener('keydown', this.onEscape);
+    this.themeWatch.disconnect();
     this.close();
     this.root.remove();
   }

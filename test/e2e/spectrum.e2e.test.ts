@@ -158,6 +158,7 @@ describe('the spectrum panel in the review desk (Chromium, browser mode)', () =>
     await app.page.keyboard.press('?');
     await expect(app.page.locator('dialog#help').isVisible()).resolves.toBe(true);
     await expect(app.page.locator('dialog#help').innerText()).resolves.toMatch(/N\s+amplitude spectrum of the site under the pointer/);
+    await app.page.screenshot({ path: screenshotPath('spectrum-help') });
     await app.page.keyboard.press('Escape');
     await expect(app.page.locator('dialog#help').isVisible()).resolves.toBe(false);
     s = await spectrum();
@@ -191,11 +192,12 @@ describe('the spectrum panel in the review desk (Chromium, browser mode)', () =>
     await until('closed', spectrum, (x) => !x.open);
   });
 
-  it('draws in the light theme too', async () => {
-    await app.page.getByRole('button', { name: 'Theme' }).click();
+  it('draws again in the light theme when the theme is switched while it is open', async () => {
     await pointAt('T00');
     await app.page.keyboard.press('n');
-    await until('open again', spectrum, (x) => x.open && x.site === 'XX.T00');
+    const before = await until('open again', spectrum, (x) => x.open && x.site === 'XX.T00');
+    await app.page.getByRole('button', { name: 'Theme' }).click();
+    await until('drawn again', spectrum, (x) => x.draws > before.draws);
     await app.page.waitForTimeout(150);
     await app.page.screenshot({ path: screenshotPath('spectrum-open-light') });
     await app.page.keyboard.press('n');
