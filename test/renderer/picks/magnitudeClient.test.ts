@@ -86,13 +86,16 @@ describe('MagnitudeWorker: magnitudes through the worker\'s messages', () => {
     expect(pieces.every((p) => p.samples.byteLength === 0)).toBe(true);
   });
 
-  it('keeps the open event\'s pieces across edits, and a list job in between leaves them alone', async () => {
+  it('keeps the open event\'s pieces (moved to it) across edits, and a list job in between leaves them alone', async () => {
     const w = new CloningWorker();
     const mw = new MagnitudeWorker(w);
     let reads = 0;
-    const read = async () => { reads++; return c.pieces(); };
+    let given: RawPiece[] = [];
+    const read = async () => { reads++; given = c.pieces(); return given; };
     const first = await mw.compute({ ...input, ev: c.ev, readKey: c.readKey, read });
     expect(first.value).toEqual(c.direct());
+    // moved to the worker, not copied
+    expect(given.every((p) => p.samples.byteLength === 0)).toBe(true);
     await mw.measure({ ...input, ev: c.ev, pieces: c.pieces() });
     // an amplitude moved by the analyst: the same pieces, measured again where it was dropped
     const a = first.value!.amplitudes[0];
