@@ -259,6 +259,7 @@ export class Desk {
         firstPick: this.currentEv()?.picks.reduce<number | null>((m, p) => (m === null || p.time < m ? p.time : m), null) ?? null,
         filter: FILTER_PRESETS[this.filterIndex].filter, filterLabel: FILTER_PRESETS[this.filterIndex].label, zeroPhase: this.zeroPhase,
         channels: (site) => this.sites.find((s) => s.site === site)?.channels ?? [],
+        units: (ch) => this.session.channels.get(ch)?.meta?.sensitivity?.outputUnits ?? null,
       },
       read: async (chs, a, b) => (await this.session.window(chs, a, b, null, false, 0, false)).pieces,
       status: (text) => this.setStatus(text),

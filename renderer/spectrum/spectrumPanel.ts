@@ -2,7 +2,8 @@
  * The spectrum panel of the event sheet: the amplitude spectra of one site's components over the
  * time span in view, beside the spectrum of a noise span of the same length before the event's first
  * pick (renderer/spectrum/spectrumWindows), on log-log axes with the traces' filter band shaded. The
- * spectra are of raw samples (counts, mean removed, Hann window), whatever filter the traces show.
+ * spectra are of raw samples (mean removed, Hann window), whatever filter the traces show, in the
+ * units the samples are recorded in (counts, as the StationXML names them, or said to be unknown).
  * It floats over the lower right of the traces, follows the zoom, pan and filter (`follow()`), and
  * closes by its button, the key that opened it or Escape (the desk's key map).
  */
@@ -12,7 +13,7 @@ import { isoFromMicros, type Micros } from '../../core/time';
 import { el } from '../dom';
 import { logTicks, tickLabel } from './logAxis';
 import {
-  NOISE_GAP_MICROS, SPECTRUM_WINDOW, channelSpectra, passBand, spectrumSpans, type ChannelSpectra, type SamplePiece, type SpectrumSpans,
+  NOISE_GAP_MICROS, SPECTRUM_WINDOW, amplitudeUnits, channelSpectra, passBand, spectrumSpans, type ChannelSpectra, type SamplePiece, type SpectrumSpans,
 } from './spectrumWindows';
 
 /** A piece of a read, with its channel key ("NET.STA.LOC.CHA"). */
@@ -30,6 +31,8 @@ export interface SpectrumView {
   zeroPhase: boolean;
   /** The channels ("NET.STA.LOC.CHA") of a site ("NET.STA"), vertical first. */
   channels(site: string): string[];
+  /** The units a channel's samples are recorded in (its StationXML sensitivity's output units, e.g. "count"), or null when not given. */
+  units(channel: string): string | null;
 }
 
 export interface SpectrumPanelOptions {
@@ -51,7 +54,7 @@ export interface SpectrumState {
     channel: string; fftLength: number; samples: number; noiseSamples: number;
     /** Frequencies of the largest signal and noise amplitudes drawn, Hz. */
     peakHz: number; noisePeakHz: number;
-    /** The columns drawn: frequencies (Hz), signal and noise amplitudes (counts; null where none). */
+    /** The columns drawn: frequencies (Hz), signal and noise amplitudes (the recorded units; null where none). */
     drawn: { hz: number[]; signal: (number | null)[]; noise: (number | null)[] };
   }[];
   /** Times the panel drew a new computation. */
@@ -76,6 +79,8 @@ export class SpectrumPanel {
   private readonly host: HTMLElement;
   private readonly themeWatch = new MutationObserver(() => this.follow());
   private pointerY = 0;
+  /** Units of the amplitudes drawn, for the readout. */
+  private units = '';
   private state: SpectrumState = { open: false, site: null, spans: null, band: null, window: WINDOW_LABEL[SPECTRUM_WINDOW], components: [], draws: 0 };
 
   constructor(host: HTMLElement, private readonly opts: SpectrumPanelOptions) {
@@ -173,10 +178,12 @@ export class SpectrumPanel {
     const seconds = (spans.signal[1] - spans.signal[0]) / 1e6;
     const fft = shown[0]?.signal?.fftLength ?? 0;
     const hhmmss = (t: Micros) => isoFromMicros(t).slice(11, 21);
+    const units = amplitudeUnits(shown.map((s) => view.units(s.channel)));
+    this.units = units.short;
     this.head.replaceChildren(
       el('b', {}, `Spectrum \u00b7 ${site}`),
       ` ${hhmmss(spans.signal[0])}\u2013${hhmmss(spans.signal[1])} UTC (${seconds.toFixed(1)} s in view)`,
-      el('div', { className: 'muted' }, `raw counts, mean removed, ${WINDOW_LABEL[SPECTRUM_WINDOW]} window, ${fft}-point FFT; amplitude in counts (a sinusoid reads its amplitude)`));
+      el('div', { className: 'muted' }, `raw samples, mean removed, ${WINDOW_LABEL[SPECTRUM_WINDOW]} window, ${fft}-point FFT; amplitude in ${units.long} (a sinusoid reads its amplitude)`));
     const noiseWhere = spans.noiseBefore === 'first pick' ? `ending ${NOISE_GAP_MICROS / 1e6} s before the first pick` : 'just before the span';
     const filterText = view.filter ? `traces\u2019 filter ${view.filterLabel}${view.zeroPhase ? ' (zero-phase view)' : ''}` : 'traces unfiltered';
     const item = (swatch: string, text: string) => el('span', { className: 'spectrum-key' }, el('span', { className: `swatch ${swatch}` }), ` ${text}`);
@@ -242,14 +249,14 @@ export class SpectrumPanel {
         drawn: { hz: Array.from(plot.data[0]), signal: Array.from(plot.data[1], (y) => y ?? null), noise: Array.from(plot.data[2], (y) => y ?? null) },
       });
     }
-    const axisNote = el('div', { className: 'spectrum-axis muted' }, 'frequency, Hz (log) \u00b7 amplitude, counts (log)');
+    const axisNote = el('div', { className: 'spectrum-axis muted' }, `frequency, Hz (log) \u00b7 amplitude, ${units.short} (log)`);
     this.plotsHost.append(axisNote);
     // A gap or the data's end inside a span: the spectrum is of the longest gap-free part, and says so.
     const cut = shown.filter((s) => s.signalSeconds < seconds - 1.5 / s.sampleRate);
     if (cut.length) this.legend.append(el('div', { className: 'spectrum-warn' }, `signal: only ${cut[0].signalSeconds.toFixed(1)} s without a gap on ${cut.map((s) => s.channel.split('.')[3]).join(', ')} (the longest part is used)`));
     const missing = shown.filter((s) => s.noiseSeconds + 1.5 / s.sampleRate < s.signalSeconds);
     if (missing.length && missing.every((s) => !s.noise)) this.legend.append(el('div', { className: 'spectrum-warn' }, 'noise: no data in the noise span (before the data\u2019s start or in a gap)'));
-    else if (missing.length) this.legend.append(el('div', { className: 'spectrum-warn' }, `noise: only ${missing[0].noiseSeconds.toFixed(1)} s on ${missing.map((s) => s.channel.split('.')[3]).join(', ')} (data start or a gap), so its level reads higher than a full span's`));
+    else if (missing.length) this.legend.append(el('div', { className: 'spectrum-warn' }, `noise: only ${missing[0].noiseSeconds.toFixed(1)} s on ${missing.map((s) => s.channel.split('.')[3]).join(', ')} (data start or a gap): random noise reads \u221a(${seconds.toFixed(1)} / ${missing[0].noiseSeconds.toFixed(1)}) = ${Math.sqrt(seconds / missing[0].noiseSeconds).toFixed(1)}\u00d7 higher than over the full span`));
     this.state = { open: true, site, spans, band, window: WINDOW_LABEL[SPECTRUM_WINDOW], components, draws: this.state.draws + 1 };
   }
 
@@ -258,7 +265,7 @@ export class SpectrumPanel {
     if (i === null || i === undefined) { this.readout.textContent = ''; return; }
     const f = u.data[0][i];
     const v = (j: number) => { const y = u.data[j][i]; return typeof y === 'number' ? y.toPrecision(3) : '\u2013'; };
-    this.readout.textContent = `${channel.split('.')[3]} ${f.toPrecision(3)} Hz: signal ${v(1)}, noise ${v(2)} counts`;
+    this.readout.textContent = `${channel.split('.')[3]} ${f.toPrecision(3)} Hz: signal ${v(1)}, noise ${v(2)} ${this.units}`;
   }
 }
 

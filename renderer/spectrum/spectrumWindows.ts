@@ -119,3 +119,15 @@ export function passBand(filter: FilterRequest | null, sampleRate: number): [num
   const f = c as number;
   return filter.kind === 'highpass' ? [f, nyquist] : [0, Math.min(f, nyquist)];
 }
+
+/**
+ * How the spectra's amplitude units are named from the components' recorded units (StationXML output
+ * units, null when not given): "counts" for count(s), one named unit when all agree, else "the units
+ * recorded" with what is known. `short` labels an axis or a readout.
+ */
+export function amplitudeUnits(units: (string | null)[]): { long: string; short: string } {
+  const known = [...new Set(units.filter((u): u is string => u !== null).map((u) => (/^counts?$/i.test(u) ? 'counts' : u)))];
+  if (known.length === 1 && units.every((u) => u !== null)) return { long: known[0], short: known[0] };
+  if (known.length === 0) return { long: 'the units recorded (the StationXML gives none)', short: 'recorded units' };
+  return { long: `the units recorded (${known.join(', ')})`, short: 'recorded units' };
+}

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { execFileSync } from 'node:child_process';
 import {
-  NOISE_GAP_MICROS, SPECTRUM_WINDOW, channelSpectra, passBand, peakFrequency, runInSpan, spectrumSpans, type SamplePiece,
+  NOISE_GAP_MICROS, SPECTRUM_WINDOW, amplitudeUnits, channelSpectra, passBand, peakFrequency, runInSpan, spectrumSpans, type SamplePiece,
 } from '../../../renderer/spectrum/spectrumWindows';
 import { relDiff, testSignal } from '../../core/dsp/signals';
 
@@ -157,5 +157,13 @@ describe('spectrumWindows', () => {
     expect(passBand({ kind: 'bandpass', order: 4, corners: [5, 40] }, 40)).toEqual([5, 20]);
     expect(passBand({ kind: 'highpass', order: 4, corners: 1 }, 100)).toEqual([1, 50]);
     expect(passBand({ kind: 'lowpass', order: 2, corners: 8 }, 100)).toEqual([0, 8]);
+  });
+
+  it('amplitudeUnits names counts from StationXML\u2019s count or COUNTS, and says when the units are not given or differ', () => {
+    expect(amplitudeUnits(['count', 'COUNTS', 'counts'])).toEqual({ long: 'counts', short: 'counts' });
+    expect(amplitudeUnits(['m/s', 'm/s'])).toEqual({ long: 'm/s', short: 'm/s' });
+    expect(amplitudeUnits([null, null])).toEqual({ long: 'the units recorded (the StationXML gives none)', short: 'recorded units' });
+    expect(amplitudeUnits(['count', null])).toEqual({ long: 'the units recorded (counts)', short: 'recorded units' });
+    expect(amplitudeUnits(['count', 'm/s'])).toEqual({ long: 'the units recorded (counts, m/s)', short: 'recorded units' });
   });
 });
