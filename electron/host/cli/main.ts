@@ -1,7 +1,7 @@
 /**
  * The `daybreak` command line. Sub-commands live one per file beside this one.
  * Exit codes for every sub-command: 0 done, 1 done but some input was bad and was reported,
- * 2 unusable arguments.
+ * 2 unusable arguments; `scan` also 3, failed (its reason on stderr).
  */
 const USAGE = `usage: daybreak <command> [options]
 

@@ -69,6 +69,9 @@ const USAGE = `usage: daybreak scan --stations STATIONXML --out OUT.xml [options
   --authority A        authority of the smi: identifiers (default "daybreak.local")
   --progress MODE      bar (default on a terminal), none (default otherwise), or lines: one line
                        "progress FRACTION WHAT" on stderr at most 4 times a second, for programs
+
+exit codes: 0 done; 1 done, some input was bad or unknown (reported); 2 unusable arguments;
+3 failed (the reason on stderr; OUT left as it was)
 `;
 
 class ArgumentError extends Error {}
@@ -305,6 +308,18 @@ export async function scan(args: string[]): Promise<number> {
     process.stderr.write(`daybreak scan: ${e.message}\n${USAGE}`);
     return 2;
   }
+  try {
+    return await scanNight(a, inv);
+  } catch (e) {
+    // Exit code 3, not Node's 1 for an uncaught error: 1 means the scan was done and some input was
+    // bad, and the desk's scan job would read the previous output as this scan's.
+    process.stderr.write(`${a.progress === 'bar' ? '\n' : ''}daybreak scan: failed: ${e instanceof Error ? e.message : String(e)}\n`);
+    return 3;
+  }
+}
+
+/** The scan itself, once its arguments and StationXML are read; returns the exit code (0 or 1). */
+async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   const t0 = performance.now();
   let s = a.settings;
   const bar = a.progress === 'bar' ? progressBar(process.stderr) : a.progress === 'lines' ? progressLines(process.stderr) : null;

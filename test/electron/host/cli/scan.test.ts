@@ -326,6 +326,16 @@ describe('daybreak scan writes its output atomically', () => {
     expect(readdirSync(folder).sort()).toEqual(['a.xml', 'b.xml']);
   });
 
+  it('exits 3 with the reason when the scan fails (here: OUT is a folder), not 1, which means done', () => {
+    const out = join(dir, 'out-is-a-folder.xml');
+    mkdirSync(out);
+    const r = daybreak('scan', '--stations', join(dir, 'night', 'stations.xml'), '--out', out, join(dir, 'night', 'waveforms'));
+    expect(r.code).toBe(3);
+    expect(r.stderr).toMatch(/^daybreak scan: failed: EISDIR: .*rename .*out-is-a-folder\.xml'\n$/);
+    expect(r.stdout).toBe('');
+    expect(readdirSync(dir).filter((n) => n.startsWith('.out-is-a-folder'))).toEqual([]);
+  }, 60_000);
+
   it('never leaves a partial file: runs killed at several moments leave the previous file or a complete new one, and no temporary file', async () => {
     const outcomes: string[] = [];
     for (const ms of [400, 900, 1400, 2000]) {
