@@ -104,14 +104,18 @@ export class ScanJobs {
       // The last line of a child that died mid-line (an error printed without a newline).
       if (partial) takeLine(partial);
       partial = '';
-      const finished = spawnError === null && signal === null && (code === 0 || code === 1);
+      // Done only with the summary printed: exit code 1 is also Node's for a crash before the scan ran.
+      const finished = spawnError === null && signal === null && (code === 0 || code === 1) && /^daybreak scan:/m.test(head);
       // A scan killed (or failed) while writing its output leaves its temporary file: remove it; the
       // previous output stays as it was.
       if (!finished && pid !== undefined) {
         try { unlinkSync(atomicTempPath(output, pid)); } catch { /* none was left */ }
       }
       const summary = head.split('\n').filter((l) => /^daybreak scan:|^ {2}settings:/.test(l)).map((l) => l.trim().replace(/^daybreak scan: /, '')).join(' \u00b7 ');
-      const last = (out.trim() || head.trim()).split('\n').slice(-3).join(' \u00b7 ');
+      // Why it stopped: the error line of a crash (Node prints it above the stack), else the last lines.
+      const tail = (out.trim() || head.trim()).split('\n');
+      const errorLine = tail.filter((l) => /^(daybreak\b|\w*Error\b)/.test(l)).at(-1);
+      const last = errorLine ?? tail.slice(-3).join(' \u00b7 ');
       // A cancel that reached a child already past its last write (or exiting) stopped nothing: its
       // output has been replaced, so the scan is reported done.
       const how = `done${job.cancelling ? ' before the cancel arrived' : ''}${code === 1 ? '; some input was reported' : ''}`;

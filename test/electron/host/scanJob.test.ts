@@ -112,6 +112,14 @@ setTimeout(() => process.exit(3), 50);`);
     expect(last.message).toMatch(/^scan stopped \(killed by SIGKILL\)/);
   }, 30_000);
 
+  it('takes a crash before the scan ran (Node\'s exit code 1, no summary) for a failure, naming the error, not for a scan done', async () => {
+    const { jobs } = startFake('crash', `await import('no-such-package-here');`, 'previous scan\n');
+    const last = await settled(jobs);
+    expect(last).toMatchObject({ state: 'failed', fraction: null });
+    expect(last.message).toMatch(/^scan stopped \(exit 1\): Error \[ERR_MODULE_NOT_FOUND\]: Cannot find package 'no-such-package-here'/);
+    expect(await jobs.result(data)).toBeNull();
+  }, 30_000);
+
   it('reads the summary to its end even when the child\'s output outlives it (a grandchild holding stdout)', async () => {
     // The child exits at once; what it started writes the summary 300 ms later on the same stdout.
     const { jobs } = startFake('late', `
