@@ -59,6 +59,8 @@ export interface SpectrumState {
   }[];
   /** Times the panel drew a new computation. */
   draws: number;
+  /** Milliseconds the last one took: reading the raw samples, the spectra, drawing. */
+  ms: number;
 }
 
 
@@ -81,7 +83,7 @@ export class SpectrumPanel {
   private pointerY = 0;
   /** Units of the amplitudes drawn, for the readout. */
   private units = '';
-  private state: SpectrumState = { open: false, site: null, spans: null, band: null, window: WINDOW_LABEL[SPECTRUM_WINDOW], components: [], draws: 0 };
+  private state: SpectrumState = { open: false, site: null, spans: null, band: null, window: WINDOW_LABEL[SPECTRUM_WINDOW], components: [], draws: 0, ms: 0 };
 
   constructor(host: HTMLElement, private readonly opts: SpectrumPanelOptions) {
     const close = el('button', { className: 'spectrum-close', title: 'Close the spectrum (N or Escape)' }, '\u00d7');
@@ -151,6 +153,7 @@ export class SpectrumPanel {
 
   private async compute(): Promise<void> {
     const seq = ++this.seq;
+    const t0 = performance.now();
     const view = this.opts.view();
     const site = this.site;
     if (!view || !site) return;
@@ -169,6 +172,7 @@ export class SpectrumPanel {
     if (seq !== this.seq) return;
     const spectra = channels.map((c) => channelSpectra(c, pieces.filter((p) => p.key === c), spans));
     this.draw(site, view, spans, spectra);
+    this.state.ms = performance.now() - t0;
   }
 
   private draw(site: string, view: SpectrumView, spans: SpectrumSpans, spectra: ChannelSpectra[]): void {
@@ -257,7 +261,7 @@ export class SpectrumPanel {
     const missing = shown.filter((s) => s.noiseSeconds + 1.5 / s.sampleRate < s.signalSeconds);
     if (missing.length && missing.every((s) => !s.noise)) this.legend.append(el('div', { className: 'spectrum-warn' }, 'noise: no data in the noise span (before the data\u2019s start or in a gap)'));
     else if (missing.length) this.legend.append(el('div', { className: 'spectrum-warn' }, `noise: only ${missing[0].noiseSeconds.toFixed(1)} s on ${missing.map((s) => s.channel.split('.')[3]).join(', ')} (data start or a gap): random noise reads \u221a(${seconds.toFixed(1)} / ${missing[0].noiseSeconds.toFixed(1)}) = ${Math.sqrt(seconds / missing[0].noiseSeconds).toFixed(1)}\u00d7 higher than over the full span`));
-    this.state = { open: true, site, spans, band, window: WINDOW_LABEL[SPECTRUM_WINDOW], components, draws: this.state.draws + 1 };
+    this.state = { open: true, site, spans, band, window: WINDOW_LABEL[SPECTRUM_WINDOW], components, draws: this.state.draws + 1, ms: 0 };
   }
 
   private showReadout(u: uPlot, channel: string): void {

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { screenshotPath, type RunningApp } from '../support/browserApp';
@@ -10,6 +10,10 @@ import { smallNight, writeSmallNight } from '../electron/host/cli/scanFixture';
 import { EMPTY_REVIEW, addEvent, placePick, serializeReview } from '../../core/review';
 import { microsFromIso } from '../../core/time';
 import type { SpectrumState } from '../../renderer/spectrum/spectrumPanel';
+import { readMiniSeedBuffer } from '../../core/mseed';
+import { channelKey } from '../../core/model';
+import { numpySpanSpectra, type ReferencePiece } from '../ref/scipy/spectrumPanelReference';
+import { relDiff } from '../core/dsp/signals';
 
 // The generator's small night (test/electron/host/cli/scanFixture: five sites on a 10 km ring, an ML 1.6
 // and an ML 2.2 earthquake in five minutes). Its noise (core/synth/noise.ts) is a secondary microseism
@@ -67,6 +71,14 @@ describe('the spectrum panel in the review desk (Chromium, browser mode)', () =>
     return [eventStart + Math.round(v.x0 * 1e6), eventStart + Math.round(v.x1 * 1e6)];
   }
 
+  /** The segments of a channel in the dataset's files, as core/mseed reads them in Node. */
+  function rawPieces(channel: string): ReferencePiece[] {
+    const files = readdirSync(join(data, 'waveforms')).filter((f) => f.startsWith(`${channel}.`));
+    expect(files.length).toBeGreaterThan(0);
+    return files.flatMap((f) => readMiniSeedBuffer(new Uint8Array(readFileSync(join(data, 'waveforms', f))), f).channels
+      .filter((c) => channelKey(c.id) === channel).flatMap((c) => c.segments.map((g) => ({ start: g.start, sampleRate: g.sampleRate, samples: g.samples }))));
+  }
+
   /** Median of signal/noise over the drawn bins in [f0, f1] Hz. */
   function medianRatio(c: SpectrumState['components'][number], f0: number, f1: number): number {
     const r: number[] = [];
@@ -79,7 +91,7 @@ describe('the spectrum panel in the review desk (Chromium, browser mode)', () =>
     return r[r.length >> 1];
   }
 
-  it('N over a row opens the spectra of its components over the span in view: the earthquake peaks above 1 Hz, the noise before the first pick in the microseism band', async () => {
+  it('N over a row opens the spectra of its components over the span in view, drawn as numpy computes them from the raw samples: the earthquake peaks above 1 Hz, the noise before the first pick in the microseism band', async () => {
     await pointAt('T00');
     await app.page.keyboard.press('n');
     const s = await until('spectrum drawn', spectrum, (x) => x.open && x.draws >= 1);
@@ -110,7 +122,19 @@ describe('the spectrum panel in the review desk (Chromium, browser mode)', () =>
       expect(low).toBeGreaterThan(1 / 3);
       expect(low).toBeLessThan(3);
     }
-    console.log(`spectrum of T00 (Hz): ${s.components.map((c) => `${c.channel.split('.')[3]} peak ${c.peakHz.toFixed(2)}, noise peak ${c.noisePeakHz.toFixed(3)}, median signal/noise 1-20 Hz ${medianRatio(c, 1, 20).toFixed(0)}, 0.12-0.35 Hz ${medianRatio(c, 0.12, 0.35).toFixed(2)}`).join('; ')}`);
+    // The values drawn are numpy's spectra of the same raw samples, read here from the miniSEED files
+    // by core/mseed (Node) and cut and transformed by test/ref/scipy/spectrum_panel_reference.py.
+    const z = s.components[0];
+    const ref = numpySpanSpectra([{ pieces: rawPieces(z.channel), span: s.spans!.signal }, { pieces: rawPieces(z.channel), span: s.spans!.noise }]);
+    for (const [drawn, r] of [[z.drawn.signal, ref[0]!], [z.drawn.noise, ref[1]!]] as const) {
+      expect(r.N).toBe(4096);
+      expect(z.drawn.hz).toEqual(r.frequencies.slice(1));
+      expect(drawn.every((y) => y !== null)).toBe(true);
+      expect(relDiff(drawn as number[], r.amplitudes.slice(1))).toBeLessThan(1e-12);
+    }
+    expect(z.peakHz).toBe(ref[0]!.peak);
+    expect(z.noisePeakHz).toBe(ref[1]!.peak);
+    console.log(`spectrum of T00 read, computed and drawn in ${s.ms.toFixed(1)} ms; (Hz): ${s.components.map((c) => `${c.channel.split('.')[3]} peak ${c.peakHz.toFixed(2)}, noise peak ${c.noisePeakHz.toFixed(3)}, median signal/noise 1-20 Hz ${medianRatio(c, 1, 20).toFixed(0)}, 0.12-0.35 Hz ${medianRatio(c, 0.12, 0.35).toFixed(2)}`).join('; ')}`);
     expect(s.band).toEqual([1, 20]);
     // The pointer over a plot reads out the frequency and both amplitudes there.
     const plot = await app.page.locator('.spectrum-plot .u-over').first().boundingBox();

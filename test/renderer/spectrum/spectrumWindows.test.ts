@@ -1,54 +1,16 @@
 import { describe, expect, it } from 'vitest';
-import { execFileSync } from 'node:child_process';
 import {
   NOISE_GAP_MICROS, SPECTRUM_WINDOW, amplitudeUnits, channelSpectra, passBand, peakFrequency, runInSpan, spectrumSpans, type SamplePiece,
 } from '../../../renderer/spectrum/spectrumWindows';
 import { relDiff, testSignal } from '../../core/dsp/signals';
+import { numpySpanSpectra } from '../../ref/scipy/spectrumPanelReference';
 
-// Reference: numpy 2.4 and scipy 1.17.1 in python3 (the script below). numpy picks the samples of a
-// span by their times (start + round(i·1e6/rate) µs, kept where start <= t < end, the piece with most
-// samples there), and gives the spectrum the panel draws as
+// Reference: numpy 2.4 and scipy 1.17.1 in python3 (test/ref/scipy/spectrum_panel_reference.py): numpy
+// picks the samples of a span by their times (start + round(i·1e6/rate) µs, kept where start <= t < end,
+// the piece with most samples there), and gives the spectrum the panel draws as
 //   c·|numpy.fft.rfft((x − mean(x))·w, n=N)| / Σw,  w = scipy.signal.get_window('hann', len(x)) (periodic),
 // N the next power of two >= len(x), c = 2 except 1 at 0 Hz and N/2; and the frequency of its largest
 // amplitude above 0 Hz (numpy.argmax). Only the inputs below are made up here.
-const SCRIPT = String.raw`
-import json, sys
-import numpy as np
-from scipy import signal
-cases = json.load(sys.stdin)
-out = []
-for c in cases:
-    best = None
-    for p in c["pieces"]:
-        x = np.asarray(p["samples"], dtype=np.float32).astype(np.float64)
-        t = p["start"] + np.round(np.arange(len(x)) * 1e6 / p["rate"])
-        sel = x[(t >= c["span"][0]) & (t < c["span"][1])]
-        if len(sel) >= 2 and (best is None or len(sel) > len(best[0])):
-            first = int(np.argmax(t >= c["span"][0]))
-            best = (sel, p["rate"], float(t[first]))
-    if best is None:
-        out.append(None)
-        continue
-    x, rate, t0 = best
-    n = len(x)
-    N = 2
-    while N < n:
-        N *= 2
-    w = signal.get_window("hann", n, fftbins=True)
-    a = np.abs(np.fft.rfft((x - x.mean()) * w, n=N)) / w.sum()
-    a[1:-1] *= 2
-    f = np.fft.rfftfreq(N, 1.0 / rate)
-    k = 1 + int(np.argmax(a[1:]))
-    out.append({"n": n, "N": N, "start": t0, "amplitudes": a.tolist(), "frequencies": f.tolist(), "peak": float(f[k])})
-json.dump(out, sys.stdout)
-`;
-
-interface Ref { n: number; N: number; start: number; amplitudes: number[]; frequencies: number[]; peak: number }
-
-function numpyReference(cases: { pieces: SamplePiece[]; span: [number, number] }[]): (Ref | null)[] {
-  const input = JSON.stringify(cases.map((c) => ({ span: c.span, pieces: c.pieces.map((p) => ({ start: p.start, rate: p.sampleRate, samples: Array.from(p.samples) })) })));
-  return JSON.parse(execFileSync('python3', ['-c', SCRIPT], { input, maxBuffer: 1 << 28 }).toString()) as (Ref | null)[];
-}
 
 const T0 = 1_772_409_600_000_000; // 2026-03-02T00:00:00Z, µs
 /** A 100 Hz channel in two pieces with a 3.2 s gap: 0-60 s and 63.2-120 s after T0 (float32 as the data workers send them). */
@@ -69,7 +31,7 @@ const cases = [
   { pieces: piece40, span: [T0 + 10_000_000, T0 + 33_330_000] as [number, number] },
   { pieces, span: [T0 + 60_500_000, T0 + 63_000_000] as [number, number] },
 ];
-const ref = numpyReference(cases);
+const ref = numpySpanSpectra(cases);
 
 describe('spectrumWindows', () => {
   it('spectrumSpans gives a noise span as long as the signal span, ending 0.5 s before the first pick', () => {
