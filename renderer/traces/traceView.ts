@@ -86,6 +86,8 @@ export class TraceView {
   private readonly selectBox: HTMLDivElement;
   private traceColour = '#ccc';
   private resizeObserver: ResizeObserver;
+  /** Redraws in the new colours when the theme (the root element's data-theme) changes. */
+  private readonly themeObserver = new MutationObserver(() => this.themeChanged());
   private lastPointer: { x: number; y: number } | null = null;
 
   constructor(container: HTMLElement, opts: TraceViewOptions = {}) {
@@ -108,10 +110,27 @@ export class TraceView {
     this.resizeObserver = new ResizeObserver(() => { this.box = null; this.rebuildAxis(); this.schedule(true); });
     this.resizeObserver.observe(this.root);
     this.resizeObserver.observe(this.scroller);
+    this.themeObserver.observe(document.documentElement, { attributes: true, attributeFilter: ['data-theme'] });
+  }
+
+  /**
+   * The theme changed: the plots took their colours when they were made, so they are made again
+   * (with the axis) from the new theme's values and every row in view is drawn again.
+   */
+  private themeChanged(): void {
+    this.traceColour = getComputedStyle(this.root).getPropertyValue('--trace').trim() || '#ccc';
+    for (const s of this.slots) {
+      s.plot?.destroy();
+      s.plot = null;
+      s.drawn = null;
+    }
+    this.rebuildAxis();
+    this.drawNow(true);
   }
 
   destroy(): void {
     this.resizeObserver.disconnect();
+    this.themeObserver.disconnect();
     for (const s of this.slots) s.plot?.destroy();
     this.axis?.destroy();
     this.root.remove();
