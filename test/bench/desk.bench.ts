@@ -35,7 +35,7 @@ import { DEMO_COMPLETE_MARKER } from '../../electron/host/service';
 const repo = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
 const demo = join(repo, 'samples', 'generated');
 
-interface Timings { readMs: number; locateWaitMs?: number; drawMs: number; drawnAt?: number; rows: number; channels: number; allMs?: number; rowsDrawMs?: number; complete?: boolean }
+interface Timings { readMs: number; locateWaitMs?: number; drawMs: number; drawnAt?: number; window?: { filterMs: number[]; packMs: number[] }; rows: number; channels: number; allMs?: number; rowsDrawMs?: number; complete?: boolean }
 interface View { x0: number; x1: number; timings: Timings; openMs: number; overviewMs: number; frameMs: number }
 
 const med = (a: number[]) => [...a].sort((x, y) => x - y)[a.length >> 1];
@@ -228,11 +228,15 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
       }
     }
     const refilter: number[] = [];
+    const workerFilter: number[] = [];
+    const workerPack: number[] = [];
     const refilterAll: number[] = [];
     for (const key of ['3', '2', '4', '2', '3', '5', '2']) {
       await page.keyboard.press(key);
       last = await untilLoaded(page, last);
       refilter.push(last.readMs + last.drawMs);
+      workerFilter.push(Math.max(0, ...(last.window?.filterMs ?? [])));
+      workerPack.push(Math.max(0, ...(last.window?.packMs ?? [])));
       refilterAll.push(last.allMs ?? NaN);
       split(last, rparts);
       await page.waitForTimeout(100);
@@ -278,6 +282,8 @@ async function networkFigures(sites: number, budgetOpen: number, folder: string)
     row('  ... until every row is loaded', all, null);
     row('re-filter: until the rows in view are drawn again', refilter, 50);
     row('  of which: filter them (workers)', rparts.read, null);
+    row('    (in the slowest worker: filtering)', workerFilter, null);
+    row('    (in the slowest worker: trimming and pyramids)', workerPack, null);
     row('  of which: drawing them, until painted', rparts.paint, null);
     row('    (the drawing work itself)', rparts.draw, null);
     row('  ... until every row is filtered', refilterAll, null);
