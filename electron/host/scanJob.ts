@@ -160,7 +160,18 @@ export class ScanJobs {
     return readFile(job.output, 'utf8');
   }
 
+  /**
+   * Kills every running scan as the app quits, and removes at once any temporary output each left
+   * (no 'close' event may come before the app's own exit).
+   */
   stopAll(): void {
-    for (const j of this.jobs.values()) j.child?.kill();
+    for (const j of this.jobs.values()) {
+      const child = j.child;
+      if (!child) continue;
+      child.kill();
+      if (child.pid !== undefined) {
+        try { unlinkSync(atomicTempPath(j.output, child.pid)); } catch { /* none was left */ }
+      }
+    }
   }
 }

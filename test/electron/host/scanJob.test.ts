@@ -94,6 +94,19 @@ describe('the desk\'s background scan job (daybreak scan as a child process)', (
     return { jobs, out };
   }
 
+  /**
+   * A stand-in stopped inside daybreak scan's atomic write (writeAtomically): its temporary file
+   * written in the output folder `name`, the rename not yet done.
+   */
+  function stuckInWrite(name: string): string {
+    const tmpFor = atomicTempPath(join(dir, name, SCAN_OUTPUT_NAME), 999_999_999);
+    return `
+import { writeFileSync } from 'node:fs';
+writeFileSync(${JSON.stringify(tmpFor)}.replace('999999999', String(process.pid)), '<q:quakeml>half');
+process.stderr.write('progress 1.0000 writing\\n');
+setTimeout(() => {}, 60_000);`;
+  }
+
   /** The first status of `jobs` that is no longer running. */
   async function settled(jobs: ScanJobs): Promise<ScanStatus> {
     return (await pollUntil(jobs, data, (s) => s.state !== 'running')).at(-1)!;
@@ -149,18 +162,22 @@ setTimeout(() => process.exit(0), 400);`, 'previous scan\n');
   it('removes the temporary file of a scan killed while writing its output, and leaves the previous output', async () => {
     // As daybreak scan's atomic write: the whole text into the temporary file, then a rename; the
     // cancel's SIGTERM lands between the two.
-    const tmpFor = atomicTempPath(join(dir, 'mid-write', SCAN_OUTPUT_NAME), 999_999_999);
-    const { jobs, out } = startFake('mid-write', `
-import { writeFileSync } from 'node:fs';
-writeFileSync(${JSON.stringify(tmpFor)}.replace('999999999', String(process.pid)), '<q:quakeml>half');
-process.stderr.write('progress 1.0000 writing\\n');
-setTimeout(() => {}, 60_000);`, 'previous scan\n');
+    const { jobs, out } = startFake('mid-write', stuckInWrite('mid-write'), 'previous scan\n');
     await pollUntil(jobs, data, (s) => s.fraction === 1);
     expect(readdirSync(out).length).toBe(2);
     jobs.cancel(data);
     expect((await settled(jobs)).state).toBe('cancelled');
     expect(readdirSync(out)).toEqual([SCAN_OUTPUT_NAME]);
     expect(readFileSync(join(out, SCAN_OUTPUT_NAME), 'utf8')).toBe('previous scan\n');
+  }, 30_000);
+
+  it('stopAll (the app quitting) kills the scan and removes its temporary output at once', async () => {
+    const { jobs, out } = startFake('quit', stuckInWrite('quit'), 'previous scan\n');
+    await pollUntil(jobs, data, (s) => s.fraction === 1);
+    expect(readdirSync(out).length).toBe(2);
+    jobs.stopAll();
+    expect(readdirSync(out)).toEqual([SCAN_OUTPUT_NAME]);
+    expect((await settled(jobs)).state).toBe('failed');
   }, 30_000);
 
   it('kills a cancelled scan that does not end on SIGTERM once its grace time is over', async () => {
