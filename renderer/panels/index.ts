@@ -128,22 +128,31 @@ export class EventPanels {
       const had = this.known.get(event);
       if (had && had.sites === sites && had.model === model) continue;
       const result = this.locator.panelsLater(event, sites, model, this.options.locate);
-      this.known.set(event, { sites, model, result });
-      result.catch(() => { if (this.known.get(event)?.result === result) this.known.delete(event); });
+      const entry = { sites, model, result, answered: false };
+      this.known.set(event, entry);
+      result.then(() => { entry.answered = true; }, () => { if (this.known.get(event) === entry) this.known.delete(event); });
     }
   }
 
   /** Locations asked for, by event object, with the sites and model they were asked with. */
-  private readonly known = new WeakMap<ReviewEvent, { sites: ReadonlyMap<string, SiteLocation>; model: VelocityModel; result: Promise<{ value: EventLocation; ms: number }> }>();
+  private readonly known = new WeakMap<ReviewEvent, {
+    sites: ReadonlyMap<string, SiteLocation>; model: VelocityModel; result: Promise<{ value: EventLocation; ms: number }>;
+    /** Whether the worker has answered (a located-ahead job may still wait behind the list's). */
+    answered: boolean;
+  }>();
 
-  /** The event's location: one asked for before with the same sites and model, else a new panels job. */
+  /**
+   * The event's location: the answer to one asked for before with the same sites and model, else a
+   * new panels job (also when one asked ahead still waits: it may be queued behind the list's jobs).
+   */
   private located(event: ReviewEvent, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel): Promise<{ value: EventLocation; ms: number }> {
     const had = this.known.get(event);
-    if (had && had.sites === sites && had.model === model) return had.result.catch(() => this.located(event, sites, model));
+    if (had && had.answered && had.sites === sites && had.model === model) return had.result;
     const result = this.locator.panels(event, sites, model, this.options.locate);
-    this.known.set(event, { sites, model, result });
+    const entry = { sites, model, result, answered: false };
+    this.known.set(event, entry);
     // A job dropped for a newer one (or failed) is not kept: asked again if this event opens again.
-    result.catch(() => { if (this.known.get(event)?.result === result) this.known.delete(event); });
+    result.then(() => { entry.answered = true; }, () => { if (this.known.get(event) === entry) this.known.delete(event); });
     return result;
   }
 
@@ -151,7 +160,7 @@ export class EventPanels {
     let found: EventLocation | null = null;
     let locateMs = 0;
     const had = event ? this.known.get(event) : undefined;
-    const locatedBefore = !!had && had.sites === sites && had.model === model;
+    const locatedBefore = !!had && had.answered && had.sites === sites && had.model === model;
     if (event) {
       try {
         const r = await this.located(event, sites, model);
