@@ -404,8 +404,11 @@ export class Desk {
     const t0 = performance.now();
     // The open event's epicentre orders and limits them; it comes from the location worker, so the rows
     // in view are read meanwhile as the last solution drawn lays them out (renderer/panels/readWhileLocating).
-    const { layout, reply, waitMs } = await readWhileLocating(layoutFor(this.panels?.current ?? null),
-      (this.panels?.settled() ?? Promise.resolve(null)).then(layoutFor), (l) => channelsOf(l.head),
+    const drawnNow = this.panels?.current ?? null;
+    const guess = layoutFor(drawnNow);
+    const { layout, reply, waitMs } = await readWhileLocating(guess,
+      // (no newer solution on its way, e.g. a re-filter: the guess is the layout)
+      (this.panels?.settled() ?? Promise.resolve(null)).then((st) => (st === drawnNow ? guess : layoutFor(st))), (l) => channelsOf(l.head),
       (chs) => this.session.window(chs, start, end, preset.filter, this.zeroPhase));
     if (seq !== this.loadSeq) return;
     const { sheet, listed, blank, a, b } = layout;
