@@ -63,6 +63,13 @@ export abstract class CanvasPanel {
       if (w !== lastW) { lastW = w; this.draw(); }
     });
     this.resize.observe(this.root);
+    // The theme's colours are read at each draw: draw again when the theme changes (and stop
+    // watching once the panel has left the page).
+    const theme = new MutationObserver(() => {
+      if (this.root.isConnected) this.draw();
+      else theme.disconnect();
+    });
+    theme.observe(document.documentElement, { attributes: true, attributeFilter: ['data-theme'] });
   }
 
   /** The drawn site nearest to a point (CSS px of the canvas) within `radius` px, or null. */

@@ -20,9 +20,9 @@ async function cssColour(page: Page, name: string): Promise<[number, number, num
   }, name);
 }
 
-/** Pixels of the canvases under `selector` within 6 of `rgb` in every channel (opaque ones only). */
-async function pixelsNear(page: Page, selector: string, rgb: [number, number, number]): Promise<number> {
-  return page.locator(selector).evaluateAll((canvases, c) => {
+/** Pixels of the canvases under `selector` within `tol` of `rgb` in every channel (opaque ones only). */
+async function pixelsNear(page: Page, selector: string, rgb: [number, number, number], tol = 6): Promise<number> {
+  return page.locator(selector).evaluateAll((canvases, [c, t]) => {
     let n = 0;
     for (const el of canvases) {
       const canvas = el as HTMLCanvasElement;
@@ -30,11 +30,11 @@ async function pixelsNear(page: Page, selector: string, rgb: [number, number, nu
       if (!g || canvas.width === 0 || canvas.height === 0) continue;
       const d = g.getImageData(0, 0, canvas.width, canvas.height).data;
       for (let o = 0; o < d.length; o += 4) {
-        if (d[o + 3] === 255 && Math.abs(d[o] - c[0]) <= 6 && Math.abs(d[o + 1] - c[1]) <= 6 && Math.abs(d[o + 2] - c[2]) <= 6) n++;
+        if (d[o + 3] === 255 && Math.abs(d[o] - c[0]) <= t && Math.abs(d[o + 1] - c[1]) <= t && Math.abs(d[o + 2] - c[2]) <= t) n++;
       }
     }
     return n;
-  }, rgb);
+  }, [rgb, tol] as const);
 }
 
 // Generated data (core/synth, invented): the small five-site night of the scan tests.
@@ -50,10 +50,12 @@ describe('switching the theme redraws what is on screen in the new colours (Chro
   }, 120_000);
   afterAll(async () => { await app?.close(); });
 
-  it('draws the traces in the light theme\'s trace colour after the switch, and none in the dark one\'s', async () => {
+  it('draws the traces and the side panels in the light theme\'s colours after the switch, and none in the dark one\'s', async () => {
     const page = app.page;
     expect(await page.evaluate(() => document.documentElement.dataset.theme)).toBe('dark');
     const dark = await cssColour(page, '--trace');
+    // style.css's dark --panel, #1f2228, is what the panels are filled with before the switch.
+    expect(await cssColour(page, '--panel')).toEqual([0x1f, 0x22, 0x28]);
     expect(await pixelsNear(page, '.trace-plot canvas', dark)).toBeGreaterThan(100);
     await page.getByRole('button', { name: 'Theme' }).click();
     await page.waitForTimeout(500);
@@ -62,6 +64,13 @@ describe('switching the theme redraws what is on screen in the new colours (Chro
     expect(light).not.toEqual(dark);
     expect(await pixelsNear(page, '.trace-plot canvas', light)).toBeGreaterThan(100);
     expect(await pixelsNear(page, '.trace-plot canvas', dark)).toBe(0);
+    // The side panels (plan view, residuals, Wadati) fill with the theme's panel colour.
+    const darkPanel: [number, number, number] = [0x1f, 0x22, 0x28];
+    const lightPanel = await cssColour(page, '--panel');
+    expect(lightPanel).not.toEqual(darkPanel);
+    expect(await pixelsNear(page, '.db-panel-canvas', lightPanel)).toBeGreaterThan(1000);
+    // Exactly (the light theme's text, #22252b, lies within a few units of the dark panel colour).
+    expect(await pixelsNear(page, '.db-panel-canvas', darkPanel, 0)).toBe(0);
     await page.screenshot({ path: screenshotPath('theme-light') });
     // And back.
     await page.getByRole('button', { name: 'Theme' }).click();
