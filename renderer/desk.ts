@@ -401,11 +401,11 @@ export class Desk {
       const [a, b] = this.traces!.rowsInView(blank);
       return { sheet, listed, blank, a, b, head: a < 0 ? listed : listed.slice(a, b + 1) };
     };
-    const t0 = performance.now();
     // The open event's epicentre orders and limits them; it comes from the location worker, so the rows
     // in view are read meanwhile as the last solution drawn lays them out (renderer/panels/readWhileLocating).
     const drawnNow = this.panels?.current ?? null;
     const guess = layoutFor(drawnNow);
+    const t0 = performance.now();
     const { layout, reply, waitMs } = await readWhileLocating(guess,
       // (no newer solution on its way, e.g. a re-filter: the guess is the layout)
       (this.panels?.settled() ?? Promise.resolve(null)).then((st) => (st === drawnNow ? guess : layoutFor(st))), (l) => channelsOf(l.head),
