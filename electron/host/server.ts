@@ -13,7 +13,12 @@ import { BINARY_RESPONSES, HOST_REQUEST_NAMES, type HostRequestName } from '../c
 import type { HostService } from './service';
 
 export const TOKEN_HEADER = 'x-daybreak-token';
-const MAX_BODY_BYTES = 1 << 20;
+/**
+ * Largest request body, bytes. A whole review file (review.save) or export (export.write) travels in
+ * one request: a night of a few hundred events at 60 sites is several MB, so the bound only stops a
+ * runaway, not real work (it was 1 MiB, which refused such saves and exports).
+ */
+const MAX_BODY_BYTES = 256 * 1024 * 1024;
 
 /** The Content-Security-Policy of every page: only this origin, no inline script, no remote anything. */
 export const CONTENT_SECURITY_POLICY = [
@@ -158,7 +163,7 @@ function readBody(req: IncomingMessage): Promise<string> {
     req.on('data', (c: Buffer) => {
       size += c.length;
       if (size > MAX_BODY_BYTES) {
-        fail(new Error(`over ${MAX_BODY_BYTES} bytes`));
+        fail(new Error(`over ${MAX_BODY_BYTES / 1048576} MiB`));
         req.destroy();
       } else chunks.push(c);
     });

@@ -147,6 +147,14 @@ describe('browser-mode server', () => {
     expect(bad).toMatchObject({ ok: false, code: 'bad-request' });
   });
 
+  it('takes a large export or review in one request (6 MB: a night of hundreds of events at 60 sites)', async () => {
+    await api('dataset.open', { root: dataRoot });
+    const content = `<q>${'x'.repeat(6_000_000)}</q>`;
+    const r = JSON.parse((await api('export.write', { root: dataRoot, name: 'big.xml', content })).body.toString());
+    expect(r).toMatchObject({ ok: true });
+    expect(readFileSync(r.value.path, 'utf8').length).toBe(content.length);
+  });
+
   it('keeps settings in the user folder and refuses a bad authority or scan preset', async () => {
     expect(JSON.parse((await api('settings.get', {})).body.toString()).value).toEqual({ analyst: '', agency: '', authority: 'daybreak.local', scanPreset: 'auto' });
     const set = JSON.parse((await api('settings.set', { analyst: 'J. Doe', agency: 'XX' })).body.toString());
