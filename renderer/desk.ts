@@ -503,6 +503,7 @@ export class Desk {
       return;
     }
     if (seq !== this.magnitudeSeq) return;
+    this.measures.record(ev, loc, r.value?.magnitude?.mag ?? null);
     this.magnitude = r.value;
     this.magnitudeShownFor = ev;
     this.magnitudeMs = r.ms;
@@ -606,6 +607,8 @@ export class Desk {
     const ev = located.event;
     if (ev !== this.currentEv()) return;
     if (located.location && !located.location.ok && ev && ev.picks.length > 0) this.setStatus(`not located: ${located.location.message}`);
+    // The list shows the open event's RMS (and its ML once known) without locating it again.
+    if (ev && located.location) this.measures.record(ev, located.location.ok ? located.location.value : null);
     if (this.rotation.setEpicentre(located.location?.ok ? located.location.value.hypocentre : null)) this.showRotation();
     // The magnitude follows the event's picks (not selection changes): same event object, no work.
     if (ev !== this.magnitudeFor) {

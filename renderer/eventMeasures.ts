@@ -50,6 +50,21 @@ export class EventMeasures {
     if (!this.running && this.queue.length) void this.run();
   }
 
+  /**
+   * Takes what the desk worked out for the open event anyway (its location for the panels, its ML
+   * for the event bar), so the list shows them without measuring the event again. `ml` undefined:
+   * not known yet (the location alone is recorded).
+   */
+  record(ev: ReviewEvent, location: ReviewLocation | null, ml?: number | null): void {
+    const had = this.known.get(ev);
+    const k: Known = ml === undefined
+      ? { location, ml: had?.location === location ? had.ml : null, mlDone: had?.location === location ? had.mlDone : false }
+      : { location, ml: location ? ml : null, mlDone: true };
+    if (had && had.location === k.location && had.ml === k.ml && had.mlDone === k.mlDone) return;
+    this.known.set(ev, k);
+    this.changed();
+  }
+
   /** Number of events waiting to be measured. */
   get pending(): number {
     return this.queue.length;

@@ -187,6 +187,19 @@ describe('event list order and the sheet\'s distance limit (Chromium, browser mo
     await page().locator('select.state-filter').selectOption('all');
   });
 
+  it('shows the open event\'s RMS and ML in the list as its panels and event bar give them, without a sort asking for them', async () => {
+    await page().locator('select.sort-key').selectOption('time');
+    const ev = eventOf(2);
+    await openEvent(ev);
+    await expect.poll(async () => ((await page().evaluate('window.daybreakMagnitude()')) as { event: string | null } | null)?.event, { timeout: 30_000 }).toBe(ev.id);
+    const shown = (await page().evaluate('window.daybreakView()')) as { panels: { location: { ok: boolean; value: { hypocentre: { rmsS: number } } } } };
+    const m = (await page().evaluate('window.daybreakMagnitude()')) as { ml: number | null };
+    expect(m.ml).not.toBeNull();
+    await expect.poll(async () => (await listed()).find((r) => r.id === ev.id)?.ml, { timeout: 10_000 }).toBe(String(m.ml));
+    const row = (await listed()).find((r) => r.id === ev.id)!;
+    expect(Number(row.rms)).toBe(shown.panels.location.value.hypocentre.rmsS);
+  });
+
   it('sorts by location RMS once measured, largest first, with events that cannot be located last', async () => {
     await page().locator('select.sort-key').selectOption('rms');
     const model = parseVelocityModel(readFileSync(join(data, 'model.json'), 'utf8'), 'model.json');
