@@ -108,6 +108,8 @@ export class Desk {
   private readonly noteField = new NoteField((id, text) => { this.apply((d) => setNote(d, id, text)); });
   private model: VelocityModel = DEFAULT_MODEL;
   private modelName = 'default-model';
+  /** The model as the location summary names it (the file, or the built-in one and why). */
+  private modelLabel = 'built-in crustal model (no model file in the folder)';
   private saver: ReviewSaver | null = null;
   private readOnly = false;
   private currentEvent: string | null = null;
@@ -148,8 +150,10 @@ export class Desk {
       try {
         this.model = parseVelocityModel(new TextDecoder().decode(mr.value), mf.path);
         this.modelName = mf.path.replace(/[^\w.\-]/g, '_');
+        this.modelLabel = mf.path;
       } catch (e) {
         this.setStatus(`${e instanceof Error ? e.message : e}; using the default model`);
+        this.modelLabel = `built-in crustal model (${mf.path} unreadable)`;
       }
     }
     this.build();
@@ -237,7 +241,7 @@ export class Desk {
     const traceHost = el('div', { className: 'trace-host' });
     const side = el('aside', { className: 'event-side' });
     this.sheetHost.replaceChildren(toolbar, el('div', { className: 'sheet-body' }, traceHost, side));
-    this.panels = new EventPanels(side, { onHover: (site) => this.traces?.highlightRow(site), locator: this.locator });
+    this.panels = new EventPanels(side, { onHover: (site) => this.traces?.highlightRow(site), locator: this.locator, modelLabel: () => this.modelLabel });
     traceHost.addEventListener('pointermove', () => this.panels?.highlight(this.traces?.pointer()?.row.key ?? null));
     traceHost.addEventListener('pointerleave', () => this.panels?.highlight(null));
     this.sheetHost.dataset.filter = String(this.filterIndex);

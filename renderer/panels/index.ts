@@ -41,6 +41,8 @@ export interface EventPanelsOptions {
   locate?: ReviewLocateOptions;
   /** The worker that locates (default: one of the panels' own). */
   locator?: LocationWorker;
+  /** Which velocity model the location uses, said under the solution (e.g. the file's name). */
+  modelLabel?: () => string;
 }
 
 /** What update() found, for the desk's status line and the QuakeML origin. */
@@ -205,7 +207,7 @@ export class EventPanels {
       order, highlight: this.highlighted, rmsS: h ? h.rmsS : null,
     });
     this.wadati.set({ result: wadati, locatedOrigin: h ? h.originTime : null, highlight: this.highlighted });
-    this.summary.replaceChildren(...summaryLines(event, location));
+    this.summary.replaceChildren(...summaryLines(event, location, this.options.modelLabel?.() ?? null));
     this.summary.classList.toggle('failed', !!location && !location.ok);
   }
 
@@ -260,7 +262,7 @@ export class EventPanels {
   }
 }
 
-function summaryLines(event: ReviewEvent | null, r: ReviewLocateResult | null): HTMLElement[] {
+function summaryLines(event: ReviewEvent | null, r: ReviewLocateResult | null, model: string | null): HTMLElement[] {
   const line = (cls: string, text: string) => Object.assign(document.createElement('div'), { className: cls, textContent: text });
   if (!event || !r) return [line('db-muted', 'No event open')];
   if (!r.ok) return [line('db-fail', `Not located: ${r.message}`)];
@@ -278,6 +280,7 @@ function summaryLines(event: ReviewEvent | null, r: ReviewLocateResult | null): 
     out.push(line('db-muted', `ellipse ${km(h.ellipse.semiMajorKm)} \u00d7 ${km(h.ellipse.semiMinorKm)} (68 %)`));
   }
   if (r.value.skipped.length) out.push(line('db-warn', `${r.value.skipped.length} picks at sites without coordinates`));
+  if (model) out.push(line('db-muted model-used', `model: ${model}`));
   return out;
 }
 

@@ -198,6 +198,8 @@ describe('event list order and the sheet\'s distance limit (Chromium, browser mo
     await expect.poll(async () => (await listed()).find((r) => r.id === ev.id)?.ml, { timeout: 10_000 }).toBe(String(m.ml));
     const row = (await listed()).find((r) => r.id === ev.id)!;
     expect(Number(row.rms)).toBe(shown.panels.location.value.hypocentre.rmsS);
+    // The dataset's own model file is the one used, and the location summary says so.
+    expect(await page().locator('.db-panels-summary .model-used').textContent()).toBe('model: model.json');
   });
 
   it('sorts by location RMS once measured, largest first, with events that cannot be located last', async () => {

@@ -64,6 +64,9 @@ describe('review desk on the real microseismic records (Chromium, browser mode)'
       return autoP.some((p) => p.channel.split('.')[1] === c[4] && Math.abs(microsFromIso(p.time) - t) <= 20_000);
     }).length;
     expect(within / manual.length).toBeGreaterThanOrEqual(0.8);
+    // The folder has no velocity model: the location summary says which one it used instead.
+    await expect.poll(() => app.page.locator('.db-panels-summary .model-used').textContent(), { timeout: 30_000 })
+      .toBe('model: built-in crustal model (no model file in the folder)');
     expect(errors).toEqual([]);
   }, 120_000);
 });
