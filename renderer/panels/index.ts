@@ -356,6 +356,12 @@ async function panelsDemo(input: PanelsDemoInput) {
     beforeDrawn: older ? ((await older) === null ? null : 'drawn') : undefined,
     drawnEvent: demo.panels.current.event?.id ?? null,
     summary: demo.panels.root.querySelector('.db-panels-summary')?.textContent ?? '',
+    planCaption: demo.panels.plan.root.querySelector('.db-panel-caption')?.textContent ?? '',
+    labels: {
+      shown: demo.panels.plan.labelBoxes.length,
+      hidden: demo.panels.plan.hiddenLabels,
+      overlapping: demo.panels.plan.labelBoxes.filter((a, i) => demo!.panels.plan.labelBoxes.some((b, j) => j !== i && a.x0 < b.x1 && a.x1 > b.x0 && a.y0 < b.y1 && a.y1 > b.y0)).length,
+    },
     spots,
     column: box(demo.panels.root),
     hovered: demo.hovered,

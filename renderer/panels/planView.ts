@@ -43,6 +43,10 @@ const HIT_PX = 10;
 
 export class PlanView extends CanvasPanel {
   private input: PlanInput = EMPTY;
+  /** Site names left out of the last drawing because they would have covered others. */
+  hiddenLabels = 0;
+  /** Where the last drawing put site names (CSS px of the canvas), for tests. */
+  labelBoxes: readonly { x0: number; x1: number; y0: number; y1: number }[] = [];
 
   constructor(container: HTMLElement, options: PlanViewOptions = {}) {
     super(container, 'Plan view', 'db-plan', options.onHover);
@@ -171,7 +175,7 @@ export class PlanView extends CanvasPanel {
     // sites
     ctx.textAlign = 'left';
     ctx.textBaseline = 'middle';
-    const drawSite = (p: (typeof st)[number], isFocus: boolean) => {
+    const drawMarker = (p: (typeof st)[number], isFocus: boolean) => {
       const x = X(p.e);
       const y = Y(p.n);
       this.spots.push({ site: p.s.site, x, y });
@@ -186,10 +190,29 @@ export class PlanView extends CanvasPanel {
       ctx.strokeStyle = isFocus ? th.text : p.s.picked ? th.sky : th.muted;
       ctx.lineWidth = isFocus ? 1.5 : 1.2;
       ctx.stroke();
+    };
+    // Labels after all markers, most wanted first (the site under the pointer, then sites with picks),
+    // each on the right of its marker or else on the left, and left out where it would cover a label
+    // already drawn or another site's marker (a site with picks may cover the marker of one without):
+    // with many sites the names stay readable and the pointer names any site.
+    const placed: { x0: number; x1: number; y0: number; y1: number }[] = [];
+    const markers = st.map((p) => ({ site: p.s.site, picked: p.s.picked, x: X(p.e), y: Y(p.n) }));
+    let hidden = 0;
+    const drawLabel = (p: (typeof st)[number], isFocus: boolean) => {
+      const x = X(p.e);
+      const y = Y(p.n);
+      const r = isFocus ? 7 : 5;
       const label = p.s.site.split('.')[1] ?? p.s.site;
       ctx.font = `${isFocus ? 'bold ' : ''}10px ${th.font}`;
       const tw = ctx.measureText(label).width;
-      const lx = x + r + 2 + tw > W - 2 ? x - r - 2 - tw : x + r + 2;
+      const free = (lx: number) => lx >= 0 && lx + tw <= W
+        && !placed.some((b) => lx - 1 < b.x1 && lx + tw + 1 > b.x0 && y - 6 < b.y1 && y + 6 > b.y0)
+        && !markers.some((m) => m.site !== p.s.site && (m.picked || !p.s.picked) && lx - 1 < m.x + 5 && lx + tw + 1 > m.x - 5 && y - 6 < m.y + 4 && y + 6 > m.y - 5);
+      const right = x + r + 2;
+      const left = x - r - 2 - tw;
+      const lx = free(right) ? right : free(left) ? left : isFocus ? (right + tw > W - 2 ? left : right) : null;
+      if (lx === null) { hidden++; return; }
+      placed.push({ x0: lx - 1, x1: lx + tw + 1, y0: y - 6, y1: y + 6 });
       ctx.fillStyle = th.panel;
       ctx.globalAlpha = 0.7;
       ctx.fillRect(lx - 1, y - 6, tw + 2, 12);
@@ -197,9 +220,14 @@ export class PlanView extends CanvasPanel {
       ctx.fillStyle = isFocus ? th.text : p.s.picked ? th.text : th.muted;
       ctx.fillText(label, lx, y);
     };
-    for (const p of st) if (p.s.site !== focus) drawSite(p, false);
+    for (const p of st) if (p.s.site !== focus) drawMarker(p, false);
     const f = st.find((p) => p.s.site === focus);
-    if (f) drawSite(f, true);
+    if (f) drawMarker(f, true);
+    if (f) drawLabel(f, true);
+    for (const p of st) if (p !== f && p.s.picked) drawLabel(p, false);
+    for (const p of st) if (p !== f && !p.s.picked) drawLabel(p, false);
+    this.hiddenLabels = hidden;
+    this.labelBoxes = placed;
     ctx.restore();
     ctx.font = `11px ${th.font}`;
     ctx.textBaseline = 'alphabetic';
@@ -227,7 +255,8 @@ export class PlanView extends CanvasPanel {
 
     const o = origin ? `epicentre ${origin.latDeg.toFixed(4)}\u00b0, ${origin.lonDeg.toFixed(4)}\u00b0` : 'not located';
     const el = ellipse && origin ? ` \u00b7 68 % ellipse ${fmtKm(ellipse.semiMajorKm)} \u00d7 ${fmtKm(ellipse.semiMinorKm)}` : '';
-    this.caption.textContent = `${o}${el}${circles.length ? ` \u00b7 ${circles.length} S\u2212P circles` : ''}`;
+    const names = this.hiddenLabels ? ` \u00b7 ${this.hiddenLabels} names hidden (point at a site)` : '';
+    this.caption.textContent = `${o}${el}${circles.length ? ` \u00b7 ${circles.length} S\u2212P circles` : ''}${names}`;
   }
 }
 

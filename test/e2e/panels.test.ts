@@ -142,8 +142,37 @@ describe('event panels: plan view, residuals and Wadati diagram (Chromium, brows
     const dH8 = pred.get('XX.H8')!.distanceKm;
     expect(pred.get('XX.H8')!.p - T0).toBe(Math.round(firstArrival(model, 'P', dH8, 9, 0.3).time * 1e6));
     for (const ms of Object.values(out.drawMs)) expect(ms).toBeLessThan(5);
+    // Eight sites tens of km apart: every name shown, none over another.
+    expect(out.labels).toEqual({ shown: 8, hidden: 0, overlapping: 0 });
+    expect(out.planCaption).not.toMatch(/names hidden/);
     console.log(`km network: locate ${out.locateMs.toFixed(2)} ms (warm ${out.locateWarmMs.toFixed(2)} ms), redraw plan ${out.drawMs.plan.toFixed(2)} / residuals ${out.drawMs.residuals.toFixed(2)} / Wadati ${out.drawMs.wadati.toFixed(2)} ms`);
     await app.page.locator('.db-panels-demo').screenshot({ path: screenshotPath('panels-km-network-light') });
+  });
+
+  it('leaves out site names that would cover others on a dense network of 100 sites, and says how many', async () => {
+    // Geometry invented for the picture only: a 10 x 10 grid 2 km apart, P picked at 12 sites.
+    const proj = localProjection(46, 8);
+    const net = new Map<string, SiteLocation>();
+    for (let i = 0; i < 100; i++) {
+      const [lat, lon] = fromLocalKm(proj, 2 * (i % 10) - 9, 2 * Math.floor(i / 10) - 9);
+      net.set(`XX.N${String(i).padStart(2, '0')}`, { latitude: lat, longitude: lon, elevation: 300 });
+    }
+    const T0 = microsFromIso('2025-12-02T04:00:00.000000Z');
+    const [elat, elon] = fromLocalKm(proj, 1, 2);
+    const pred = predictedArrivals({ originTime: T0, latDeg: elat, lonDeg: elon, depthKm: 6 }, net, DEFAULT_MODEL);
+    const picks: ReviewPick[] = [...pred].filter((_, k) => k % 8 === 0).map(([site, a], k) => ({
+      id: `n${k}`, phase: 'P' as const, channel: `${site}.00.HHZ`, time: a.p, lower: 0.03, upper: 0.03, onset: 'impulsive' as const, polarity: null,
+      mode: 'manual' as const, status: 'confirmed' as const, snr: null, questionableTiming: false,
+    }));
+    expect(picks.length).toBe(13);
+    const event: ReviewEvent = { id: 'dense', source: 'analyst', start: T0, end: T0 + 60e6, state: 'started', type: null, typeCertainty: null, note: '', picks };
+    const out = await show({ event, sites: [...net], model: DEFAULT_MODEL, highlight: null, theme: 'dark' });
+    expect(out.ok).toBe(true);
+    expect(out.labels.overlapping).toBe(0);
+    expect(out.labels.shown + out.labels.hidden).toBe(100);
+    expect(out.labels.hidden).toBeGreaterThan(0);
+    expect(out.planCaption).toContain(`${out.labels.hidden} names hidden (point at a site)`);
+    await app.page.locator('.db-panels-demo').screenshot({ path: screenshotPath('panels-dense-network') });
   });
 
   it('draws only the newest of two updates asked for one after the other: the older answer is dropped, never drawn over it', async () => {
