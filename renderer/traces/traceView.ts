@@ -605,7 +605,12 @@ function labelContent(row: SiteRow): DocumentFragment {
   if (row.flags?.length) {
     const w = document.createElement('div');
     w.className = 'flags';
-    w.textContent = row.flags.map((x) => `\u25b2 ${x}`).join(' ');
+    // One warning per line, wrapped to the label's width (the row's tooltip lists them all too).
+    for (const x of row.flags) {
+      const line = document.createElement('div');
+      line.textContent = `\u25b2 ${x}`;
+      w.append(line);
+    }
     f.append(w);
   }
   return f;

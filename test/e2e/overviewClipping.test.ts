@@ -59,6 +59,13 @@ describe('the night overview marks clipped data (Chromium, browser mode)', () =>
     }, rows.length);
     expect(vermillionRows.map((r) => rows[r])).toEqual(['KIRN']);
     await app.page.screenshot({ path: screenshotPath('overview-clipping') });
+    // The sheet opened on the loudest moment: KIRN's row says which of its channels clipped there, one
+    // warning per line, none cut off at the label's edge.
+    const kirn = app.page.locator('.trace-row', { has: app.page.locator('.site', { hasText: 'KIRN' }) }).first();
+    const lines = await kirn.locator('.flags > div').evaluateAll((ds) => ds.map((d) => ({ text: d.textContent ?? '', cut: d.scrollWidth > d.clientWidth })));
+    expect(lines.length).toBeGreaterThan(0);
+    expect(lines.some((l) => /clipped in this window/.test(l.text))).toBe(true);
+    expect(lines.filter((l) => l.cut)).toEqual([]);
     expect(errors).toEqual([]);
   });
 });
