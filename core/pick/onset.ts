@@ -119,6 +119,9 @@ function timeAt(t: Trace, i: number): Micros {
   return t.start + Math.round((i * 1e6) / t.sampleRate);
 }
 
+/** RMS below which a horizontal counts as dead beside the other one (in pickS; a ratio of RMS). */
+const DEAD_RATIO = 1e-6;
+
 /** RMS of x[from..to) about `base`. */
 function rmsAbout(x: SampleArray, from: number, to: number, base: number): number {
   const n = to - from;
@@ -305,7 +308,17 @@ export function pickS(
   const n = to - from;
   const xn = sn.subarray(from, to);
   const xe = se.subarray(from + shift, to + shift);
-  const res = jointAic([xn, xe], 0, n);
+  // A dead horizontal (a digitiser stuck at one value) holds after filtering only the filter's dying
+  // start-up, many orders of magnitude below the other: its variance still changes by orders of
+  // magnitude along the window, which would pull the joint AIC, and its "SNR" means nothing. Such a
+  // channel (RMS under DEAD_RATIO of the other's: our own rule) is left out of the AIC and never named.
+  const rn = rmsAbout(xn, 0, n, 0);
+  const re = rmsAbout(xe, 0, n, 0);
+  const northDead = !(rn > DEAD_RATIO * re);
+  const eastDead = !(re > DEAD_RATIO * rn);
+  if (northDead && eastDead) return null;
+  const live = northDead ? [xe] : eastDead ? [xn] : [xn, xe];
+  const res = jointAic(live, 0, n);
   // Minimum restricted to the search range, up to the peak.
   let k = -1;
   let best = Infinity;
@@ -318,13 +331,13 @@ export function pickS(
     }
   }
   if (k < 0) return null;
-  const tau = 0.5 * (autocorrelationTime(xn, 0, Math.max(0, k - 1)) + autocorrelationTime(xe, 0, Math.max(0, k - 1)));
+  const tau = live.reduce((s, x) => s + autocorrelationTime(x, 0, Math.max(0, k - 1)), 0) / live.length;
   const [left, right] = minimumWidth(res.aic, k, o.aicLevel * tau);
   const lower = Math.max(left, 1) / fs;
   const upper = Math.max(right, 1) / fs;
   const mn = measureSnr(north.samples, from + k, Math.max(left, 1), fs, o);
   const me = measureSnr(east.samples, from + k + shift, Math.max(left, 1), fs, o);
-  const useNorth = mn.snr >= me.snr;
+  const useNorth = eastDead || (!northDead && mn.snr >= me.snr);
   const snr = useNorth ? mn.snr : me.snr;
   const trace = useNorth ? north : east;
   return {

@@ -5,6 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { readMiniSeedBuffer } from '../../../core/mseed';
 import type { ChannelData } from '../../../core/model';
 import { firstMotion, pickP, pickS, pickStation, sWindow } from '../../../core/pick/onset';
+import { butterworth, sosfilt } from '../../../core/dsp';
 import { NEAR_FIELD_MICROSEISMIC } from '../../../core/pick/presets';
 import { staLtaTriggers } from '../../../core/pick/staLta';
 import type { Pick, Trace } from '../../../core/pick/types';
@@ -191,6 +192,28 @@ describe('S onsets', () => {
       expect(pick).toMatchObject({ phaseHint: 'S', polarity: null, waveformId: E_ID, evaluationMode: 'automatic' });
       expect(pick.snr).toBeGreaterThan(3);
     }
+  });
+
+  it('never names S on a dead horizontal: one stuck at a constant, after a causal band-pass whose start-up is still dying away', () => {
+    // A digitiser channel stuck at -211 counts, filtered as the scan filters (Butterworth 2-15 Hz,
+    // order 4, started from rest at the window's start): its values are a decaying transient of no
+    // more than about 1e-12 counts by the S window, whose ratio of "signal" to "noise" can be anything.
+    const sos = butterworth(4, [2, 15], 'bandpass', FS);
+    let named = 0;
+    for (let c = 0; c < s3.length; c += 4) {
+      const [p, s] = s3[c];
+      const tp = T0 + p * 10_000;
+      const dead = sosfilt(sos, new Float64Array(s3[c + 3].length).fill(-211));
+      for (const [north, east, live] of [[trace(s3[c + 2], N_ID), trace(dead, E_ID), N_ID], [trace(dead, N_ID), trace(s3[c + 3], E_ID), E_ID]] as const) {
+        const pick = pickS(north, east, tp, { originTime: tp - 5_000_000 });
+        if (!pick) continue;
+        named++;
+        expect(pick.waveformId).toEqual(live);
+        // With the stronger horizontal (E: S twice N's) alive, S is still where it was.
+        if (live === E_ID) expect(Math.abs(pick.time - (T0 + s * 10_000))).toBeLessThanOrEqual(50_000);
+      }
+    }
+    expect(named).toBeGreaterThan(0);
   });
 
   it('with only an upper travel-time bound the S window starts after P, and S is still found (at least 90 % within 0.05 s)', () => {
