@@ -470,6 +470,10 @@ export class Desk {
     // A row tells of clipping in its own window only (the night's count is the overview's).
     const flags = this.siteFlags(s).filter((f) => !f.endsWith(' of the night'));
     for (const key of s.channels) if ((byKey.get(key) ?? []).some((p) => p.clipped)) flags.push(`${key.split('.')[3]} clipped in this window`);
+    for (const key of s.channels) {
+      const pieces = byKey.get(key) ?? [];
+      if (pieces.length && pieces.every((p) => p.flat)) flags.push(`${key.split('.')[3]} dead: one value throughout`);
+    }
     const where = [s.stream.split('.').slice(2).join('.'), x.distanceKm === null ? '' : `${x.distanceKm.toFixed(1)} km`].filter(Boolean).join(' \u00b7 ');
     return this.rotation.shown({ key: s.site, label: s.site.split('.')[1], detail: where || undefined, components: comps, flags });
   }

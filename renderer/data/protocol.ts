@@ -75,6 +75,11 @@ export interface WindowPiece {
   rawPeak: number;
   /** The raw samples sit flat at their peak for 4 samples or more: clipped. */
   clipped: boolean;
+  /**
+   * Every raw sample has one value (a dead channel): the filtered samples are then set to zero, as a
+   * constant filters to nothing, instead of the filter's dying start-up magnified by the scaling.
+   */
+  flat: boolean;
   /** Min/max pyramid of `samples` for drawing, built in the worker once per filter. */
   envelope: Envelope;
 }

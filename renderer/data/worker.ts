@@ -208,13 +208,17 @@ function trim(key: string, seg: Segment, values: Float64Array | null, start: num
   const src = values ?? seg.samples;
   const out = new Float32Array(i1 - i0);
   let rawPeak = 0;
+  const first = seg.samples[i0];
+  let flat = i1 - i0 > 1;
   for (let i = i0; i < i1; i++) {
     out[i - i0] = src[i];
     const r = Math.abs(seg.samples[i]);
     if (r > rawPeak) rawPeak = r;
+    if (seg.samples[i] !== first) flat = false;
   }
+  if (flat && values) out.fill(0);
   return {
-    key, start: sampleTime(seg, i0), sampleRate: rate, samples: out, rawPeak, clipped: looksClipped(seg.samples, i0, i1),
+    key, start: sampleTime(seg, i0), sampleRate: rate, samples: out, rawPeak, clipped: looksClipped(seg.samples, i0, i1), flat,
     envelope: buildEnvelope(out),
   };
 }

@@ -23,7 +23,11 @@ describe('the night overview marks clipped data (Chromium, browser mode)', () =>
     expect(stations).toHaveLength(4);
     const data = mkdtempSync(join(tmpdir(), 'daybreak-clipdata-'));
     await writeScenario(data, {
-      scenario: { ...demo, name: 'clipping check (invented)', stations, faults: [], events: [event], start: event.origin - 60_000_000, end: event.origin + 120_000_000 },
+      // BRAE's east component dead (stuck at one value), as in the demo night.
+      scenario: {
+        ...demo, name: 'clipping check (invented)', stations, faults: [{ kind: 'deadChannel', channel: 'XX.BRAE.00.HHE', value: -211 }],
+        events: [event], start: event.origin - 60_000_000, end: event.origin + 120_000_000,
+      },
     });
     truth = JSON.parse(readFileSync(join(data, 'truth.json'), 'utf8')) as Truth;
     const demoDir = mkdtempSync(join(tmpdir(), 'daybreak-demo-'));
@@ -66,6 +70,13 @@ describe('the night overview marks clipped data (Chromium, browser mode)', () =>
     expect(lines.length).toBeGreaterThan(0);
     expect(lines.some((l) => /clipped in this window/.test(l.text))).toBe(true);
     expect(lines.filter((l) => l.cut)).toEqual([]);
+    // The dead component is named as such (and is not taken for clipped), on its row only.
+    const deadRows = await app.page.locator('.trace-row').evaluateAll((rows) => rows
+      .filter((r) => /dead: one value throughout/.test(r.querySelector('.flags')?.textContent ?? ''))
+      .map((r) => r.querySelector('.site')?.textContent ?? ''));
+    expect(deadRows).toEqual(['BRAE']);
+    const brae = app.page.locator('.trace-row', { has: app.page.locator('.site', { hasText: 'BRAE' }) }).first();
+    expect(await brae.locator('.flags > div').allTextContents()).toEqual(['\u25b2 HHE dead: one value throughout']);
     expect(errors).toEqual([]);
   });
 });

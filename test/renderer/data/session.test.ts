@@ -31,7 +31,7 @@ describe('shareOut', () => {
 
 describe('piecesByChannel', () => {
   it('groups pieces by channel key in the order given', () => {
-    const piece = (key: string, start: number) => ({ key, start, sampleRate: 100, samples: new Float32Array(1), rawPeak: 0, clipped: false, envelope: { length: 1, levels: [] } }) as WindowPiece;
+    const piece = (key: string, start: number) => ({ key, start, sampleRate: 100, samples: new Float32Array(1), rawPeak: 0, clipped: false, flat: false, envelope: { length: 1, levels: [] } }) as WindowPiece;
     const m = piecesByChannel([piece('Z', 1), piece('N', 2), piece('Z', 3)]);
     expect([...m.keys()]).toEqual(['Z', 'N']);
     expect(m.get('Z')!.map((p) => p.start)).toEqual([1, 3]);
