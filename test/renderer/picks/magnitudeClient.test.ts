@@ -4,14 +4,9 @@ import { MagnitudeJobs } from '../../../renderer/picks/magnitudeJobs';
 import type { MagnitudeRequest } from '../../../renderer/picks/magnitudeProtocol';
 import type { WorkerPort } from '../../../renderer/workerPort';
 import { magnitudeRead, reviewMagnitude, type RawPiece } from '../../../core/review/reviewMagnitude';
-import { addEvent, moveAmplitude, placePick } from '../../../core/review/edits';
-import { EMPTY_REVIEW } from '../../../core/review/types';
-import { locateReviewEvent, siteLocations } from '../../../core/location';
+import { moveAmplitude } from '../../../core/review/edits';
 import { channelKey } from '../../../core/model';
-import type { ChannelMeta } from '../../../core/stationxml/types';
-import { scenarioInventory } from '../../../core/synth/inventory';
-import { renderStation, type RenderedChannel } from '../../../core/synth/render';
-import { quake, ringStations, tinyScenario } from '../../core/synth/scenarioFixtures';
+import { magnitudeCase, piecesOf } from '../../support/magnitudeCase';
 
 /**
  * A worker as the browser gives it, minus the thread: messages are structured-cloned both ways with
@@ -31,46 +26,18 @@ class CloningWorker implements WorkerPort {
   terminate(): void {}
 }
 
-// A generated event (core/synth, ML 2.3 at 7 sites) with picks at the true arrivals, located; the
-// reference is core/review/reviewMagnitude called directly on the same pieces.
-function magnitudeCase() {
-  const stations = ringStations(7, 20);
-  const sc = tinyScenario(stations, [quake('a', 15, 2.3, 7, { strike: 120, dip: 60, rake: 30 }, -2, 4)], 90);
-  const metas: ChannelMeta[] = scenarioInventory(sc).networks[0].stations.flatMap((s) => s.channels);
-  const byKey = new Map(metas.map((m) => [channelKey(m.id), m]));
-  const sites = siteLocations(metas);
-  const ev0 = sc.events[0];
-  const r = addEvent(EMPTY_REVIEW, ev0.origin - 10e6, ev0.origin + 60e6);
-  let d = r.doc;
-  const rendered: RenderedChannel[] = [];
-  for (const st of stations) {
-    const rs = renderStation(sc, st.code);
-    rendered.push(...rs.channels);
-    const loc = st.channels[0].location;
-    const z = rs.channels.find((c) => c.id.location === loc && c.spec.dip !== 0)!;
-    d = placePick(d, r.eventId, { phase: 'P', channel: channelKey(z.id), time: rs.events[0].p.time }).doc;
-    const h = rs.channels.find((c) => c.id.location === loc && c.spec.dip === 0);
-    if (h) d = placePick(d, r.eventId, { phase: 'S', channel: channelKey(h.id), time: rs.events[0].s.time }).doc;
-  }
-  const ev = d.events[0];
-  const located = locateReviewEvent(ev, sites, sc.model);
-  if (!located.ok) throw new Error(located.message);
-  const loc = located.value;
+// A generated event (test/support/magnitudeCase.ts: ML 2.3 at 7 sites) with picks at the true
+// arrivals, located; the reference is core/review/reviewMagnitude called directly on the same pieces.
+function workerCase() {
+  const { d, ev, loc, metas, byKey, sites, rendered } = magnitudeCase();
   const rd = magnitudeRead(ev, loc, metas, sites)!;
-  const pieces = (): RawPiece[] => {
-    const want = new Set(rd.channels);
-    return rendered.filter((c) => want.has(channelKey(c.id))).map((c) => {
-      const a = Math.max(0, Math.ceil(((rd.from - c.start) * c.sampleRate) / 1e6));
-      const b = Math.min(c.samples.length, Math.floor(((rd.to - c.start) * c.sampleRate) / 1e6));
-      return { key: channelKey(c.id), start: c.start + Math.round((a * 1e6) / c.sampleRate), sampleRate: c.sampleRate, samples: Float32Array.from(c.samples.subarray(a, b)), clipped: false };
-    });
-  };
+  const pieces = (): RawPiece[] => piecesOf(rendered, rd.channels, rd.from, rd.to);
   const direct = (e = ev) => reviewMagnitude(e, loc, pieces(), (k) => byKey.get(k), sites, undefined, { evaluationStatus: 'preliminary' });
   return { d, ev, loc, metas, sites, pieces, direct, readKey: `${rd.channels.join(',')}|${rd.from}|${rd.to}` };
 }
 
 describe('MagnitudeWorker: magnitudes through the worker\'s messages', () => {
-  const c = magnitudeCase();
+  const c = workerCase();
   const input = { loc: c.loc, evaluationStatus: 'preliminary' as const, metas: () => c.metas, sites: () => c.sites };
 
   it('measures the list\'s and exports\' magnitude exactly as reviewMagnitude called directly, moving the pieces to the worker', async () => {
