@@ -19,7 +19,7 @@ function gatedQueue<T extends string | number>() {
     await g.done;
     return `done ${n}`;
   });
-  return { q, started, open: (n: T) => open(n) };
+  return { q, started, open: (n: T) => gates.get(n)!.open() };
 }
 
 describe('LatestOnly: one job at a time, only the newest of those waiting', () => {
