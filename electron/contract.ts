@@ -74,6 +74,8 @@ export interface ScanStatus {
   message: string;
   /** Share of the work done, 0-1: while running, null until the scan first reports it; 1 when done; null after a failure or a cancel. */
   fraction: number | null;
+  /** Once done: the settings the scan used, as its summary names them (e.g. "near (auto: why)"). */
+  settings?: string;
   startedAt: string | null;
   /** Seconds since it started (or that it took). */
   seconds: number;

@@ -940,8 +940,8 @@ export class Desk {
       const events = readQuakeMl(r.value, 'daybreak-scan.xml').events;
       let summary = '';
       if (this.apply((d) => { const m = mergeCandidates(d, events); summary = `${m.added} new, ${m.refreshed} refreshed, ${m.keptAsReviewed} kept`; return m.doc; })) {
-        // The scan's summary names the settings used ("settings: near (auto: why)"); the reason goes in the tooltip.
-        const used = /settings: ([^\u00b7]+)/.exec(st.value.message)?.[1]?.trim() ?? '';
+        // The settings the scan used ("near (auto: why)"); the reason goes in the tooltip.
+        const used = st.value.settings ?? '';
         this.scanState.textContent = `Scan: ${events.length} candidates in ${Math.round(st.value.seconds)} s (${summary})${used ? `; ${used.replace(/ \(auto: .*$/, ' settings, chosen from the network\u2019s size')}` : ''}`;
         this.scanState.title = used;
         if (!this.currentEvent) {

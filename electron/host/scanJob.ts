@@ -112,6 +112,7 @@ export class ScanJobs {
         try { unlinkSync(atomicTempPath(output, pid)); } catch { /* none was left */ }
       }
       const summary = head.split('\n').filter((l) => /^daybreak scan:|^ {2}settings:/.test(l)).map((l) => l.trim().replace(/^daybreak scan: /, '')).join(' \u00b7 ');
+      const settings = /^ {2}settings: (.+)$/m.exec(head)?.[1];
       // Why it stopped: the error line of a crash (Node prints it above the stack), else the last lines.
       const tail = (out.trim() || head.trim()).split('\n');
       const errorLine = tail.filter((l) => /^(daybreak\b|\w*Error\b)/.test(l)).at(-1);
@@ -124,7 +125,7 @@ export class ScanJobs {
         : spawnError
         ? { state: 'failed', message: `scan could not start: ${spawnError.message}`, fraction: null, startedAt: job.status.startedAt, seconds }
         : finished
-          ? { state: 'done', message: `${how}: ${summary || last}`, fraction: 1, startedAt: job.status.startedAt, seconds }
+          ? { state: 'done', message: `${how}: ${summary || last}`, fraction: 1, startedAt: job.status.startedAt, seconds, ...(settings ? { settings } : {}) }
           : { state: 'failed', message: `scan stopped (${signal ? `killed by ${signal}` : `exit ${code}`}): ${last}`, fraction: null, startedAt: job.status.startedAt, seconds };
     };
     // 'close', not 'exit': only then has all of the child's output been read.
