@@ -206,7 +206,7 @@ export class Desk {
       if (z) for (const [b, v] of z.levels) levels.set(b, v.rms);
       const clipped = new Set<number>();
       for (const key of s.channels) for (const [b, v] of this.session.channels.get(key)?.levels ?? []) if (v.clipped) clipped.add(b);
-      return { site: s.site, levels, flags: this.siteFlags(s), clipped };
+      return { site: s.site, levels, flags: this.siteFlags(s, true), clipped };
     }));
 
     const filterSelect = el('select', { title: 'Filter applied to every trace (causal unless zero-phase is ticked)' },
@@ -338,7 +338,11 @@ export class Desk {
     return best * OVERVIEW_BIN_MICROS;
   }
 
-  private siteFlags(s: SiteStreams): string[] {
+  /**
+   * Warnings about a site's channels over the whole night. `withClipping`: also how many of the
+   * night's bins each channel clipped in (for the overview; a row tells of its own window instead).
+   */
+  private siteFlags(s: SiteStreams, withClipping: boolean): string[] {
     const flags: string[] = [];
     for (const key of s.channels) {
       const ch = this.session.channels.get(key);
@@ -347,6 +351,7 @@ export class Desk {
       const gaps = ch.summaries.reduce((n, x) => n + x.gaps.length, 0);
       if (gaps) flags.push(`${key.split('.')[3]} ${gaps} gap${gaps > 1 ? 's' : ''}`);
       if (!ch.meta) flags.push(`${key.split('.')[3]} no metadata`);
+      if (!withClipping) continue;
       let clippedBins = 0;
       for (const v of ch.levels.values()) if (v.clipped) clippedBins++;
       if (clippedBins) flags.push(`${key.split('.')[3]} clipped in ${clippedBins} \u00d7 ${OVERVIEW_BIN_MICROS / 1e6} s of the night`);
@@ -468,7 +473,7 @@ export class Desk {
       comps.push({ key, label: key.split('.')[3], pieces });
     }
     // A row tells of clipping in its own window only (the night's count is the overview's).
-    const flags = this.siteFlags(s).filter((f) => !f.endsWith(' of the night'));
+    const flags = this.siteFlags(s, false);
     for (const key of s.channels) if ((byKey.get(key) ?? []).some((p) => p.clipped)) flags.push(`${key.split('.')[3]} clipped in this window`);
     for (const key of s.channels) {
       const pieces = byKey.get(key) ?? [];
