@@ -528,6 +528,9 @@ export class Desk {
   /** The event's location for the list and the exports (4 picks at least), or null; located in the worker. */
   private async locateForList(ev: ReviewEvent): Promise<ReviewLocation | null> {
     if (ev.picks.length < 4) return null;
+    // Already located for the list or the panels (events are immutable: the same object, the same solution).
+    const known = this.measures.locationOf(ev);
+    if (known !== undefined) return known;
     const r = await this.locator.locate(ev, this.siteCoords, this.model);
     return r.ok ? r.value : null;
   }

@@ -33,6 +33,11 @@ export class EventMeasures {
     return { rmsS: k?.location ? k.location.hypocentre.rmsS : null, ml: k?.ml ?? null };
   }
 
+  /** `ev`'s location as already worked out (null: no solution), or undefined when not yet. */
+  locationOf(ev: ReviewEvent): ReviewLocation | null | undefined {
+    return this.known.get(ev)?.location;
+  }
+
   /** Whether `ev` has been measured as far as the key needs. */
   measured(ev: ReviewEvent, key: SortKey): boolean {
     const k = this.known.get(ev);
