@@ -165,7 +165,7 @@ export function parseScanArgs(args: string[]): ScanArgs {
   };
   // Checked for every preset 'auto' may choose, so a bad combination is refused before any work.
   const settings = settingsFor(preset === 'auto' ? 'local' : preset as ScanPreset);
-  if (preset === 'auto') settingsFor('near');
+  if (preset === 'auto') for (const p of SCAN_PRESETS) settingsFor(p);
   const progress = values.get('--progress') ?? (process.stderr.isTTY ? 'bar' : 'none');
   if (progress !== 'bar' && progress !== 'lines' && progress !== 'none') throw new ArgumentError(`--progress must be bar, lines or none, got "${progress}"`);
   const agency = values.get('--agency') ?? 'daybreak';
