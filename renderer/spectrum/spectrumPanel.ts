@@ -12,6 +12,7 @@ import type { FilterRequest } from '../../core/dsp';
 import { isoFromMicros, type Micros } from '../../core/time';
 import { el } from '../dom';
 import { logTicks, tickLabel } from './logAxis';
+import { readTheme } from '../panels/canvasPanel';
 import {
   NOISE_GAP_MICROS, SPECTRUM_WINDOW, amplitudeUnits, channelSpectra, passBand, spectrumSpans, type ChannelSpectra, type SamplePiece, type SpectrumSpans,
 } from './spectrumWindows';
@@ -324,11 +325,12 @@ function axisStyle(c: SpectrumColours): uPlot.Axis {
 
 interface SpectrumColours { trace: string; noise: string; band: string; muted: string; line: string; font: string }
 
+/** The side panels' theme colours (renderer/panels/canvasPanel) plus the traces' and the warning colour. */
 function themeColours(node: Element): SpectrumColours {
+  const th = readTheme(node);
   const cs = getComputedStyle(node);
-  const v = (name: string, fallback: string) => cs.getPropertyValue(name).trim() || fallback;
   return {
-    trace: v('--trace', '#c9ced8'), noise: v('--warn', '#e69f00'), band: v('--accent', '#56b4e9'),
-    muted: v('--muted', '#8b919c'), line: v('--line', '#30343c'), font: v('--font', 'system-ui, sans-serif'),
+    trace: cs.getPropertyValue('--trace').trim() || '#c9ced8', noise: cs.getPropertyValue('--warn').trim() || th.orange,
+    band: th.accent, muted: th.muted, line: th.line, font: th.font,
   };
 }
