@@ -5,6 +5,7 @@
  * millisecond to a few milliseconds, so no batching is needed) and again when its box resizes.
  */
 import { PICK_COLOURS } from '../picks/pickLayer';
+import { watchTheme } from '../dom';
 
 /** The theme's colours (CSS variables of style.css), read when a panel draws. */
 export interface PanelTheme {
@@ -65,11 +66,10 @@ export abstract class CanvasPanel {
     this.resize.observe(this.root);
     // The theme's colours are read at each draw: draw again when the theme changes (and stop
     // watching once the panel has left the page).
-    const theme = new MutationObserver(() => {
+    const theme = watchTheme(() => {
       if (this.root.isConnected) this.draw();
       else theme.disconnect();
     });
-    theme.observe(document.documentElement, { attributes: true, attributeFilter: ['data-theme'] });
   }
 
   /** The drawn site nearest to a point (CSS px of the canvas) within `radius` px, or null. */

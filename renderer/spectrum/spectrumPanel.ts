@@ -10,7 +10,7 @@
 import uPlot from 'uplot';
 import type { FilterRequest } from '../../core/dsp';
 import { isoFromMicros, type Micros } from '../../core/time';
-import { el } from '../dom';
+import { el, watchTheme } from '../dom';
 import { logTicks, tickLabel } from './logAxis';
 import { readTheme } from '../panels/canvasPanel';
 import {
@@ -80,7 +80,7 @@ export class SpectrumPanel {
   private seq = 0;
   private timer: ReturnType<typeof setTimeout> | null = null;
   private readonly host: HTMLElement;
-  private readonly themeWatch = new MutationObserver(() => this.follow());
+  private themeWatch: MutationObserver | null = null;
   private pointerY = 0;
   /** Units of the amplitudes drawn, for the readout. */
   private units = '';
@@ -99,7 +99,7 @@ export class SpectrumPanel {
     this.host = host;
     document.addEventListener('keydown', this.onEscape);
     // The colours come from the theme: drawn again when it changes while the panel is open.
-    this.themeWatch.observe(document.documentElement, { attributes: true, attributeFilter: ['data-theme'] });
+    this.themeWatch = watchTheme(() => this.follow());
     (window as unknown as { daybreakSpectrum: () => SpectrumState }).daybreakSpectrum = () => structuredClone(this.state);
   }
 
@@ -147,7 +147,7 @@ export class SpectrumPanel {
 
   destroy(): void {
     document.removeEventListener('keydown', this.onEscape);
-    this.themeWatch.disconnect();
+    this.themeWatch?.disconnect();
     this.close();
     this.root.remove();
   }

@@ -9,6 +9,7 @@
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import { placeColumn, rowColumns, type ComponentTrace } from './rowData';
+import { watchTheme } from '../dom';
 
 export interface SiteRow {
   /** "NET.STA". */
@@ -87,7 +88,7 @@ export class TraceView {
   private traceColour = '#ccc';
   private resizeObserver: ResizeObserver;
   /** Redraws in the new colours when the theme (the root element's data-theme) changes. */
-  private readonly themeObserver = new MutationObserver(() => this.themeChanged());
+  private readonly themeObserver: MutationObserver;
   private lastPointer: { x: number; y: number } | null = null;
 
   constructor(container: HTMLElement, opts: TraceViewOptions = {}) {
@@ -110,7 +111,7 @@ export class TraceView {
     this.resizeObserver = new ResizeObserver(() => { this.box = null; this.rebuildAxis(); this.schedule(true); });
     this.resizeObserver.observe(this.root);
     this.resizeObserver.observe(this.scroller);
-    this.themeObserver.observe(document.documentElement, { attributes: true, attributeFilter: ['data-theme'] });
+    this.themeObserver = watchTheme(() => this.themeChanged());
   }
 
   /**
