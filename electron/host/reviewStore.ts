@@ -9,6 +9,7 @@ import { access, constants, mkdir, open, readFile, rename, stat, unlink, writeFi
 import { createHash, randomUUID } from 'node:crypto';
 import { hostname } from 'node:os';
 import { basename, dirname, join } from 'node:path';
+import { processAlive } from './processes';
 
 export const REVIEW_FILE_NAME = 'daybreak.review.json';
 
@@ -57,14 +58,6 @@ export async function writeAtomically(path: string, content: string): Promise<vo
   }
 }
 
-function processAlive(pid: number): boolean {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch (e) {
-    return (e as NodeJS.ErrnoException).code === 'EPERM';
-  }
-}
 
 /**
  * The review files this process holds. `acquire` takes the lock unless another live process on this

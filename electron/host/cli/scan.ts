@@ -40,7 +40,7 @@ import {
 import { CAUTION } from '../../../core/caution';
 import { presetSettings, SCAN_PRESETS, type ScanPreset, type ScanSettings } from '../../../core/scan/settings';
 import { choosePreset } from '../../../core/scan/presetChoice';
-import { atomicTempPath } from '../scanJob';
+import { atomicTempPath, removeStaleTemps } from '../scanJob';
 import { TriggerStream } from '../../../core/scan/triggerStream';
 import { eventPicks, pickId, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
 import { earliestOriginFromP, eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';
@@ -649,9 +649,11 @@ export function toQmlEvent(ev: CandidateEvent, picks: readonly Pick[]): QmlEvent
 /**
  * Writes `text` to a temporary file beside `path`, then renames it over `path` (never a half-written
  * file). A failed write removes the temporary file; a process killed during the write leaves it (no
- * handler runs inside the synchronous write), which the desk's scan job removes (scanJob.ts).
+ * handler runs inside the synchronous write), which the desk's scan job removes (scanJob.ts), and so
+ * does the next write of the same output (removeStaleTemps: only files of processes that are gone).
  */
 export function writeAtomically(path: string, text: string): void {
+  removeStaleTemps(path);
   const tmp = atomicTempPath(path, process.pid);
   try {
     writeFileSync(tmp, text);

@@ -336,13 +336,15 @@ describe('daybreak scan writes its output atomically', () => {
     expect(readdirSync(dir).filter((n) => n.startsWith('.out-is-a-folder'))).toEqual([]);
   }, 60_000);
 
-  it('never leaves a partial file: runs killed at several moments leave the previous file or a complete new one, and no temporary file', async () => {
+  it('never leaves a partial file: runs killed at several moments leave the previous file or a complete new one, and no temporary file past the next write', async () => {
     const outcomes: string[] = [];
+    const killedPids = new Map<string, number>();
     for (const ms of [400, 900, 1400, 2000]) {
       const out = join(dir, `kill-${ms}.xml`);
       writeFileSync(out, 'previous results\n');
       const child = spawn(process.execPath, [join(root, 'bin/daybreak.mjs'), 'scan', '--stations', join(dir, 'night', 'stations.xml'),
         '--out', out, '--chunk', '5', join(dir, 'night', 'waveforms')], { cwd: root, stdio: 'ignore' });
+      killedPids.set(`kill-${ms}.xml`, child.pid!);
       const timer = setTimeout(() => child.kill('SIGKILL'), ms);
       const signal = await new Promise<string | null>((res) => child.on('exit', (_c, s) => res(s)));
       clearTimeout(timer);
@@ -355,8 +357,30 @@ describe('daybreak scan writes its output atomically', () => {
       }
     }
     expect(outcomes.some((o) => o.includes('previous file kept'))).toBe(true);
+    // A run killed between writing its temporary file and the rename leaves that file (no handler runs
+    // on SIGKILL): it is always the killed run's own, and the next write of that output removes it.
+    const left = readdirSync(dir).filter((n) => n.endsWith('.tmp'));
+    for (const name of left) {
+      const out = [...killedPids].find(([o, pid]) => name === `.${o}.${pid}.tmp`);
+      expect(out, name).toBeDefined();
+      writeAtomically(join(dir, out![0]), 'next run\n');
+    }
     expect(readdirSync(dir).filter((n) => n.endsWith('.tmp'))).toEqual([]);
   }, 60_000);
+
+  it('a write removes the temporary files of earlier writers of the same output that are gone, and nothing else', async () => {
+    const folder = join(dir, 'stale');
+    mkdirSync(folder);
+    const gone = spawn(process.execPath, ['-e', '0']);
+    const deadPid = await new Promise<number>((res) => gone.on('exit', () => res(gone.pid!)));
+    const names = [`.x.xml.${deadPid}.tmp`, `.x.xml.${process.ppid}.tmp`, `.y.xml.${deadPid}.tmp`, `.x.xml.abc.tmp`, `x.xml.${deadPid}.tmp`];
+    for (const n of names) writeFileSync(join(folder, n), 'partial');
+    writeAtomically(join(folder, 'x.xml'), 'whole');
+    expect(readFileSync(join(folder, 'x.xml'), 'utf8')).toBe('whole');
+    // Gone: the dead writer's file of x.xml. Kept: a live writer's (this process's parent), another output's,
+    // and names not of the temporary form.
+    expect(readdirSync(folder).sort()).toEqual([...names.slice(1), 'x.xml'].sort());
+  });
 });
 
 describe('daybreak scan --preset auto (choosing near) on the real microseismic records (../shared/data/real-microseismic)', () => {
