@@ -4,7 +4,7 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { readMiniSeedBuffer } from '../../../core/mseed';
 import type { ChannelData } from '../../../core/model';
-import { firstMotion, pickP, pickS, pickStation, sWindow } from '../../../core/pick/onset';
+import { firstMotion, firstSwing, pickP, pickS, pickStation, sWindow } from '../../../core/pick/onset';
 import { butterworth, sosfilt } from '../../../core/dsp';
 import { NEAR_FIELD_MICROSEISMIC } from '../../../core/pick/presets';
 import { staLtaTriggers } from '../../../core/pick/staLta';
@@ -113,12 +113,27 @@ describe('P onsets on synthetic records with known onsets', () => {
     });
     const mean = (a: number[]) => a.reduce((s, v) => s + v, 0) / a.length;
     expect(mean(width(weak))).toBeGreaterThan(mean(width(strong)));
-    const covered = strong.map(({ onset, x }) => {
-      const p = autoP(x)!;
-      const t = T0 + onset * 10_000;
-      return t >= p.time - p.lowerUncertainty * 1e6 - 1 && t <= p.time + p.upperUncertainty * 1e6 + 1;
-    });
-    expect(share(covered)).toBeGreaterThanOrEqual(0.8);
+    // The bounds hold the true onset (numpy's, not the project's) for at least 90 % of the picks of
+    // either set (the rule's aim, core/pick/onset.ts; measured: strong 40/40, weak 39/40).
+    for (const set of [strong, weak]) {
+      const covered = set.map(({ onset, x }) => {
+        const p = autoP(x)!;
+        const t = T0 + onset * 10_000;
+        return t >= p.time - p.lowerUncertainty * 1e6 - 1 && t <= p.time + p.upperUncertainty * 1e6 + 1;
+      });
+      expect(share(covered)).toBeGreaterThanOrEqual(0.9);
+    }
+  });
+
+  it('the first swing of a wavelet lasts to its first extreme: a quarter period for a sine from rest', () => {
+    // 5 Hz at 100 Hz: a quarter period is 5 samples. The onset sample is the first that has moved.
+    const x = new Float64Array(200);
+    for (let j = 0; j < 100; j++) x[100 + j] = -3 * Math.sin((2 * Math.PI * 5 * j) / 100);
+    expect(firstSwing(x, 101, 0.1, 100)).toEqual({ direction: -1, size: 3, samples: 5 });
+    // Not turned within the search: no swing, and its length is the search's.
+    expect(firstSwing(x, 101, 0.1, 3)).toEqual({ direction: 0, size: 0, samples: 3 });
+    // No noise estimate: no swing.
+    expect(firstSwing(x, 101, 0, 100).direction).toBe(0);
   });
 
   it('SNR is the RMS ratio of 1 s after to 5 s before: about 10 (7-14) for the strong set, and onset classes follow the documented rule', () => {
@@ -126,8 +141,13 @@ describe('P onsets on synthetic records with known onsets', () => {
       const p = autoP(x)!;
       expect(p.snr).toBeGreaterThan(7);
       expect(p.snr).toBeLessThan(14);
-      const width = p.lowerUncertainty + p.upperUncertainty;
-      const want = p.snr < 3 ? 'questionable' : p.snr >= 10 && width <= 0.05 ? 'impulsive' : 'emergent';
+      // The first swing's length (the records' noise RMS is 1 by construction; the swing's reversal is
+      // many times that, so the measured noise RMS gives the same turning point), and the AIC width:
+      // the uncertainty less the swing the lower side adds (riseP 1).
+      const rise = firstSwing(x, Math.round((p.time - T0) / 10_000), 1, FS).samples / FS;
+      const aicWidth = p.lowerUncertainty - rise + p.upperUncertainty;
+      expect(aicWidth).toBeGreaterThanOrEqual(0.02 - 1e-9);
+      const want = p.snr < 3 ? 'questionable' : p.snr >= 10 && aicWidth <= 0.05 + 1e-9 && rise <= 0.05 + 1e-9 ? 'impulsive' : 'emergent';
       expect(p.onset).toBe(want);
     }
   });
@@ -301,6 +321,9 @@ describe('real microseismic records (../shared/data/real-microseismic)', () => {
       `manual time inside [time - lower, time + upper] for ${covered}; onsets ${JSON.stringify(onsets)}`);
     expect(within / errs.length).toBeGreaterThanOrEqual(0.8);
     expect(agree / bothGiven).toBeGreaterThanOrEqual(0.95);
+    // The analyst's time lies within the automatic pick's bounds for at least 90 % (42 of 43 measured;
+    // 27 with the AIC width alone, before the first swing entered the lower bound).
+    expect(covered / manual.length).toBeGreaterThanOrEqual(0.9);
   });
 
   it('automatic S (joint AIC of DPN and DPE, origin time from the event file, Vp/Vs up to 4) within 0.02 s of at least 5 of the 7 manual S picks', () => {
