@@ -49,12 +49,13 @@
  *    seeds, checked on four others), with the generator's attenuation of 2026-12-02 (Q constant up
  *    to 100 Hz whatever the sample rate, core/synth/pulse.ts), the re-read moved the median S error
  *    from 0.18-0.31 s late to 0.15-0.26 s late, S within 0.20 s from 13 to 27 of 39 sites (held out:
- *    16 to 36 of 52), and P within 0.05 s from 2 to 9 of 42 (held out: 3 to 21 of 56). No S comes
- *    within 0.10 s: the S front of such an event comes 0.15-0.2 s before the first per cent of the
- *    pulse, below any noise, and the AIC pick already lies where the trace first leaves the noise (a
- *    step back from it to where a trailing 0.02-0.2 s energy envelope first exceeds 2-5 times its
- *    pre-pick mean changed P within 0.05 s and S within 0.10 s by at most one site each on seeds
- *    31-33, and was left out).
+ *    16 to 36 of 52), and P within 0.05 s from 2 to 9 of 42 (held out: 3 to 21 of 56). The S front
+ *    of such an event comes 0.15-0.2 s before the first per cent of the pulse, below any noise, and
+ *    the AIC pick lies where the trace first leaves the noise (a step back from it to where a
+ *    trailing 0.02-0.2 s energy envelope first exceeds 2-5 times its pre-pick mean changed P within
+ *    0.05 s and S within 0.10 s by at most one site each on seeds 31-33, and was left out). What
+ *    brings those picks closer is onset.ts's lead of slow onsets, which moves a pick ahead by the
+ *    time its first swing keeps steepening (README, "Picking accuracy", for the figures).
  */
 import type { Micros } from '../time';
 import { pickP, pickS, type OnsetOptions, type SWindowOptions } from './onset';
@@ -94,6 +95,11 @@ export interface EventPickOptions {
   /** Slowest P speed between sites, km/s, and slack, s (as coincidence.ts). */
   readonly vMin: number;
   readonly slack: number;
+  /**
+   * Slowest average P speed along a local event's rays, km/s: the network's first P must agree with
+   * the other sites' P at it (see networkFirst).
+   */
+  readonly firstPSpeed: number;
   /** STA/LTA level that finds the onset at sites without a trigger. */
   readonly retrigger: number;
   /** Picks below this SNR at sites without a trigger are dropped. */
@@ -126,6 +132,9 @@ export const LOCAL_EVENT_PICKING: EventPickOptions = Object.freeze({
   maxSMinusP: 10,
   firstTravelMax: 10,
   vMin: 3,
+  // Upper-crust P speeds are about 5.5-6.5 km/s (common practice, from memory); 5 leaves room for
+  // slower rock near the surface, and the slack for the rest.
+  firstPSpeed: 5,
   slack: 1,
   retrigger: 2.5,
   minSnr: 2,
@@ -176,7 +185,7 @@ interface SiteState {
 
 function resolve(options: Partial<EventPickOptions>): EventPickOptions {
   const o = { ...LOCAL_EVENT_PICKING, ...options };
-  for (const k of ['shareSeconds', 'maxSMinusP', 'firstTravelMax', 'vMin', 'retrigger'] as const) {
+  for (const k of ['shareSeconds', 'maxSMinusP', 'firstTravelMax', 'vMin', 'firstPSpeed', 'retrigger'] as const) {
     if (!(o[k] > 0 && Number.isFinite(o[k]))) throw new RangeError(`${k} must be a finite number > 0, got ${o[k]}`);
   }
   if (!(o.sShare > 0 && o.sShare <= 1)) throw new RangeError(`sShare must be in (0, 1], got ${o.sShare}`);
@@ -218,7 +227,7 @@ export function pickEventSites(sites: readonly EventSite[], options: Partial<Eve
   }
   const trusted = states.filter((s) => !s.sLike);
   if (trusted.length === 0 && states.length === 0) return [];
-  let first = Math.min(...(trusted.length ? trusted : states).map((s) => s.onset));
+  let first = networkFirst((trusted.length ? trusted : states).map((s) => ({ time: s.onset, position: s.site.position, snr: s.p?.snr ?? Infinity })), o);
   // Sites without a trigger: look for a first arrival where the network allows one.
   const triggered = sites.filter((s) => s.trigger !== null);
   for (const site of sites) {
@@ -246,7 +255,7 @@ export function pickEventSites(sites: readonly EventSite[], options: Partial<Eve
     s.p = p && p.snr >= o.minSnr ? p : null;
   }
   const ps = states.filter((s) => s.p !== null);
-  if (ps.length) first = Math.min(first, ...ps.map((s) => s.p!.time));
+  if (ps.length) first = Math.min(first, networkFirst(ps.map((s) => ({ time: s.p!.time, position: s.site.position, snr: s.p!.snr })), o));
   // Origin time in [earliest, first]: first - firstTravelMax, or earlier where the caller's estimate says so.
   let earliest = first - Math.round(o.firstTravelMax * 1e6);
   let distant = false;
@@ -281,6 +290,26 @@ export function pickEventSites(sites: readonly EventSite[], options: Partial<Eve
     if (sp) out.push(sp);
   }
   return out;
+}
+
+/**
+ * The network's first P (µs): the earliest onset that has an SNR of at least `minSnr` and that at
+ * least half of the other sites' onsets agree with. Two P onsets of one event agree when they lie no
+ * farther apart in time than their sites' distance at `firstPSpeed` plus slack: the difference of
+ * two hypocentral distances is at most the sites' distance, and P covers it at the rays' average P
+ * speed. A lone early onset, such as a P read on local noise at one site seconds before the event,
+ * would otherwise move every site's S window late (on the demo night a P read 5.6 s early on a
+ * sawmill's noise implied 2-4.9 km/s to the other sites; the true first P, 7-27 km/s). The plain
+ * earliest onset when none qualifies.
+ */
+export function networkFirst(onsets: readonly { time: Micros; position: SitePosition; snr: number }[], o: EventPickOptions): Micros {
+  const sorted = [...onsets].sort((a, b) => a.time - b.time);
+  for (const a of sorted) {
+    if (!(a.snr >= o.minSnr)) continue;
+    const agree = sorted.filter((b) => b !== a && Math.abs(b.time - a.time) <= Math.round((siteDistanceKm(a.position, b.position) / o.firstPSpeed + o.slack) * 1e6)).length;
+    if (agree > 0 && 2 * agree >= sorted.length - 1) return a.time;
+  }
+  return sorted[0].time;
 }
 
 /** Latest time (µs) P can reach `site` after the anchors' P: each one's P plus distance / vMin plus slack, the least of those. */

@@ -6,8 +6,19 @@
  * uncertainty (the picker's interval is asymmetric; the locator takes one sigma per pick), at least
  * one millisecond. Picks whose records flag questionable timing are passed on as such (the locator
  * down-weights them). Horizontal uncertainty is the 68 % ellipse's semi-major axis.
+ *
+ * Outliers: an automatic event often holds a pick read on noise or on the wrong phase, seconds off,
+ * and least squares lets it pull the whole solution (on the generated nights of
+ * test/bench/accuracy.bench.ts, one event in ten ended over 0.45 km from its true epicentre, several
+ * with residual RMS near 1 s). So after each location the used pick with the largest residual in its
+ * own sigmas is left out (kept in the event and reported with its residual, weight 0) and the event
+ * located again, while that residual exceeds OUTLIER_SIGMAS and OUTLIER_SPREAD times the median of
+ * the used picks', at most a third of the picks and never below MIN_PHASES + 1 used. Daybreak's rule
+ * (leaving out the worst residual and locating again is common practice in automatic location; the
+ * thresholds are ours, not tuned): on those nights the 90th percentile of the epicentral error fell
+ * from 0.47 to 0.20 km and of the depth error from 0.99 to 0.24-0.33 km (README).
  */
-import { locate, MIN_PHASES, type LocationPick, type LocationStation, type VelocityModel } from '../location';
+import { locate, MIN_PHASES, QUESTIONABLE_FACTOR, type LocateResult, type LocationPick, type LocationStation, type VelocityModel } from '../location';
 import type { Pick } from '../pick';
 import { originFromHypocentre, type QmlOrigin } from '../quakeml';
 import type { Micros } from '../time';
@@ -51,17 +62,89 @@ export function eventOrigin(
     });
     index.push(i);
   });
-  let r;
-  try {
-    r = locate(stations, locPicks, { model });
-  } catch (e) {
-    return { ok: false, message: (e as Error).message };
+  type Attempt = LocateResult | { ok: false; message: string };
+  const tryLocate = (list: readonly LocationPick[]): Attempt => {
+    try {
+      return locate(stations, list, { model });
+    } catch (e) {
+      return { ok: false, message: (e as Error).message };
+    }
+  };
+  const usedCount = (list: readonly LocationPick[]) => list.filter((p) => p.use !== false).length;
+  let picksNow: LocationPick[] = locPicks;
+  let r = tryLocate(picksNow);
+  // One wild pick can keep the solution from converging at all: then each pick is left out in turn,
+  // and the best-fitting solution is kept when the pick left out is an outlier to it.
+  if (!r.ok && usedCount(picksNow) - 1 >= MIN_PHASES + 1) {
+    let best: { r: Attempt & { ok: true }; list: LocationPick[] } | null = null;
+    for (let i = 0; i < picksNow.length; i++) {
+      const list = picksNow.map((p, j) => (j === i ? { ...p, use: false } : p));
+      const got = tryLocate(list);
+      if (got.ok && outlierZ(got.value.arrivals, list, i) && (!best || got.value.rmsS < best.r.value.rmsS)) best = { r: got, list };
+    }
+    if (best) {
+      r = best.r;
+      picksNow = best.list;
+    }
+  }
+  // Outliers (see the module comment): the worst pick is left out and the event located again.
+  for (let dropped = 0; r.ok && dropped < Math.floor(picksNow.length / 3); dropped++) {
+    const worst = worstOutlier(r.value.arrivals, picksNow);
+    if (worst < 0 || usedCount(picksNow) - 1 < MIN_PHASES + 1) break;
+    const next = picksNow.map((p, i) => (i === worst ? { ...p, use: false } : p));
+    const again = tryLocate(next);
+    if (!again.ok) break; // the picks left no longer fix the hypocentre: keep the last solution
+    picksNow = next;
+    r = again;
   }
   if (!r.ok) return { ok: false, message: r.message };
   const origin = originFromHypocentre(r.value, {
     id: `${eventId}.origin`, pickIdOf: (i) => pickIds[index[i]], evaluationMode: 'automatic', evaluationStatus: 'preliminary', earthModelId: modelId,
   });
   return origin ? { ok: true, origin } : { ok: false, message: 'the solution has a coordinate that is not a number' };
+}
+
+/** A used pick whose residual, in its own sigmas, exceeds this and OUTLIER_SPREAD times the median is an outlier. */
+export const OUTLIER_SIGMAS = 5;
+export const OUTLIER_SPREAD = 5;
+
+/** The sigma the locator gives a pick (questionable timing widens it, core/location/geiger.ts). */
+function sigmaOf(p: LocationPick): number {
+  return p.uncertaintyS * (p.timingQuestionable ? QUESTIONABLE_FACTOR : 1);
+}
+
+type Residuals = readonly { pickIndex: number; used: boolean; residualS: number }[];
+
+/** The median over the used picks of |residual| / sigma. */
+function medianZ(arrivals: Residuals, picks: readonly LocationPick[]): number {
+  const z = arrivals.filter((a) => a.used).map((a) => Math.abs(a.residualS) / sigmaOf(picks[a.pickIndex])).sort((a, b) => a - b);
+  return z.length ? z[z.length >> 1] : NaN;
+}
+
+/** Whether pick `i`'s residual is an outlier to the used picks' (the rule of the module comment). */
+function outlierZ(arrivals: Residuals, picks: readonly LocationPick[], i: number): boolean {
+  const a = arrivals.find((x) => x.pickIndex === i);
+  if (!a) return false;
+  const z = Math.abs(a.residualS) / sigmaOf(picks[i]);
+  return z > OUTLIER_SIGMAS && z > OUTLIER_SPREAD * medianZ(arrivals, picks);
+}
+
+/**
+ * Index of the used pick with the largest residual in its own sigmas when that is an outlier
+ * (above OUTLIER_SIGMAS and above OUTLIER_SPREAD times the median over the used picks), else -1.
+ */
+function worstOutlier(arrivals: Residuals, picks: readonly LocationPick[]): number {
+  let worst = -1;
+  let zMax = -1;
+  for (const a of arrivals) {
+    if (!a.used) continue;
+    const z = Math.abs(a.residualS) / sigmaOf(picks[a.pickIndex]);
+    if (z > zMax) {
+      zMax = z;
+      worst = a.pickIndex;
+    }
+  }
+  return worst >= 0 && outlierZ(arrivals, picks, worst) ? worst : -1;
 }
 
 /** A least-squares plane wave through arrival times: t = t0 + sx x + sy y. */

@@ -3,6 +3,7 @@ import { designForChannel } from '../../../core/dsp/designForChannel';
 import { rotateToNorthEast } from '../../../core/dsp/rotate';
 import { sosfilt } from '../../../core/dsp/sosfilt';
 import { horizontalShare, LOCAL_EVENT_PICKING, pickEventSites, type EventSite, type Pick, type Trace } from '../../../core/pick';
+import { networkFirst } from '../../../core/pick/eventSites';
 import { renderStation } from '../../../core/synth/render';
 import { stationTruth, type TruthArrival } from '../../../core/synth/truth';
 import { quake, ringStations, tinyScenario } from '../synth/scenarioFixtures';
@@ -21,6 +22,24 @@ function burst(up: number, north: number, east: number): [Trace, Trace, Trace] {
   }
   return [tr('HHZ', z), tr('HHN', n), tr('HHE', e)];
 }
+
+// Worked by hand: sites on a line (x in km); two P onsets agree when |dt| <= distance / 5 km/s + 1 s
+// (firstPSpeed 5, slack 1). A's onset 5.58 s before B's, 13.4 km away, is the demo night's case of a
+// P read on a sawmill's noise (3.68 s allowed); B agrees with C, D and E.
+describe('networkFirst (the network first P that bounds every S window)', () => {
+  const at = (x: number, t: number, snr = 10) => ({ time: Math.round(t * 1e6), position: { x, y: 0 }, snr });
+  const rest = [at(13.4, 5.58), at(22.2, 7.5), at(33.4, 9.6), at(27.8, 8.7)];
+  it('skips a lone early onset that no other site agrees with', () => {
+    expect(networkFirst([at(0, 0, 3.1), ...rest], LOCAL_EVENT_PICKING)).toBe(5_580_000);
+  });
+  it('takes the earliest onset when the others agree with it (A 3 s: 2.58 <= 3.68, 4.5 <= 5.44, 6.6 <= 7.68, 5.7 <= 6.56)', () => {
+    expect(networkFirst([at(0, 3, 3.1), ...rest], LOCAL_EVENT_PICKING)).toBe(3_000_000);
+  });
+  it('skips an onset below minSnr (2) however well it agrees, and falls back to the earliest when none qualifies', () => {
+    expect(networkFirst([at(0, 3, 1.5), ...rest], LOCAL_EVENT_PICKING)).toBe(5_580_000);
+    expect(networkFirst([at(0, 0), at(100, 60)], LOCAL_EVENT_PICKING)).toBe(0);
+  });
+});
 
 describe('horizontalShare', () => {
   it('is sin^2 of the incidence for a P wave whose motion lies along its ray (ray theory, e.g. Aki and Richards 2002, Quantitative Seismology, ch. 4 - from memory; free-surface effects left out)', () => {

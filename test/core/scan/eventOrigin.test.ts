@@ -76,6 +76,47 @@ describe('eventOrigin', () => {
     expect(o.arrivals.every((a) => a.phase === 'Pg' || a.phase === 'Sg')).toBe(true);
   });
 
+  it('leaves out a pick 3 s off (kept as an arrival with its residual, weight 0) and comes back at the true hypocentre', () => {
+    const bad = picks.map((p, i) => (i === 4 ? { ...p, time: p.time + 3_000_000 } : p));
+    const r = eventOrigin('ev', bad, ids, sites, DEFAULT_MODEL, 'default');
+    if (!r.ok) throw new Error(r.message);
+    const o = r.origin;
+    expect(haversineKm(SRC.lat, SRC.lon, o.latitude, o.longitude)).toBeLessThan(0.05);
+    expect(Math.abs(o.depthM - SRC.depthKm * 1000)).toBeLessThan(50);
+    expect(o.quality?.usedPhaseCount).toBe(11);
+    expect(o.arrivals).toHaveLength(12);
+    const left = o.arrivals[4];
+    expect(left.timeWeight).toBe(0);
+    expect(left.timeResidual).toBeGreaterThan(2.99);
+    expect(left.timeResidual).toBeLessThan(3.01);
+    // Plain least squares with that pick in does not converge (or is pulled far off): what the
+    // outlier pass is for.
+    const all = locate(
+      [...sites].map(([key, s]) => ({ key, latDeg: s.latitude, lonDeg: s.longitude, elevKm: 0 })),
+      bad.map((p) => ({ stationKey: `XX.${p.waveformId.station}`, wave: p.phaseHint, time: p.time, uncertaintyS: 0.03 })),
+      { model: DEFAULT_MODEL },
+    );
+    if (all.ok) expect(haversineKm(SRC.lat, SRC.lon, all.value.latDeg, all.value.lonDeg) + Math.abs(all.value.depthKm - SRC.depthKm)).toBeGreaterThan(1);
+    else expect(all.message).toMatch(/do not constrain/);
+  });
+
+  it('leaves out a P pick 2 s off after a first solution that it had pulled off', () => {
+    const bad = picks.map((p, i) => (i === 2 ? { ...p, time: p.time + 2_000_000 } : p));
+    const r = eventOrigin('ev', bad, ids, sites, DEFAULT_MODEL, 'default');
+    if (!r.ok) throw new Error(r.message);
+    expect(haversineKm(SRC.lat, SRC.lon, r.origin.latitude, r.origin.longitude)).toBeLessThan(0.05);
+    expect(r.origin.arrivals.map((a) => a.timeWeight === 0)).toEqual(ids.map((_id, i) => i === 2));
+  });
+
+  it('leaves out nothing when the residuals are alike (picks scattered by a few sigma at most)', () => {
+    const rng = new Rng(11);
+    const noisy = picks.map((p) => ({ ...p, time: p.time + Math.round(rng.uniform(-0.04, 0.04) * 1e6) }));
+    const r = eventOrigin('ev', noisy, ids, sites, DEFAULT_MODEL, 'default');
+    if (!r.ok) throw new Error(r.message);
+    expect(r.origin.quality?.usedPhaseCount).toBe(12);
+    expect(r.origin.arrivals.every((a) => (a.timeWeight ?? 0) > 0)).toBe(true);
+  });
+
   it('reports why when there are too few phases, and refuses ids that do not match the picks', () => {
     const r = eventOrigin('ev', picks.slice(0, 3), ids.slice(0, 3), sites, DEFAULT_MODEL, 'default');
     expect(r.ok).toBe(false);

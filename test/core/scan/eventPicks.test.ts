@@ -178,19 +178,21 @@ describe('eventPicks on a distant event (S more than 10 s of P travel after the 
   // arrival time with its highest frequencies, far below the noise, and reaches a few per cent of its
   // peak only about 0.1-0.15 s later, alike at 100 and 200 Hz. Values measured with the seed of
   // tinyScenario (1234) and the sample-rate-free attenuation of 2026-12-02.
-  it('re-reads those S on horizontals high-passed at 1 Hz: 0.12-0.16 s late at all five sites (the 200 Hz one alike), 0.02-0.05 s earlier than on the 2-15 Hz band', () => {
+  it('re-reads those S on horizontals high-passed at 1 Hz: 0.02-0.06 s late at all five sites (the 200 Hz one alike), 0.05-0.10 s earlier than on the 2-15 Hz band', () => {
     const origin = (pp: readonly OriginPick[]) => earliestOriginFromP(pp, coords, DEMO_MODEL, LOCAL_SCAN_SETTINGS.maxPTravelTime);
     const wide = sSignedErrors(eventPicks(ev, sites, sosAt, LOCAL_SCAN_SETTINGS, origin));
     const band = sSignedErrors(eventPicks(ev, sites, sosAt, { ...LOCAL_SCAN_SETTINGS, distantFilter: null }, origin));
     // Sites with horizontals in station order: T00, T01 (1/2 at 20 degrees), T02 (200 Hz), T03, T05.
     expect(wide).toHaveLength(5);
+    // Measured: 0.041, 0.05, 0.058, 0.045, 0.025 (0.12-0.16 before the lead of slow onsets, onset.ts);
+    // on the band 0.101-0.145.
     wide.forEach((e, k) => {
-      expect(e).toBeGreaterThanOrEqual(0.12);
-      expect(e).toBeLessThanOrEqual(0.16);
-      expect(band[k] - e).toBeGreaterThanOrEqual(0.02);
-      expect(band[k] - e).toBeLessThanOrEqual(0.05);
+      expect(e).toBeGreaterThanOrEqual(0.02);
+      expect(e).toBeLessThanOrEqual(0.06);
+      expect(band[k] - e).toBeGreaterThanOrEqual(0.05);
+      expect(band[k] - e).toBeLessThanOrEqual(0.1);
     });
-    expect(band.filter((e) => e > 0.15)).toHaveLength(5);
+    expect(band.filter((e) => e > 0.1)).toHaveLength(5);
   });
 
   it('misses those S with the local window alone (no location given)', () => {
@@ -202,20 +204,22 @@ describe('eventPicks on a distant event (S more than 10 s of P travel after the 
 // A regional event on the demo network (test/core/scan/regionalEvents.ts, seed 43, one of the seeds
 // held out when the re-read was chosen): ML 4.0 at 13.3 km depth, 158-219 km from the 13 sites with
 // horizontals (ELRO records at 200 Hz, HOLT at 40 Hz, the others at 100 Hz). Its S front comes some
-// 0.1 s before the first per cent of the pulse (Q constant up to 100 Hz, core/synth/pulse.ts), so no
-// onset reader gets within 0.10 s of it. Values measured once, with the attenuation of 2026-12-02.
+// 0.1 s before the first per cent of the pulse (Q constant up to 100 Hz, core/synth/pulse.ts): the AIC
+// alone picked every S 0.12-0.17 s late; the lead of slow onsets (core/pick/onset.ts) moves the picks
+// ahead by the time their rise keeps steepening. Values measured once, with the attenuation of
+// 2026-12-02 and the lead.
 describe('eventPicks on a generated regional event of the demo network (seed 43)', () => {
-  it('picks S 0.12-0.17 s late at all 13 sites, the 200 Hz one alike, and 0.015-0.09 s earlier than without the re-read at each', () => {
+  it('picks S within 0.08 s at all 13 sites, the 200 Hz one alike, and 0.045-0.18 s earlier than without the re-read at each', () => {
     const r = renderRegional(43);
     const keys = [...r.truth.keys()].filter((k) => r.sites.get(k)!.horizontals);
     expect(keys).toHaveLength(13);
     const wide = regionalErrors(r, LOCAL_SCAN_SETTINGS).s;
     const band = regionalErrors(r, { ...LOCAL_SCAN_SETTINGS, distantFilter: null }).s;
+    // Measured: -0.074 to 0.037 s; without the re-read 0.049-0.101 s.
     wide.forEach((e, k) => {
-      expect(e).toBeGreaterThanOrEqual(0.12);
-      expect(e).toBeLessThanOrEqual(0.17);
-      expect(band[k] - e).toBeGreaterThanOrEqual(0.015);
-      expect(band[k] - e).toBeLessThanOrEqual(0.09);
+      expect(Math.abs(e)).toBeLessThanOrEqual(0.08);
+      expect(band[k] - e).toBeGreaterThanOrEqual(0.045);
+      expect(band[k] - e).toBeLessThanOrEqual(0.18);
     });
   }, 30_000);
 });
@@ -223,11 +227,12 @@ describe('eventPicks on a generated regional event of the demo network (seed 43)
 // Two more generated regional events (seeds 31 and 44) where S was once picked about 26 s early, on
 // P: at KIRN (seed 31) the onset found near P was taken as S and no P was found before it, and S was
 // picked beside that onset; at NETH (seed 44) P was picked well, but the S window began 0.1 s after it
-// and the P on the horizontals was as strong as S. Values measured once with the fix and the
-// attenuation of 2026-12-02 (errors in s; OSKE's P, SNR 1.3, is not picked now, so it gets no S).
+// and the P on the horizontals was as strong as S. Values measured once with the fix, the
+// attenuation of 2026-12-02 and the lead of slow onsets (errors in s; OSKE's P, SNR 1.3, is not
+// picked now, so it gets no S).
 describe('eventPicks never puts the S of a generated regional event on P (seeds 31 and 44)', () => {
-  it('leaves KIRN and OSKE (seed 31, no P pick) without S, picks NETH (seed 44) S 0.24 s late (0.28 s without the re-read), and every S pick 0-0.45 s late', () => {
-    for (const [seed, noS, key, late] of [[31, ['XX.KIRN', 'XX.OSKE'], null, null], [44, [], 'XX.NETH', [0.236, 0.276]]] as const) {
+  it('leaves KIRN and OSKE (seed 31, no P pick) without S, picks NETH (seed 44) S 0.15 s late (0.26 s without the re-read), and every S pick 0-0.45 s late', () => {
+    for (const [seed, noS, key, late] of [[31, ['XX.KIRN', 'XX.OSKE'], null, null], [44, [], 'XX.NETH', [0.146, 0.261]]] as const) {
       const r = renderRegional(seed);
       const keys = [...r.truth.keys()].filter((k) => r.sites.get(k)!.horizontals);
       const runs = [regionalErrors(r, LOCAL_SCAN_SETTINGS).s, regionalErrors(r, { ...LOCAL_SCAN_SETTINGS, distantFilter: null }).s];
