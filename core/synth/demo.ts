@@ -19,6 +19,12 @@ import { SCENARIO_STRESS_DROP_PA } from './source';
 import type { ChannelSpec, EventSpec, FaultSpec, Scenario, StationSpec } from './types';
 
 export const DEMO_SEED = 20261114;
+/**
+ * Version of the generator's output: raised whenever the same seed would give other samples, so a
+ * demo folder written by an earlier version is written again (electron/host/service.ts). 2: Q held
+ * constant up to 100 Hz on every channel (2 December 2026; 1 before).
+ */
+export const GENERATOR_VERSION = 2;
 export const DEMO_NETWORK = 'XX';
 /** Centre of the invented area, degrees. */
 export const DEMO_CENTRE = { latitude: 43.38, longitude: 2.66 };

@@ -16,7 +16,7 @@ import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { velocityModelJson } from '../../core/location/velocityModel';
 import { writeStationXml } from '../../core/stationxml/write';
-import { demoScenario, DEMO_SEED } from '../../core/synth/demo';
+import { demoScenario, DEMO_SEED, GENERATOR_VERSION } from '../../core/synth/demo';
 import { scenarioInventory } from '../../core/synth/inventory';
 import { scenarioTruth, type TruthArrival } from '../../core/synth/truth';
 import type { Scenario } from '../../core/synth/types';
@@ -133,7 +133,7 @@ export async function writeScenario(root: string, opts: WriteScenarioOptions = {
   await writeFile(join(root, 'truth.json'), JSON.stringify(scenarioTruth(sc, perStation), null, 1) + '\n');
   const seconds = (performance.now() - t0) / 1000;
   await writeFile(join(root, DEMO_COMPLETE_MARKER), JSON.stringify({
-    scenario: sc.name, seed: sc.seed, generatedSeconds: Math.round(seconds * 10) / 10,
+    scenario: sc.name, seed: sc.seed, generator: GENERATOR_VERSION, generatedSeconds: Math.round(seconds * 10) / 10,
   }, null, 1) + '\n');
   files += 3;
   progress(1, 'done');

@@ -4,13 +4,14 @@
  * whatever carried it; paths are confined to the folders the user opened and the demo folder.
  */
 import { readdir, readFile, stat, open } from 'node:fs/promises';
-import { existsSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { dirname, join, relative, resolve, sep } from 'node:path';
 import type {
   AppInfo, Dataset, DatasetFile, DemoStatus, FileKind, HostErrorCode, HostRequestName, HostRequests,
   HostResult, RequestOf, ResponseOf,
 } from '../contract';
 import { DEFAULT_SETTINGS, HOST_REQUEST_NAMES, SCAN_PRESET_SETTINGS, type ReviewFileState, type Settings } from '../contract';
+import { GENERATOR_VERSION } from '../../core/synth/demo';
 import { ReviewLocks, reviewPathFor, writeAtomically } from './reviewStore';
 import { ScanJobs } from './scanJob';
 
@@ -37,6 +38,25 @@ type Handlers = { [N in HostRequestName]: (req: RequestOf<N>) => Promise<Respons
 /** The file whose presence marks a finished demo scenario (written last by the generator). */
 export const DEMO_COMPLETE_MARKER = 'scenario-complete.json';
 
+/**
+ * Whether the demo folder `root` holds a finished scenario of the current generator. The generator's
+ * marker names its seed and version (GENERATOR_VERSION); one of an earlier version (or none) means
+ * the folder is written again, so a user never reviews a demo the generator no longer makes. A marker
+ * without a seed was not written by the generator (a folder prepared by hand, or by a test) and is
+ * taken as it is; one that cannot be read means the folder is written again.
+ */
+export function demoIsCurrent(root: string): boolean {
+  let marker: unknown;
+  try {
+    marker = JSON.parse(readFileSync(join(root, DEMO_COMPLETE_MARKER), 'utf8'));
+  } catch {
+    return false;
+  }
+  if (!marker || typeof marker !== 'object') return false;
+  const m = marker as { seed?: unknown; generator?: unknown };
+  return m.seed === undefined || m.generator === GENERATOR_VERSION;
+}
+
 const MAX_FILES_LISTED = 200_000;
 const MAX_RANGE_BYTES = 256 << 20;
 
@@ -54,7 +74,7 @@ export class HostService {
     const root = resolve(opts.demoRoot);
     this.demo = {
       root,
-      state: existsSync(join(root, DEMO_COMPLETE_MARKER)) ? 'ready' : 'missing',
+      state: demoIsCurrent(root) ? 'ready' : 'missing',
       progress: 0,
       message: '',
     };

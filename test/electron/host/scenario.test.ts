@@ -1,12 +1,12 @@
-import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { parseStationXml } from '../../../core/stationxml';
-import { demoScenario } from '../../../core/synth/demo';
+import { demoScenario, GENERATOR_VERSION } from '../../../core/synth/demo';
 import { microsFromIso } from '../../../core/time';
 import { writeScenario } from '../../../electron/host/scenario';
-import { DEMO_COMPLETE_MARKER } from '../../../electron/host/service';
+import { DEMO_COMPLETE_MARKER, demoIsCurrent, HostService } from '../../../electron/host/service';
 import { libmseedDecode } from '../../ref/libmseed';
 
 // 75 s of the demo night around the explosion: every station, every channel.
@@ -55,5 +55,33 @@ describe('writeScenario', () => {
     }
     expect(readFileSync(join(a, 'truth.json'), 'utf8')).toBe(readFileSync(join(b, 'truth.json'), 'utf8'));
     expect(ra.waveformBytes).toBe(rb.waveformBytes);
+  });
+
+  it('marks the folder with the generator version; a folder of an earlier generator is written again when the demo is asked for', async () => {
+    const root = fresh();
+    await writeScenario(root, { scenario: sc, workers: 0 });
+    expect(JSON.parse(readFileSync(join(root, DEMO_COMPLETE_MARKER), 'utf8'))).toMatchObject({ seed: sc.seed, generator: GENERATOR_VERSION });
+    expect(demoIsCurrent(root)).toBe(true);
+    // The marker of an earlier generator (version 1 wrote none), one that cannot be read, none at all.
+    writeFileSync(join(root, DEMO_COMPLETE_MARKER), JSON.stringify({ scenario: sc.name, seed: sc.seed, generatedSeconds: 4.2 }));
+    expect(demoIsCurrent(root)).toBe(false);
+    const service = new HostService({ mode: 'browser', version: 'test', demoRoot: root, userDir: fresh(), generateDemo: (r) => writeScenario(r, { scenario: sc, workers: 0 }).then(() => undefined) });
+    const state = async (name: 'demo.status' | 'demo.ensure') => {
+      const r = await service.handle(name, {});
+      if (!r.ok) throw new Error(r.message);
+      return r.value.state;
+    };
+    expect(await state('demo.status')).toBe('missing');
+    expect(await state('demo.ensure')).toBe('generating');
+    for (let i = 0; i < 200 && (await state('demo.status')) === 'generating'; i++) await new Promise((r) => setTimeout(r, 50));
+    expect(await state('demo.status')).toBe('ready');
+    expect(demoIsCurrent(root)).toBe(true);
+    writeFileSync(join(root, DEMO_COMPLETE_MARKER), '{"seed": 1, "gen');
+    expect(demoIsCurrent(root)).toBe(false);
+    rmSync(join(root, DEMO_COMPLETE_MARKER));
+    expect(demoIsCurrent(root)).toBe(false);
+    // A marker without a seed was not written by the generator (a folder prepared by hand): taken as it is.
+    writeFileSync(join(root, DEMO_COMPLETE_MARKER), '{}');
+    expect(demoIsCurrent(root)).toBe(true);
   });
 });
