@@ -101,7 +101,13 @@ export function eventOrigin(
   const origin = originFromHypocentre(r.value, {
     id: `${eventId}.origin`, pickIdOf: (i) => pickIds[index[i]], evaluationMode: 'automatic', evaluationStatus: 'preliminary', earthModelId: modelId,
   });
-  return origin ? { ok: true, origin } : { ok: false, message: 'the solution has a coordinate that is not a number' };
+  if (!origin) return { ok: false, message: 'the solution has a coordinate that is not a number' };
+  const left = picksNow.map((p, i) => (p.use === false ? pickIds[index[i]] : null)).filter((id): id is string => id !== null);
+  if (left.length) {
+    origin.comment = `${origin.comment ? `${origin.comment}; ` : ''}${left.length} pick${left.length > 1 ? 's' : ''} left out as outlier${left.length > 1 ? 's' : ''} `
+      + `(residual over ${OUTLIER_SIGMAS} sigma and ${OUTLIER_SPREAD} times the median), kept as arrivals of weight 0: ${left.join(', ')}`;
+  }
+  return { ok: true, origin };
 }
 
 /** A used pick whose residual, in its own sigmas, exceeds this and OUTLIER_SPREAD times the median is an outlier. */

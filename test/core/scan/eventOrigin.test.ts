@@ -87,6 +87,7 @@ describe('eventOrigin', () => {
     expect(o.arrivals).toHaveLength(12);
     const left = o.arrivals[4];
     expect(left.timeWeight).toBe(0);
+    expect(o.comment).toMatch(/; 1 pick left out as outlier \(residual over 5 sigma and 5 times the median\), kept as arrivals of weight 0: ev\.4$/);
     expect(left.timeResidual).toBeGreaterThan(2.99);
     expect(left.timeResidual).toBeLessThan(3.01);
     // Plain least squares with that pick in does not converge (or is pulled far off): what the
@@ -115,6 +116,7 @@ describe('eventOrigin', () => {
     if (!r.ok) throw new Error(r.message);
     expect(r.origin.quality?.usedPhaseCount).toBe(12);
     expect(r.origin.arrivals.every((a) => (a.timeWeight ?? 0) > 0)).toBe(true);
+    expect(r.origin.comment).not.toMatch(/left out/);
   });
 
   it('reports why when there are too few phases, and refuses ids that do not match the picks', () => {
