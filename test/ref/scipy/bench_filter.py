@@ -6,6 +6,10 @@ Reads float64 little-endian samples and sections (6 per section), prints "ready"
 line per command on stdin:
   causal | zerophase      -> "WALL CPU": seconds of one call by time.perf_counter and by
                              time.process_time (this process's CPU time), result kept
+  causal_inplace          -> "WALL CPU" of scipy's own filtering loop alone on a copy of the samples
+                             made beforehand (scipy.signal._sosfilt._sosfilt, which sosfilt calls
+                             after copying its input; a private function): no allocation, as the
+                             JavaScript side filtering into a reused output
   causal_pieces N         -> "WALL CPU" of filtering the samples in pieces of N, causal with the
                              state carried from piece to piece (sosfilt with zi), each piece's
                              output a new array dropped before the next (as a streaming caller)
@@ -46,6 +50,16 @@ def main():
             dt = time.perf_counter() - t
             dc = time.process_time() - c
             last[cmd[0]] = y
+            print(f"{dt!r} {dc!r}", flush=True)
+        elif cmd[0] == "causal_inplace":
+            from scipy.signal import _sosfilt
+            z = np.array(x, copy=True).reshape(1, -1)
+            zi = np.zeros((1, sos.shape[0], 2))
+            c = time.process_time()
+            t = time.perf_counter()
+            _sosfilt._sosfilt(sos, z, zi)
+            dt = time.perf_counter() - t
+            dc = time.process_time() - c
             print(f"{dt!r} {dc!r}", flush=True)
         elif cmd[0] in ("causal_pieces", "zerophase_pieces"):
             n = int(cmd[1])
