@@ -278,6 +278,16 @@ function swingOf(x: SampleArray, k: number, direction: 1 | -1, size: number, ext
 }
 
 /**
+ * The first swing's length and, for a slow onset (a swing longer than `impulsiveWidth`), the lead
+ * that sets the pick ahead of the AIC minimum at index k (the module comment's rules), both seconds.
+ */
+function riseAndLead(x: SampleArray, k: number, noiseRms: number, fs: number, o: OnsetOptions, leadFactor: number): { rise: number; lead: number } {
+  const swing = firstSwing(x, k, noiseRms, Math.max(1, Math.round(o.riseWindow * fs)));
+  const rise = swing.samples / fs;
+  return { rise, lead: rise > o.impulsiveWidth ? (leadFactor * swing.steepest) / fs : 0 };
+}
+
+/**
  * First-motion polarity of an onset at index k of x (see the module comment for the rule).
  * `noiseRms` is the RMS of the noise ahead of the onset.
  */
@@ -308,9 +318,7 @@ export function pickP(trace: Trace, triggerTime: Micros, options: Partial<OnsetO
   const lower = Math.max(left, 1) / fs;
   const upper = Math.max(right, 1) / fs;
   const m = measureSnr(x, k, Math.max(left, 1), fs, o);
-  const swing = firstSwing(x, k, m.noiseRms, Math.max(1, Math.round(o.riseWindow * fs)));
-  const rise = swing.samples / fs;
-  const lead = rise > o.impulsiveWidth ? (o.leadP * swing.steepest) / fs : 0;
+  const { rise, lead } = riseAndLead(x, k, m.noiseRms, fs, o, o.leadP);
   return {
     phaseHint: 'P',
     waveformId: trace.id,
@@ -436,10 +444,7 @@ export function pickS(
   const useNorth = eastDead || (!northDead && mn.snr >= me.snr);
   const snr = useNorth ? mn.snr : me.snr;
   const trace = useNorth ? north : east;
-  const kt = useNorth ? from + k : from + k + shift;
-  const swing = firstSwing(trace.samples, kt, useNorth ? mn.noiseRms : me.noiseRms, Math.max(1, Math.round(o.riseWindow * fs)));
-  const rise = swing.samples / fs;
-  const lead = rise > o.impulsiveWidth ? (o.leadS * swing.steepest) / fs : 0;
+  const { rise, lead } = riseAndLead(trace.samples, useNorth ? from + k : from + k + shift, useNorth ? mn.noiseRms : me.noiseRms, fs, o, o.leadS);
   return {
     phaseHint: 'S',
     waveformId: trace.id,

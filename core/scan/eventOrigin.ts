@@ -121,36 +121,30 @@ function sigmaOf(p: LocationPick): number {
 
 type Residuals = readonly { pickIndex: number; used: boolean; residualS: number }[];
 
-/** The median over the used picks of |residual| / sigma. */
-function medianZ(arrivals: Residuals, picks: readonly LocationPick[]): number {
-  const z = arrivals.filter((a) => a.used).map((a) => Math.abs(a.residualS) / sigmaOf(picks[a.pickIndex])).sort((a, b) => a - b);
-  return z.length ? z[z.length >> 1] : NaN;
+/** Each arrival's |residual| in its pick's sigmas (by pick index), and their median over the used picks. */
+function residualSigmas(arrivals: Residuals, picks: readonly LocationPick[]): { z: Map<number, number>; median: number } {
+  const z = new Map(arrivals.map((a) => [a.pickIndex, Math.abs(a.residualS) / sigmaOf(picks[a.pickIndex])]));
+  const used = arrivals.filter((a) => a.used).map((a) => z.get(a.pickIndex)!).sort((x, y) => x - y);
+  return { z, median: used.length ? used[used.length >> 1] : NaN };
 }
 
-/** Whether pick `i`'s residual is an outlier to the used picks' (the rule of the module comment). */
+/** Whether a residual of `z` sigmas is an outlier among residuals of median `median` sigmas (the module comment's rule). */
+function isOutlier(z: number | undefined, median: number): boolean {
+  return z !== undefined && z > OUTLIER_SIGMAS && z > OUTLIER_SPREAD * median;
+}
+
+/** Whether pick `i`'s residual is an outlier to the used picks'. */
 function outlierZ(arrivals: Residuals, picks: readonly LocationPick[], i: number): boolean {
-  const a = arrivals.find((x) => x.pickIndex === i);
-  if (!a) return false;
-  const z = Math.abs(a.residualS) / sigmaOf(picks[i]);
-  return z > OUTLIER_SIGMAS && z > OUTLIER_SPREAD * medianZ(arrivals, picks);
+  const { z, median } = residualSigmas(arrivals, picks);
+  return isOutlier(z.get(i), median);
 }
 
-/**
- * Index of the used pick with the largest residual in its own sigmas when that is an outlier
- * (above OUTLIER_SIGMAS and above OUTLIER_SPREAD times the median over the used picks), else -1.
- */
+/** Index of the used pick with the largest residual in its own sigmas when that is an outlier, else -1. */
 function worstOutlier(arrivals: Residuals, picks: readonly LocationPick[]): number {
+  const { z, median } = residualSigmas(arrivals, picks);
   let worst = -1;
-  let zMax = -1;
-  for (const a of arrivals) {
-    if (!a.used) continue;
-    const z = Math.abs(a.residualS) / sigmaOf(picks[a.pickIndex]);
-    if (z > zMax) {
-      zMax = z;
-      worst = a.pickIndex;
-    }
-  }
-  return worst >= 0 && outlierZ(arrivals, picks, worst) ? worst : -1;
+  for (const a of arrivals) if (a.used && (worst < 0 || z.get(a.pickIndex)! > z.get(worst)!)) worst = a.pickIndex;
+  return worst >= 0 && isOutlier(z.get(worst), median) ? worst : -1;
 }
 
 /** A least-squares plane wave through arrival times: t = t0 + sx x + sy y. */
