@@ -58,7 +58,6 @@ export async function writeAtomically(path: string, content: string): Promise<vo
   }
 }
 
-
 /**
  * The review files this process holds. `acquire` takes the lock unless another live process on this
  * machine holds it (then it returns that holder); a lock left by a process that has ended is taken over.

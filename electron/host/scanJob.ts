@@ -5,11 +5,11 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { readFile } from 'node:fs/promises';
-import { existsSync, readdirSync, unlinkSync } from 'node:fs';
-import { basename, dirname, join, resolve } from 'node:path';
+import { existsSync, unlinkSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { ScanPresetSetting, ScanStatus } from '../contract';
-import { processAlive } from './processes';
+import { atomicTempPath } from './atomicTemp';
 
 export const SCAN_OUTPUT_NAME = 'daybreak-scan.xml';
 
@@ -25,40 +25,6 @@ interface Job {
 
 /** How long a cancelled scan may take to end on SIGTERM before it is killed outright, ms. */
 const CANCEL_GRACE_MS = 5000;
-
-/**
- * The temporary file `daybreak scan` writes its output to before renaming it over `path`
- * (electron/host/cli/scan.ts, writeAtomically): in the output's folder, so the rename stays on one
- * file system. Named here so that the job can remove what a scan killed mid-write leaves behind.
- */
-export function atomicTempPath(path: string, pid: number): string {
-  return join(dirname(path), `.${basename(path)}.${pid}.tmp`);
-}
-
-/**
- * Removes the temporary files that earlier runs writing `path` left when they were killed between
- * writing and renaming (a SIGKILL or a power cut runs no handler): those of `atomicTempPath` form
- * whose process is gone. A live writer's file is left alone. Returns the names removed.
- */
-export function removeStaleTemps(path: string): string[] {
-  const dir = dirname(path);
-  const prefix = `.${basename(path)}.`;
-  const removed: string[] = [];
-  let names: string[];
-  try { names = readdirSync(dir); } catch { return removed; }
-  for (const name of names) {
-    if (!name.startsWith(prefix) || !name.endsWith('.tmp')) continue;
-    const pidText = name.slice(prefix.length, -'.tmp'.length);
-    if (!/^\d+$/.test(pidText)) continue;
-    const pid = Number(pidText);
-    if (pid === process.pid || processAlive(pid)) continue;
-    try {
-      unlinkSync(join(dir, name));
-      removed.push(name);
-    } catch { /* removed meanwhile */ }
-  }
-  return removed;
-}
 
 function cliPath(): string {
   // bin/daybreak.mjs from this file (electron/host) or from the bundled shell (dist/electron).

@@ -40,7 +40,7 @@ import {
 import { CAUTION } from '../../../core/caution';
 import { presetSettings, SCAN_PRESETS, type ScanPreset, type ScanSettings } from '../../../core/scan/settings';
 import { choosePreset } from '../../../core/scan/presetChoice';
-import { atomicTempPath, removeStaleTemps } from '../scanJob';
+import { atomicTempPath, removeStaleTemps } from '../atomicTemp';
 import { TriggerStream } from '../../../core/scan/triggerStream';
 import { eventPicks, pickId, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
 import { earliestOriginFromP, eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';

@@ -2,7 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdirSync, readdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { atomicTempPath, SCAN_OUTPUT_NAME, ScanJobs } from '../../../electron/host/scanJob';
+import { atomicTempPath } from '../../../electron/host/atomicTemp';
+import { SCAN_OUTPUT_NAME, ScanJobs } from '../../../electron/host/scanJob';
 import type { ScanStatus } from '../../../electron/contract';
 import { writeSmallNight } from './cli/scanFixture';
 
