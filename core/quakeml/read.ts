@@ -212,6 +212,7 @@ function readEvent(e: Node, where: string, file: string): QmlEvent {
     type: text(e.type),
     typeCertainty: (text(e.typeCertainty) as QmlEvent['typeCertainty']) ?? null,
     description: text((e.description as Node | undefined)?.text) ?? undefined,
+    comment: text((e.comment as Node[] | undefined)?.[0]?.text) ?? undefined,
     picks,
     origins,
     preferredOriginId: preferred ? localId(preferred) : null,

@@ -25,6 +25,8 @@ import { designForChannel } from '../dsp/designForChannel';
 import { filterSegments } from '../dsp/filterSegments';
 import { rotateToNorthEast } from '../dsp/rotate';
 import { pickEventSites, type CandidateEvent, type EventSite, type OriginPick, type Pick, type SitePosition, type Trace } from '../pick';
+import type { SiteCoordinates } from './eventOrigin';
+import type { RereadSite } from './reread';
 import type { ScanSettings } from './settings';
 
 /** What is known of one channel of a site's stream for picking. */
@@ -162,4 +164,33 @@ export function eventPicks(
 /** A pick's identifier within its event: "EVENT.NET.STA.LOC.CHA.P". */
 export function pickId(eventId: string, p: Pick): string {
   return `${eventId}.${channelKey(p.waveformId)}.${p.phaseHint}`;
+}
+
+/**
+ * The sites' traces for reading misfits again (reread.ts), prepared as for picking: `coords` gives
+ * where each site is, `sosFor` the filter for a sample rate. Sites without coordinates are left out.
+ */
+export function rereadSites(
+  sites: ReadonlyMap<string, PickSite>, coords: ReadonlyMap<string, SiteCoordinates>, sosFor: (sampleRate: number) => Float64Array,
+): Map<string, RereadSite> {
+  const out = new Map<string, RereadSite>();
+  for (const [key, site] of sites) {
+    const c = coords.get(key);
+    if (!c) continue;
+    const rateAt = (segments: readonly Segment[], t: Micros) => segmentAt(segments, t)?.sampleRate ?? null;
+    out.set(key, {
+      location: { latitude: c.latitude, longitude: c.longitude, elevation: c.elevationM },
+      vertical: (t) => {
+        const rate = rateAt(site.vertical.segments, t);
+        return rate === null ? null : verticalTrace(site, sosFor(rate), t);
+      },
+      horizontals: site.horizontals
+        ? (t) => {
+          const rate = rateAt(site.horizontals![0].segments, t);
+          return rate === null ? null : horizontalTraces(site, sosFor(rate), t);
+        }
+        : null,
+    });
+  }
+  return out;
 }

@@ -13,7 +13,8 @@
  *   400 km: regional events still get their Sn, 25 s after Pn at 250 km), and the P and S of an event
  *   judged distant are re-read on traces high-passed at 1 Hz, order 2 (`distantFilter`: above the
  *   microseism; no upper corner, see core/pick/eventSites.ts step 4; 0.75-2 Hz and orders 1-4 gave
- *   the same picks on the generated regional events it was chosen on).
+ *   the same picks on the generated regional events it was chosen on). Picks that the event's
+ *   location does not fit are read again around their predicted times (`reread`, reread.ts).
  * - `near`: near-source microseismic records at about 500 Hz cut into short windows (the P a couple
  *   of seconds after the record's start, travel times under 0.1 s, a network a few hundred metres
  *   across). Band-pass 5-150 Hz; STA 0.05 s, LTA 1 s (windows a tenth of the local ones, scaled
@@ -26,9 +27,11 @@
  *   check (sShare 1: no onset is taken as S): geophones at distances comparable to the source depth
  *   see P arrive far from vertical, so P energy need not be mostly vertical; on the real events the
  *   check took one P for S and lost it. Its other windows are scaled as above (energy share over
- *   0.05 s, P sought at most 0.5 s before an onset); no re-read for distant events.
+ *   0.05 s, P sought at most 0.5 s before an onset); no re-read for distant events, and misfits of the
+ *   location are not read again (reread.ts's bounds are seconds; these travel times are under 0.1 s).
  */
 import type { FilterRequest } from '../dsp/designForChannel';
+import type { RereadOptions } from './reread';
 import { LOCAL_EARTHQUAKE_BUSY, type EventPickOptions, type OnsetOptions, type StaLtaOptions, type SWindowOptions } from '../pick';
 
 export interface ScanSettings {
@@ -63,6 +66,11 @@ export interface ScanSettings {
    * channel; null: no re-read.
    */
   readonly distantFilter: FilterRequest | null;
+  /**
+   * Misfits of a located event read again around their predicted times (reread.ts), with these
+   * options (unset ones take LOCAL_REREAD's); null: not read again.
+   */
+  readonly reread: Partial<RereadOptions> | null;
   /** Length of the time chunks the night is processed in, seconds. */
   readonly chunkSeconds: number;
   /**
@@ -87,6 +95,7 @@ export const LOCAL_SCAN_SETTINGS: ScanSettings = Object.freeze<ScanSettings>({
   maxPTravelTime: 60,
   eventPicking: {},
   distantFilter: { kind: 'highpass' as const, order: 2, corners: 1 },
+  reread: {},
   chunkSeconds: 600,
   filterPad: 20,
 });
@@ -103,6 +112,7 @@ export const NEAR_SCAN_SETTINGS: ScanSettings = Object.freeze<ScanSettings>({
   maxPTravelTime: 0.5,
   eventPicking: { sShare: 1, shareSeconds: 0.05, maxSMinusP: 0.5 },
   distantFilter: null,
+  reread: null,
   chunkSeconds: 600,
   filterPad: 1,
 });

@@ -42,8 +42,9 @@ import { presetSettings, SCAN_PRESETS, type ScanPreset, type ScanSettings } from
 import { choosePreset } from '../../../core/scan/presetChoice';
 import { atomicTempPath, removeStaleTemps } from '../atomicTemp';
 import { TriggerStream } from '../../../core/scan/triggerStream';
-import { eventPicks, pickId, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
+import { eventPicks, pickId, rereadSites, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
 import { earliestOriginFromP, eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';
+import { rereadMisfits, type RereadChange } from '../../../core/scan/reread';
 import { DEFAULT_MODEL, parseVelocityModel, type VelocityModel } from '../../../core/location';
 import { listFiles } from '../mseedFiles';
 import { indexFile, readWindow, type IndexedFile } from '../scan/recordFiles';
@@ -283,6 +284,8 @@ export interface ScanSummary {
   /** Located events with a local magnitude. */
   magnitudes: number;
   picks: { P: number; S: number };
+  /** Picks the location did not fit, read again: replaced by a new reading, or dropped. */
+  reread: { replaced: number; dropped: number };
   skippedChannels: { id: string; why: string }[];
   seconds: number;
   /** The preset used, and for --preset auto why it was chosen. */
@@ -324,7 +327,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   let s = a.settings;
   const bar = a.progress === 'bar' ? progressBar(process.stderr) : a.progress === 'lines' ? progressLines(process.stderr) : null;
   const summary: ScanSummary = {
-    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
+    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, reread: { replaced: 0, dropped: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
   };
   let bad = false;
 
@@ -516,10 +519,24 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
         horizontals: x.horizontals ? [chan(x.horizontals[0]), chan(x.horizontals[1])] : null,
       });
     }
-    const picks = eventPicks(ev, pickSites, sosFor, s, earliestOrigin);
+    let picks = eventPicks(ev, pickSites, sosFor, s, earliestOrigin);
+    let qe = toQmlEvent(ev, picks);
+    let o = eventOrigin(ev.id, picks, qe.picks.map((p) => p.id), coords, a.model, a.modelId);
+    if (o.ok && s.reread) {
+      // Misfits of the location read again around their predicted times (core/scan/reread.ts).
+      const rs = rereadSites(pickSites, coords, sosFor);
+      const r = rereadMisfits(picks, qe.picks.map((p) => p.id), o.origin, rs, a.model, s.reread);
+      if (r.changes.length) {
+        const again = eventOrigin(ev.id, r.picks, r.picks.map((p) => pickId(ev.id, p)), coords, a.model, a.modelId);
+        if (again.ok) {
+          picks = r.picks;
+          qe = toQmlEvent(ev, picks, r.changes);
+          o = again;
+          for (const c of r.changes) summary.reread[c.pick ? 'replaced' : 'dropped']++;
+        }
+      }
+    }
     for (const p of picks) summary.picks[p.phaseHint]++;
-    const qe = toQmlEvent(ev, picks);
-    const o = eventOrigin(ev.id, picks, qe.picks.map((p) => p.id), coords, a.model, a.modelId);
     if (o.ok) {
       qe.origins.push(o.origin);
       qe.preferredOriginId = o.origin.id;
@@ -617,17 +634,23 @@ export async function magnitudeFor(
   return r;
 }
 
-function pickComment(p: Pick): string {
+function pickComment(p: Pick, reread: RereadChange | undefined): string {
   const snr = Number.isFinite(p.snr) ? p.snr.toFixed(1) : 'inf';
-  return `SNR ${snr}${p.questionableTiming ? '; questionable timing (record flags)' : ''}`;
+  const again = reread ? `; read again at the location's predicted ${reread.phase} (the first reading was ${reread.residual.toFixed(2)} s off)` : '';
+  return `SNR ${snr}${p.questionableTiming ? '; questionable timing (record flags)' : ''}${again}`;
 }
 
-export function toQmlEvent(ev: CandidateEvent, picks: readonly Pick[]): QmlEvent {
+/** One event's QuakeML; `reread`: the misfits read again (their new picks say so; dropped ones are named in the event's comment). */
+export function toQmlEvent(ev: CandidateEvent, picks: readonly Pick[], reread: readonly RereadChange[] = []): QmlEvent {
+  const dropped = reread.filter((c) => c.pick === null);
+  const dropNote = dropped.length
+    ? `; dropped as not fitting the location, with no onset above the noise at the predicted time: ${dropped.map((c) => `${c.id} (${c.residual.toFixed(2)} s off)`).join(', ')}`
+    : '';
   return {
     id: ev.id,
     type: null,
     typeCertainty: null,
-    comment: `automatic candidate: ${ev.sites.length} sites triggered (${ev.sites.join(' ')}), first at ${isoFromMicros(ev.time)}`,
+    comment: `automatic candidate: ${ev.sites.length} sites triggered (${ev.sites.join(' ')}), first at ${isoFromMicros(ev.time)}${dropNote}`,
     picks: picks.map((p) => ({
       id: pickId(ev.id, p),
       waveformId: p.waveformId,
@@ -639,7 +662,7 @@ export function toQmlEvent(ev: CandidateEvent, picks: readonly Pick[]): QmlEvent
       polarity: p.phaseHint === 'P' ? (p.polarity ?? 'undecidable') : null,
       evaluationMode: 'automatic',
       evaluationStatus: 'preliminary',
-      comment: pickComment(p),
+      comment: pickComment(p, reread.find((c) => c.pick === p)),
     })),
     origins: [],
     preferredOriginId: null,
@@ -669,6 +692,9 @@ export function summaryText(sm: ScanSummary, out: string): string {
   lines.push(`daybreak scan: ${sm.candidates} candidate event${sm.candidates === 1 ? '' : 's'}, ${sm.picks.P} P and ${sm.picks.S} S picks written to ${out}`);
   lines.push(`  settings: ${sm.settings}`);
   lines.push(`  located: ${sm.located} of ${sm.candidates} (an origin each)`);
+  if (sm.reread.replaced + sm.reread.dropped > 0) {
+    lines.push(`  picks the locations did not fit: ${sm.reread.replaced} read again at the predicted time, ${sm.reread.dropped} dropped (nothing there above the noise)`);
+  }
   lines.push(`  magnitudes: ${sm.magnitudes} of ${sm.located} located (ML, IASPEI 2013)${sm.magnitudeNotes.length ? `, ${sm.magnitudeNotes.length} channel amplitudes left out` : ''}`);
   lines.push(`  files: ${sm.files} miniSEED read${sm.skippedFiles.length ? `, ${sm.skippedFiles.length} skipped` : ''}`);
   lines.push(`  channels: ${sm.channels} with data, ${sm.skippedChannels.length} not used`);
