@@ -524,9 +524,14 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
     let o = eventOrigin(ev.id, picks, qe.picks.map((p) => p.id), coords, a.model, a.modelId);
     if (o.ok && s.reread) {
       // Misfits of the location read again around their predicted times (core/scan/reread.ts).
-      const rs = rereadSites(pickSites, coords, sosFor);
-      const r = rereadMisfits(picks, qe.picks.map((p) => p.id), o.origin, rs, a.model, s.reread);
-      if (r.changes.length) {
+      // A failure here (a site or solution the travel times refuse) keeps the picks as they were.
+      let r: ReturnType<typeof rereadMisfits> | null = null;
+      try {
+        r = rereadMisfits(picks, qe.picks.map((p) => p.id), o.origin, rereadSites(pickSites, coords, sosFor), a.model, s.reread);
+      } catch (e) {
+        qe.comment = `${qe.comment}; misfits not read again: ${(e as Error).message}`;
+      }
+      if (r && r.changes.length) {
         const again = eventOrigin(ev.id, r.picks, r.picks.map((p) => pickId(ev.id, p)), coords, a.model, a.modelId);
         if (again.ok) {
           picks = r.picks;
