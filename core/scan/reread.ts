@@ -10,7 +10,8 @@
  * arrival time its phase has at the site from the origin (`predictedArrivals`): P by the AIC on the
  * vertical, S by the joint AIC of the horizontals. The new reading replaces the misfit when it lies
  * within the window and its SNR reaches `minSnr`; otherwise the misfit is dropped (the P of such a
- * site lies in the noise, so nothing is read there rather than a wrong phase).
+ * site lies in the noise, so nothing is read there rather than a wrong phase). Where the data do not
+ * cover the window (a gap, the end of the files) the misfit stays as it is.
  *
  * A pick is a misfit when the location left it out as an outlier (arrival weight 0) or its residual
  * exceeds `misfitSeconds` and `misfitShare` of its travel time (model errors grow with distance).
@@ -147,29 +148,49 @@ export function rereadMisfits(
     }
     const w = Math.min(o.window, bound);
     const again = phase === 'P' ? readP(site, expected, w, o) : readS(site, pred, origin.time, w, o);
+    if (again === undefined) {
+      out.push(p); // no data around the predicted time: nothing to judge it by, so it stays
+      return;
+    }
     changes.push({ id: pickIds[i], phase, residual: a.timeResidual, pick: again });
     if (again) out.push(again);
   });
   return { picks: out, changes };
 }
 
-function within(p: Pick | null, expected: Micros, w: number, minSnr: number): Pick | null {
-  return p && Math.abs(p.time - expected) <= w * 1e6 && p.snr >= minSnr ? p : null;
+/**
+ * The reading when it lies within w of the expected time with an SNR of at least minSnr, else null;
+ * undefined when the picker had too little data there.
+ */
+function within(p: Pick | null, expected: Micros, w: number, minSnr: number): Pick | null | undefined {
+  if (!p) return undefined;
+  return Math.abs(p.time - expected) <= w * 1e6 && p.snr >= minSnr ? p : null;
 }
 
-/** P by the AIC on the vertical, from w + 0.5 s before the predicted time to w after it. */
-function readP(site: RereadSite, expected: Micros, w: number, o: RereadOptions): Pick | null {
+/** The trace covers [from, to] (µs). */
+function covers(t: Trace, from: Micros, to: Micros): boolean {
+  return t.start <= from && t.start + ((t.samples.length - 1) / t.sampleRate) * 1e6 >= to;
+}
+
+/**
+ * P by the AIC on the vertical, from w + 0.5 s before the predicted time to w after it; undefined
+ * when the data do not cover that window.
+ */
+function readP(site: RereadSite, expected: Micros, w: number, o: RereadOptions): Pick | null | undefined {
   const z = site.vertical(expected);
-  if (!z) return null;
+  if (!z || !covers(z, expected - Math.round((w + 0.5) * 1e6), expected + Math.round(w * 1e6))) return undefined;
   return within(pickP(z, expected, { ...o.onset, before: w + 0.5, after: w }), expected, w, o.minSnr);
 }
 
-/** S by the joint AIC of the horizontals, searched within w of the predicted time (and after P). */
-function readS(site: RereadSite, pred: PredictedArrival, originTime: Micros, w: number, o: RereadOptions): Pick | null {
+/**
+ * S by the joint AIC of the horizontals, searched within w of the predicted time (and after P);
+ * undefined when the data do not cover that window.
+ */
+function readS(site: RereadSite, pred: PredictedArrival, originTime: Micros, w: number, o: RereadOptions): Pick | null | undefined {
   const h = site.horizontals?.(pred.s);
-  if (!h) return null;
+  if (!h || !covers(h[0], pred.s - Math.round(w * 1e6), pred.s + Math.round(w * 1e6))) return undefined;
   const tp = (pred.p - originTime) / 1e6;
-  if (!(tp > 0)) return null;
+  if (!(tp > 0)) return undefined;
   // pickS searches [P + (vpVsMin - 1)·tp, P + (vpVsMax - 1)·tp]: set to the predicted S ± w, after P.
   const from = Math.max((pred.s - pred.p) / 1e6 - w, 0.05);
   const to = Math.max((pred.s - pred.p) / 1e6 + w, from + 0.05);

@@ -151,6 +151,14 @@ describe('rereadMisfits', () => {
     expect(kept.picks[0]).toBe(flagged);
   });
 
+  it('keeps a misfit where the data do not cover the window around its predicted time', () => {
+    const short = Z11.subarray(0, Math.round(((TP - START) / 1e6 - 1) * RATE)); // ends 1 s before the predicted P
+    const wrong = pick('P', TS, 'HHZ');
+    const r = rereadMisfits([wrong], ['ev.A.P'], origin([...GOOD, arrival('ev.A.P', 'P', 2.45, 0)]), site(short, null, null), MODEL);
+    expect(r.changes).toEqual([]);
+    expect(r.picks[0]).toBe(wrong);
+  });
+
   it('refuses pick ids that do not match the picks', () => {
     expect(() => rereadMisfits([pick('P', TP, 'HHZ')], [], origin(GOOD), new Map(), MODEL)).toThrow(/one to one/);
   });
