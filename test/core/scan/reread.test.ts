@@ -145,6 +145,13 @@ describe('rereadMisfits', () => {
     const wrong = rereadMisfits([p, sFar], ['ev.A.P', 'ev.A.S'], origin([...GOOD, arrival('ev.A.P', 'P', 0.75, 0), arrival('ev.A.S', 'S', 2, 0)]), site(z, n, e), MODEL);
     expect(wrong.changes.map((c) => c.id)).toEqual(['ev.A.P', 'ev.A.S']);
     expect(Math.abs(wrong.picks[0].time - TP) / 1e6).toBeLessThan(0.02);
+    // P on S (within 0.5 s of the predicted S) and the S after it as far off: not a clock.
+    const onS = pick('P', TS, 'HHZ');
+    const sCoda = pick('S', TS + 2_460_000, 'HHN');
+    const pair = rereadMisfits([onS, sCoda], ['ev.A.P', 'ev.A.S'], origin([...GOOD, arrival('ev.A.P', 'P', 2.45, 0), arrival('ev.A.S', 'S', 2.46, 0)]), site(z, n, e), MODEL);
+    expect(pair.changes.map((c) => c.id)).toEqual(['ev.A.P', 'ev.A.S']);
+    expect(Math.abs(pair.picks[0].time - TP) / 1e6).toBeLessThan(0.02);
+    expect(Math.abs(pair.picks[1].time - TS) / 1e6).toBeLessThan(0.03);
     const flagged = { ...pick('P', TS, 'HHZ'), questionableTiming: true };
     const kept = rereadMisfits([flagged], ['ev.A.P'], origin([...GOOD, arrival('ev.A.P', 'P', 2.45, 0)]), site(z, null, null), MODEL);
     expect(kept.changes).toEqual([]);
