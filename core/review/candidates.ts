@@ -8,6 +8,7 @@
  * - a known event the analyst has started, finished or discarded is left exactly as it is.
  */
 import { channelKey } from '../model';
+import { readPickComment } from '../quakeml/pickComment';
 import type { QmlEvent } from '../quakeml/types';
 import type { ReviewDocument, ReviewEvent, ReviewPick } from './types';
 
@@ -36,14 +37,14 @@ function picksOf(e: QmlEvent): ReviewPick[] {
       polarity: p.phaseHint === 'P' ? p.polarity ?? 'undecidable' : p.polarity,
       mode: p.evaluationMode,
       status: p.evaluationStatus,
-      snr: snrOf(p.comment),
-      questionableTiming: /timing questionable/.test(p.comment ?? ''),
+      ...commentFlags(p.comment),
     }));
 }
 
-function snrOf(comment: string | undefined): number | null {
-  const m = /snr ([0-9.]+)/.exec(comment ?? '');
-  return m ? Number(m[1]) : null;
+/** SNR and the timing flag from a pick's comment (core/quakeml pickComment); a non-finite SNR as null. */
+function commentFlags(comment: string | undefined): { snr: number | null; questionableTiming: boolean } {
+  const { snr, questionableTiming } = readPickComment(comment);
+  return { snr: snr !== null && Number.isFinite(snr) ? snr : null, questionableTiming };
 }
 
 function span(picks: readonly ReviewPick[], fallback: [number, number]): [number, number] {

@@ -12,6 +12,7 @@ import { isoFromMicros } from '../time';
 import { writeQuakeMl, type QuakeMlWriteOptions } from '../quakeml/write';
 import type { QmlEvent, QmlOrigin } from '../quakeml/types';
 import { originFromHypocentre } from '../quakeml/fromHypocentre';
+import { pickComment } from '../quakeml/pickComment';
 import type { ReviewLocation } from '../location/fromReview';
 import { quakemlStatus } from './types';
 import type { EvaluationStatus } from '../pick/types';
@@ -62,7 +63,7 @@ export function reviewEventsToQuakeMl(doc: ReviewDocument, locations?: ReadonlyM
         polarity: p.polarity,
         evaluationMode: p.mode,
         evaluationStatus: pickStatus(ev, p),
-        comment: p.snr !== null ? `snr ${p.snr.toFixed(1)}${p.questionableTiming ? '; record timing questionable' : ''}` : p.questionableTiming ? 'record timing questionable' : undefined,
+        comment: pickComment(p.snr, p.questionableTiming),
       })),
       origins: origin ? [origin] : [],
       preferredOriginId: origin ? origin.id : null,

@@ -33,7 +33,7 @@ import { isMiniSeed3, looksLikeRecordStart } from '../../../core/mseed';
 import { parseStationXml, findChannel, missingMetadata, type Inventory } from '../../../core/stationxml';
 import { designForChannel, verticalPolarity } from '../../../core/dsp';
 import { chooseSiteStreams, coincidence, type CandidateEvent, type OriginPick, type Pick, type SitePosition, type StationTrigger } from '../../../core/pick';
-import { writeQuakeMl, type QmlEvent, type QmlOrigin } from '../../../core/quakeml';
+import { pickComment, writeQuakeMl, type QmlEvent, type QmlOrigin } from '../../../core/quakeml';
 import {
   channelResponse, eventMagnitude, magnitudeOrigin, stationWindows, type EventMagnitude, type HorizontalTrace, type MagnitudeStation,
 } from '../../../core/magnitude';
@@ -639,10 +639,10 @@ export async function magnitudeFor(
   return r;
 }
 
-function pickComment(p: Pick, reread: RereadChange | undefined): string {
-  const snr = Number.isFinite(p.snr) ? p.snr.toFixed(1) : 'inf';
-  const again = reread ? `; read again at the location's predicted ${reread.phase} (the first reading was ${reread.residual.toFixed(2)} s off)` : '';
-  return `SNR ${snr}${p.questionableTiming ? '; questionable timing (record flags)' : ''}${again}`;
+/** The pick's comment (core/quakeml pickComment), saying when it was read again at the location's prediction. */
+function scanPickComment(p: Pick, reread: RereadChange | undefined): string | undefined {
+  const again = reread ? `read again at the location's predicted ${reread.phase} (the first reading was ${reread.residual.toFixed(2)} s off)` : '';
+  return pickComment(p.snr, p.questionableTiming, again);
 }
 
 /** One event's QuakeML; `reread`: the misfits read again (their new picks say so; dropped ones are named in the event's comment). */
@@ -667,7 +667,7 @@ export function toQmlEvent(ev: CandidateEvent, picks: readonly Pick[], reread: r
       polarity: p.phaseHint === 'P' ? (p.polarity ?? 'undecidable') : null,
       evaluationMode: 'automatic',
       evaluationStatus: 'preliminary',
-      comment: pickComment(p, reread.find((c) => c.pick === p)),
+      comment: scanPickComment(p, reread.find((c) => c.pick === p)),
     })),
     origins: [],
     preferredOriginId: null,

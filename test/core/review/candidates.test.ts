@@ -43,3 +43,24 @@ describe('mergeCandidates', () => {
     expect(r.doc.events.find((e) => e.id === 'ev-a')).toBe(before);
   });
 });
+
+describe('candidates from daybreak scan\'s own QuakeML', () => {
+  it('keep the SNR and the questionable-timing flag the scan wrote in each pick\'s comment', async () => {
+    const { toQmlEvent } = await import('../../../electron/host/cli/scan');
+    const { readQuakeMl, writeQuakeMl } = await import('../../../core/quakeml');
+    const base = {
+      waveformId: { network: 'XX', station: 'MARW', location: '00', channel: 'HHZ' }, lowerUncertainty: 0.05, upperUncertainty: 0.02,
+      onset: 'emergent', polarity: 'positive', evaluationMode: 'automatic', evaluationStatus: 'preliminary',
+    } as const;
+    const ev = toQmlEvent(
+      { id: 'XX.20261115T030133', time: T('10.00'), start: T('10.00'), end: T('20.00'), sites: ['XX.MARW', 'XX.DUNM', 'XX.RAVN'], triggers: [], secondary: [] },
+      [
+        { ...base, phaseHint: 'P', time: T('12.00'), snr: 2.84, questionableTiming: true },
+        { ...base, phaseHint: 'P', waveformId: { ...base.waveformId, station: 'DUNM' }, time: T('11.00'), snr: 47.3, questionableTiming: false },
+      ],
+    );
+    const xml = writeQuakeMl({ events: [ev] }, { authority: 'daybreak.test', agencyId: 'XX', author: 'test', creationTime: 0, version: 'test' });
+    const picks = mergeCandidates(EMPTY_REVIEW, readQuakeMl(xml, 'scan.xml').events).doc.events[0].picks;
+    expect(picks.map((p) => [p.channel, p.snr, p.questionableTiming])).toEqual([['XX.MARW.00.HHZ', 2.8, true], ['XX.DUNM.00.HHZ', 47.3, false]]);
+  });
+});
