@@ -10,8 +10,10 @@
  *    bends rays towards the vertical), so its energy is mostly on the vertical; S energy is mostly
  *    horizontal. The horizontal share of the energy in the `shareSeconds` after an onset, each
  *    channel's pre-onset noise energy removed (`horizontalShare`), tells them apart; above
- *    `sShare` the onset is taken as S. (Three-component polarization to tell P from S is a published
- *    idea: e.g. Cichowicz, 1993, BSSA 83(1), 180-189 - from memory.)
+ *    `sShare` the onset is taken as S. A site without horizontals has no particle motion: its onset
+ *    is taken as S when it comes later than more than half of the other sites' onsets allow for a
+ *    P (tooLateForP: the bound of networkFirst). (Three-component polarization to tell P from S is
+ *    a published idea: e.g. Cichowicz, 1993, BSSA 83(1), 180-189 - from memory.)
  * 2. An onset taken as S is picked as S (joint AIC of the horizontals around it), and P is sought
  *    before it: AIC on the vertical from `maxSMinusP` seconds before S (but not before the time the
  *    sites whose onsets were taken as P allow: their P less distance / vMin less slack) to 0.2 s
@@ -240,6 +242,9 @@ export function pickEventSites(sites: readonly EventSite[], options: Partial<Eve
     if (!p || p.snr < o.minSnr) continue;
     states.push({ site, onset: p.time, p, sLike: isSLike(site, p.time, o) });
   }
+  // Vertical-only sites have no particle motion to tell S by: an onset there that comes later than
+  // most of the other sites' onsets allow for P is taken as S (step 1, by moveout).
+  markLateVerticalOnly(states, o);
   // Onsets taken as S: P is sought before them.
   const anchors = states.filter((s) => !s.sLike);
   for (const s of states) {
@@ -345,6 +350,35 @@ function rereadDistantS(make: () => readonly [Trace, Trace] | null, pTime: Micro
   const to = (sp.time - pTime) / 1e6 + o.distantS.after;
   const r = pickS(h[0], h[1], pTime, { vpVsMin: 2, vpVsMax: 2, pTravelTime: { min: from, max: to } }, o.onset);
   return r && r.snr >= o.minSnr ? r : sp;
+}
+
+/**
+ * Step 1 for sites without horizontals: an onset there is taken as S when it comes later than at
+ * least half of the other sites' onsets taken as P allow for a P (`tooLateForP`), with at least
+ * three such sites to judge by. A P read on S at a vertical-only site, where P lay in the noise,
+ * otherwise stays a P seconds late and pulls the event's location (Daybreak's rule; README,
+ * "Automatic locations").
+ */
+function markLateVerticalOnly(states: SiteState[], o: EventPickOptions): void {
+  const others = states.filter((s) => !s.sLike);
+  for (const s of states) {
+    if (s.sLike || s.site.horizontals) continue;
+    const judges = others.filter((b) => b !== s).map((b) => ({ time: b.onset, position: b.site.position }));
+    if (judges.length >= 3 && tooLateForP({ time: s.onset, position: s.site.position }, judges, o)) s.sLike = true;
+  }
+}
+
+/**
+ * True when onset `a` (µs) comes later than more than half of the `others` allow for a P: each
+ * other onset's time plus the two sites' distance at `firstPSpeed` plus `slack` (the bound
+ * networkFirst uses for two P onsets that agree).
+ */
+export function tooLateForP(
+  a: { time: Micros; position: SitePosition }, others: readonly { time: Micros; position: SitePosition }[],
+  o: { readonly firstPSpeed: number; readonly slack: number },
+): boolean {
+  const late = others.filter((b) => a.time > b.time + Math.round((siteDistanceKm(a.position, b.position) / o.firstPSpeed + o.slack) * 1e6)).length;
+  return 2 * late > others.length;
 }
 
 function isSLike(site: EventSite, time: Micros, o: EventPickOptions): boolean {

@@ -3,7 +3,7 @@ import { designForChannel } from '../../../core/dsp/designForChannel';
 import { rotateToNorthEast } from '../../../core/dsp/rotate';
 import { sosfilt } from '../../../core/dsp/sosfilt';
 import { horizontalShare, LOCAL_EVENT_PICKING, pickEventSites, type EventSite, type Pick, type Trace } from '../../../core/pick';
-import { networkFirst } from '../../../core/pick/eventSites';
+import { networkFirst, tooLateForP } from '../../../core/pick/eventSites';
 import { renderStation } from '../../../core/synth/render';
 import { stationTruth, type TruthArrival } from '../../../core/synth/truth';
 import { quake, ringStations, tinyScenario } from '../synth/scenarioFixtures';
@@ -38,6 +38,23 @@ describe('networkFirst (the network first P that bounds every S window)', () => 
   it('skips an onset below minSnr (2) however well it agrees, and falls back to the earliest when none qualifies', () => {
     expect(networkFirst([at(0, 3, 1.5), ...rest], LOCAL_EVENT_PICKING)).toBe(5_580_000);
     expect(networkFirst([at(0, 0), at(100, 60)], LOCAL_EVENT_PICKING)).toBe(0);
+  });
+});
+
+// Worked by hand: a homogeneous half-space (vp 6, vs 3.5 km/s), the source 5 km deep under x = 0,
+// sites on a line at the surface; straight rays, so an arrival at x comes sqrt(x^2 + 25) / v after
+// the origin (Pythagoras). P at x = 2, 10, 20 km: 0.898, 1.863, 3.436 s. At x = 48 km, P 8.043 s and
+// S 13.789 s. Bounds for a P at 48 km (distance / 5 km/s + 1 s): 11.098, 10.463, 10.036 s.
+describe('tooLateForP (an onset at a vertical-only site that is S, by moveout)', () => {
+  const at = (x: number, t: number) => ({ time: Math.round(t * 1e6), position: { x, y: 0 } });
+  const ps = [at(2, Math.sqrt(4 + 25) / 6), at(10, Math.sqrt(100 + 25) / 6), at(20, Math.sqrt(400 + 25) / 6)];
+  it('takes the S at 48 km (13.789 s) as too late for a P, and the P there (8.043 s) as not', () => {
+    expect(tooLateForP(at(48, Math.sqrt(2304 + 25) / 3.5), ps, LOCAL_EVENT_PICKING)).toBe(true);
+    expect(tooLateForP(at(48, Math.sqrt(2304 + 25) / 6), ps, LOCAL_EVENT_PICKING)).toBe(false);
+  });
+  it('needs more than half of the others to say so (10.5 s: later than two bounds of three; 10.3 s: one)', () => {
+    expect(tooLateForP(at(48, 10.5), ps, LOCAL_EVENT_PICKING)).toBe(true);
+    expect(tooLateForP(at(48, 10.3), ps, LOCAL_EVENT_PICKING)).toBe(false);
   });
 });
 
