@@ -6,7 +6,7 @@
  * located, no magnitude) come last whichever way the list is sorted. Next/previous follow the list
  * as shown. Click, or the keys of the key map, to open and to change the order.
  */
-import { isoFromMicros } from '../core/time';
+import { isoFromMicros, type Micros } from '../core/time';
 import { REVIEW_STATES, type ReviewEvent, type ReviewState } from '../core/review';
 import { el } from './dom';
 
@@ -41,24 +41,40 @@ export function sitesWithPicks(e: ReviewEvent): number {
 }
 
 /**
+ * The time the list shows and sorts an event by: its earliest P pick that is not rejected, else its
+ * earliest such pick, else the start of its window (a detector's candidate window opens 20 s before
+ * its first pick, which would put the event 20 s early in the list).
+ */
+export function eventTime(e: ReviewEvent): Micros {
+  let p = Infinity;
+  let any = Infinity;
+  for (const k of e.picks) {
+    if (k.status === 'rejected') continue;
+    if (k.time < any) any = k.time;
+    if (k.phase === 'P' && k.time < p) p = k.time;
+  }
+  return Number.isFinite(p) ? p : Number.isFinite(any) ? any : e.start;
+}
+
+/**
  * `events` in list order for `key` (`descending` flips it); events lacking the key's value go last, in
  * time order. Ties are broken by time. `measure` gives RMS and magnitude.
  */
 export function sortEvents(events: readonly ReviewEvent[], key: SortKey, descending: boolean, measure: (e: ReviewEvent) => EventMeasure): ReviewEvent[] {
   const value = (e: ReviewEvent): number | null => {
     switch (key) {
-      case 'time': return e.start;
+      case 'time': return eventTime(e);
       case 'state': return REVIEW_STATES.indexOf(e.state);
       case 'sites': return sitesWithPicks(e);
       case 'rms': return measure(e).rmsS;
       case 'magnitude': return measure(e).ml;
     }
   };
-  const keyed = events.map((e) => ({ e, v: value(e) }));
+  const keyed = events.map((e) => ({ e, v: value(e), t: eventTime(e) }));
   const sign = descending ? -1 : 1;
   keyed.sort((a, b) => {
-    if (a.v === null || b.v === null) return a.v === b.v ? a.e.start - b.e.start : a.v === null ? 1 : -1;
-    return sign * (a.v - b.v) || a.e.start - b.e.start;
+    if (a.v === null || b.v === null) return a.v === b.v ? a.t - b.t : a.v === null ? 1 : -1;
+    return sign * (a.v - b.v) || a.t - b.t;
   });
   return keyed.map((k) => k.e);
 }
@@ -191,7 +207,7 @@ export class EventList {
       const m = this.measure(e);
       const mark = (k: SortKey, text: string) => withData(el('span', { className: k === this.key ? 'sort-value' : '' }, text), { key: k });
       const li = withData(el('li', { tabIndex: 0, className: `state-${e.state}${e.id === this.current ? ' current' : ''}` },
-        el('span', { className: 'ev-time' }, mark('time', isoFromMicros(e.start).slice(11, 19))),
+        el('span', { className: 'ev-time' }, mark('time', isoFromMicros(eventTime(e)).slice(11, 19))),
         el('span', { className: 'ev-state' }, mark('state', STATE_LABEL[e.state])),
         el('span', { className: 'ev-info' },
           mark('sites', `${sites} site${sites === 1 ? '' : 's'}`), ` \u00b7 ${e.picks.length} picks${e.type ? ` \u00b7 ${e.type}` : ''}`),

@@ -14,6 +14,12 @@ const REAL = resolve(__dirname, '..', '..', '..', 'shared', 'data', 'real-micros
 interface SavedPick { id: string; phase: string; channel: string; time: string; lower: number; upper: number; onset: string; polarity: string | null; mode: string }
 interface Saved { revision: number; events: { id: string; start: string; end: string; state: string; note: string; picks: SavedPick[] }[] }
 
+/** The time the event list shows for a saved event (its earliest P pick, else its earliest pick, else its start), hh:mm:ss. */
+function listTime(e: Saved['events'][number]): string {
+  const first = (list: SavedPick[]) => list.map((p) => p.time).sort()[0];
+  return (first(e.picks.filter((p) => p.phase === 'P')) ?? first(e.picks) ?? e.start).slice(11, 19);
+}
+
 describe('editing picks in the review desk (Chromium, browser mode)', () => {
   let app: RunningApp;
   let data: string;
@@ -148,7 +154,7 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     let s = await savedWhen((x) => x.events.length === 2);
     const [first, second] = s.events;
     expect(second.picks).toEqual([]);
-    await app.page.locator('.event-list li', { hasText: first.start.slice(11, 19) }).click();
+    await app.page.locator('.event-list li', { hasText: listTime(first) }).click();
     await app.page.getByRole('button', { name: 'Merge next' }).click();
     s = await savedWhen((x) => x.events.length === 1);
     expect(s.events[0]).toMatchObject({ id: first.id, start: first.start, end: second.end });
@@ -164,7 +170,7 @@ describe('editing picks in the review desk (Chromium, browser mode)', () => {
     await app.page.keyboard.press('Control+z');
     await app.page.keyboard.press('Control+z');
     s = await savedWhen((x) => x.events.length === 2 && x.events[1].picks.length === 0 && x.events[0].end === first.end);
-    await app.page.locator('.event-list li', { hasText: first.start.slice(11, 19) }).click();
+    await app.page.locator('.event-list li', { hasText: listTime(first) }).click();
   });
 
   it('keeps every edit across a reload and resumes on the event', async () => {
