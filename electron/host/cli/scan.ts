@@ -44,8 +44,9 @@ import { atomicTempPath, removeStaleTemps } from '../atomicTemp';
 import { TriggerStream } from '../../../core/scan/triggerStream';
 import { eventPicks, pickId, rereadSites, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
 import { earliestOriginFromP, eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';
+import { leaveOutDuplicates } from '../../../core/scan/duplicates';
 import { rereadMisfits, type RereadChange } from '../../../core/scan/reread';
-import { DEFAULT_MODEL, parseVelocityModel, type VelocityModel } from '../../../core/location';
+import { DEFAULT_MODEL, parseVelocityModel, predictedArrivals, type VelocityModel } from '../../../core/location';
 import { listFiles } from '../mseedFiles';
 import { indexFile, readWindow, type IndexedFile } from '../scan/recordFiles';
 import { duration } from './info';
@@ -284,6 +285,8 @@ export interface ScanSummary {
   /** Located events with a local magnitude. */
   magnitudes: number;
   picks: { P: number; S: number };
+  /** Candidates left out as another candidate read twice: "ID (the same picks as ID)". */
+  duplicates: string[];
   /** Picks the location did not fit, read again: replaced by a new reading, or dropped. */
   reread: { replaced: number; dropped: number };
   skippedChannels: { id: string; why: string }[];
@@ -327,7 +330,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   let s = a.settings;
   const bar = a.progress === 'bar' ? progressBar(process.stderr) : a.progress === 'lines' ? progressLines(process.stderr) : null;
   const summary: ScanSummary = {
-    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, reread: { replaced: 0, dropped: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
+    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, duplicates: [], reread: { replaced: 0, dropped: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
   };
   let bad = false;
 
@@ -557,8 +560,28 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
     qmlEvents.push(qe);
   }
 
+  // One event read twice (straggling triggers, or a regional event's S triggering again) is written
+  // once: the copy whose origin fits better (core/scan/duplicates.ts).
+  const siteLocations = new Map([...coords].map(([k, c]) => [k, { latitude: c.latitude, longitude: c.longitude, elevation: c.elevationM }]));
+  const predict = (e: QmlEvent, site: string) => {
+    const o = e.origins.find((x) => x.id === e.preferredOriginId) ?? e.origins[0];
+    const loc = siteLocations.get(site);
+    if (!o || !loc) return null;
+    const at = predictedArrivals({ originTime: o.time, latDeg: o.latitude, lonDeg: o.longitude, depthKm: o.depthM / 1000 }, new Map([[site, loc]]), a.model).get(site);
+    return at ? { P: at.p, S: at.s } : null;
+  };
+  const { kept, dropped } = leaveOutDuplicates(qmlEvents, predict);
+  if (dropped.length) {
+    summary.duplicates = dropped.map((d) => `${d.id} (the same picks as ${d.duplicateOf})`);
+    summary.candidates = kept.length;
+    summary.picks = { P: 0, S: 0 };
+    for (const e of kept) for (const p of e.picks) summary.picks[p.phaseHint === 'S' ? 'S' : 'P']++;
+    summary.located = kept.filter((e) => e.origins.length > 0).length;
+    summary.magnitudes = kept.filter((e) => (e.magnitudes?.length ?? 0) > 0).length;
+  }
+
   // Output, atomically.
-  const xml = writeQuakeMl({ events: qmlEvents }, {
+  const xml = writeQuakeMl({ events: kept }, {
     authority: a.authority, agencyId: a.agency, author: a.author, creationTime: Date.now() * 1000, version: 'daybreak scan 0.1',
   });
   bar?.done();
@@ -697,6 +720,7 @@ export function summaryText(sm: ScanSummary, out: string): string {
   lines.push(`daybreak scan: ${sm.candidates} candidate event${sm.candidates === 1 ? '' : 's'}, ${sm.picks.P} P and ${sm.picks.S} S picks written to ${out}`);
   lines.push(`  settings: ${sm.settings}`);
   lines.push(`  located: ${sm.located} of ${sm.candidates} (an origin each)`);
+  if (sm.duplicates.length) lines.push(`  left out as the same event read twice: ${sm.duplicates.length} (${sm.duplicates.join(', ')})`);
   if (sm.reread.replaced + sm.reread.dropped > 0) {
     lines.push(`  picks the locations did not fit: ${sm.reread.replaced} read again at the predicted time, ${sm.reread.dropped} dropped (nothing there above the noise)`);
   }
