@@ -61,16 +61,19 @@ export function eventTime(e: ReviewEvent): Micros {
  * time order. Ties are broken by time. `measure` gives RMS and magnitude.
  */
 export function sortEvents(events: readonly ReviewEvent[], key: SortKey, descending: boolean, measure: (e: ReviewEvent) => EventMeasure): ReviewEvent[] {
-  const value = (e: ReviewEvent): number | null => {
+  const value = (e: ReviewEvent, t: Micros): number | null => {
     switch (key) {
-      case 'time': return eventTime(e);
+      case 'time': return t;
       case 'state': return REVIEW_STATES.indexOf(e.state);
       case 'sites': return sitesWithPicks(e);
       case 'rms': return measure(e).rmsS;
       case 'magnitude': return measure(e).ml;
     }
   };
-  const keyed = events.map((e) => ({ e, v: value(e), t: eventTime(e) }));
+  const keyed = events.map((e) => {
+    const t = eventTime(e);
+    return { e, v: value(e, t), t };
+  });
   const sign = descending ? -1 : 1;
   keyed.sort((a, b) => {
     if (a.v === null || b.v === null) return a.v === b.v ? a.t - b.t : a.v === null ? 1 : -1;

@@ -311,7 +311,7 @@ export function networkFirst(onsets: readonly { time: Micros; position: SitePosi
   const sorted = [...onsets].sort((a, b) => a.time - b.time);
   for (const a of sorted) {
     if (!(a.snr >= o.minSnr)) continue;
-    const agree = sorted.filter((b) => b !== a && Math.abs(b.time - a.time) <= Math.round((siteDistanceKm(a.position, b.position) / o.firstPSpeed + o.slack) * 1e6)).length;
+    const agree = sorted.filter((b) => b !== a && Math.abs(b.time - a.time) <= pSpread(a.position, b.position, o)).length;
     if (agree > 0 && 2 * agree >= sorted.length - 1) return a.time;
   }
   return sorted[0].time;
@@ -377,8 +377,16 @@ export function tooLateForP(
   a: { time: Micros; position: SitePosition }, others: readonly { time: Micros; position: SitePosition }[],
   o: { readonly firstPSpeed: number; readonly slack: number },
 ): boolean {
-  const late = others.filter((b) => a.time > b.time + Math.round((siteDistanceKm(a.position, b.position) / o.firstPSpeed + o.slack) * 1e6)).length;
+  const late = others.filter((b) => a.time > b.time + pSpread(a.position, b.position, o)).length;
   return 2 * late > others.length;
+}
+
+/**
+ * The most two P onsets of one event at sites a and b can lie apart, µs: the sites' distance at
+ * `firstPSpeed` plus `slack` (networkFirst's module comment says why).
+ */
+function pSpread(a: SitePosition, b: SitePosition, o: { readonly firstPSpeed: number; readonly slack: number }): Micros {
+  return Math.round((siteDistanceKm(a, b) / o.firstPSpeed + o.slack) * 1e6);
 }
 
 function isSLike(site: EventSite, time: Micros, o: EventPickOptions): boolean {

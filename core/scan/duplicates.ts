@@ -16,8 +16,10 @@
  * pairs, whose shared picks lie within 0.00-0.11 s of each other.
  */
 import { stationKey } from '../model';
-import type { QmlEvent } from '../quakeml';
+import type { SiteLocation, VelocityModel } from '../location';
+import type { QmlEvent, QmlOrigin } from '../quakeml';
 import type { Micros } from '../time';
+import { originArrivals } from './reread';
 
 /** Picks this close (s) at the same site are the same onset read twice. */
 export const SAME_ONSET_S = 0.15;
@@ -42,7 +44,7 @@ function sharedShare(a: QmlEvent, b: QmlEvent, seconds: number): number {
 
 /** The preferred origin's standard error, s; Infinity when not located. */
 function fit(e: QmlEvent): number {
-  const o = e.origins.find((x) => x.id === e.preferredOriginId) ?? e.origins[0];
+  const o = preferredOrigin(e);
   return o?.quality?.standardError ?? (o ? 1e6 : Infinity);
 }
 
@@ -59,6 +61,21 @@ export const JOIN_S = 0.5;
 
 /** Predicted P and S times (µs) of an event's preferred origin at a site ("NET.STA"), or null. */
 export type ArrivalPredictor = (e: QmlEvent, site: string) => { P: Micros; S: Micros } | null;
+
+/** The predictor from each event's preferred origin, for sites at `locations`, in `model`. */
+export function originPredictor(locations: ReadonlyMap<string, SiteLocation>, model: VelocityModel): ArrivalPredictor {
+  return (e, site) => {
+    const o = preferredOrigin(e);
+    const loc = locations.get(site);
+    if (!o || !loc) return null;
+    const at = originArrivals(o, new Map([[site, loc]]), model).get(site);
+    return at ? { P: at.p, S: at.s } : null;
+  };
+}
+
+function preferredOrigin(e: QmlEvent): QmlOrigin | undefined {
+  return e.origins.find((x) => x.id === e.preferredOriginId) ?? e.origins[0];
+}
 
 /** Leaves out candidates that duplicate another, moving their fitting extra picks over (module comment). */
 export function leaveOutDuplicates(

@@ -18,7 +18,9 @@
  * thresholds are ours, not tuned): on those nights the 90th percentile of the epicentral error fell
  * from 0.47 to 0.20 km and of the depth error from 0.99 to 0.24-0.33 km (README).
  */
-import { locate, MIN_PHASES, QUESTIONABLE_FACTOR, type LocateResult, type LocationPick, type LocationStation, type VelocityModel } from '../location';
+import {
+  locate, MIN_PHASES, QUESTIONABLE_FACTOR, type LocateResult, type LocationPick, type LocationStation, type SiteLocation, type VelocityModel,
+} from '../location';
 import type { Pick } from '../pick';
 import { originFromHypocentre, type QmlOrigin } from '../quakeml';
 import type { Micros } from '../time';
@@ -29,6 +31,11 @@ export interface SiteCoordinates {
   readonly latitude: number;
   readonly longitude: number;
   readonly elevationM: number;
+}
+
+/** A site as core/location's predictions take it. */
+export function siteLocation(s: SiteCoordinates): SiteLocation {
+  return { latitude: s.latitude, longitude: s.longitude, elevation: s.elevationM };
 }
 
 /** The locator's station for a site. */

@@ -25,7 +25,7 @@ import { designForChannel } from '../dsp/designForChannel';
 import { filterSegments } from '../dsp/filterSegments';
 import { rotateToNorthEast } from '../dsp/rotate';
 import { pickEventSites, type CandidateEvent, type EventSite, type OriginPick, type Pick, type SitePosition, type Trace } from '../pick';
-import type { SiteCoordinates } from './eventOrigin';
+import type { SiteLocation } from '../location';
 import type { RereadSite } from './reread';
 import type { ScanSettings } from './settings';
 
@@ -167,19 +167,19 @@ export function pickId(eventId: string, p: Pick): string {
 }
 
 /**
- * The sites' traces for reading misfits again (reread.ts), prepared as for picking: `coords` gives
- * where each site is, `sosFor` the filter for a sample rate. Sites without coordinates are left out.
+ * The sites' traces for reading misfits again (reread.ts), prepared as for picking: `locations` gives
+ * where each site is, `sosFor` the filter for a sample rate. Sites without a location are left out.
  */
 export function rereadSites(
-  sites: ReadonlyMap<string, PickSite>, coords: ReadonlyMap<string, SiteCoordinates>, sosFor: (sampleRate: number) => Float64Array,
+  sites: ReadonlyMap<string, PickSite>, locations: ReadonlyMap<string, SiteLocation>, sosFor: (sampleRate: number) => Float64Array,
 ): Map<string, RereadSite> {
   const out = new Map<string, RereadSite>();
+  const rateAt = (segments: readonly Segment[], t: Micros) => segmentAt(segments, t)?.sampleRate ?? null;
   for (const [key, site] of sites) {
-    const c = coords.get(key);
-    if (!c) continue;
-    const rateAt = (segments: readonly Segment[], t: Micros) => segmentAt(segments, t)?.sampleRate ?? null;
+    const location = locations.get(key);
+    if (!location) continue;
     out.set(key, {
-      location: { latitude: c.latitude, longitude: c.longitude, elevation: c.elevationM },
+      location,
       vertical: (t) => {
         const rate = rateAt(site.vertical.segments, t);
         return rate === null ? null : verticalTrace(site, sosFor(rate), t);

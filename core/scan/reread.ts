@@ -110,9 +110,7 @@ export function rereadMisfits(
   if (!(sw > 0 && Math.sqrt(swr / sw) <= o.maxRms)) return unchanged;
   const locations = new Map<string, SiteLocation>();
   for (const [key, s] of sites) locations.set(key, s.location);
-  const predicted = predictedArrivals(
-    { originTime: origin.time, latDeg: origin.latitude, lonDeg: origin.longitude, depthKm: origin.depthM / 1000 }, locations, model,
-  );
+  const predicted = originArrivals(origin, locations, model);
   const arrivalOf = new Map(origin.arrivals.map((a) => [a.pickId, a]));
   // Sites whose P and S are off by the same time: a clock, not a wrong phase (module comment).
   // A "P" read on S, with the S after it read in the S coda, can be off by about the same time too
@@ -163,6 +161,11 @@ export function rereadMisfits(
     if (again) out.push(again);
   });
   return { picks: out, changes };
+}
+
+/** First P and S times a QuakeML origin predicts at each site (core/location predictedArrivals). */
+export function originArrivals(origin: QmlOrigin, sites: ReadonlyMap<string, SiteLocation>, model: VelocityModel): Map<string, PredictedArrival> {
+  return predictedArrivals({ originTime: origin.time, latDeg: origin.latitude, lonDeg: origin.longitude, depthKm: origin.depthM / 1000 }, sites, model);
 }
 
 /**

@@ -43,10 +43,10 @@ import { choosePreset } from '../../../core/scan/presetChoice';
 import { atomicTempPath, removeStaleTemps } from '../atomicTemp';
 import { TriggerStream } from '../../../core/scan/triggerStream';
 import { eventPicks, pickId, rereadSites, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
-import { earliestOriginFromP, eventOrigin, type SiteCoordinates } from '../../../core/scan/eventOrigin';
-import { leaveOutDuplicates } from '../../../core/scan/duplicates';
+import { earliestOriginFromP, eventOrigin, siteLocation, type SiteCoordinates } from '../../../core/scan/eventOrigin';
+import { leaveOutDuplicates, originPredictor } from '../../../core/scan/duplicates';
 import { rereadMisfits, type RereadChange } from '../../../core/scan/reread';
-import { DEFAULT_MODEL, parseVelocityModel, predictedArrivals, type VelocityModel } from '../../../core/location';
+import { DEFAULT_MODEL, parseVelocityModel, type VelocityModel } from '../../../core/location';
 import { listFiles } from '../mseedFiles';
 import { indexFile, readWindow, type IndexedFile } from '../scan/recordFiles';
 import { duration } from './info';
@@ -474,7 +474,6 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   const networks = [...new Set([...sites.values()].map((x) => x.vertical.network))].sort();
   const network = networks.length === 1 && /^[A-Za-z0-9_-]{1,16}$/.test(networks[0]) ? networks[0] : 'NET';
   const events: CandidateEvent[] = triggers.length ? coincidence(triggers, positions, { minSites: s.minSites, vMin: s.vMin, slack: s.slack, network }) : [];
-  summary.candidates = events.length;
 
   // Pass 2: picks per event, at every site whose data covers it (sites that did not trigger are
   // searched with pickEventSites' lower re-trigger level).
@@ -483,6 +482,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   const vpVsMax = s.sWindow.vpVsMax ?? 2.0;
   const lta = s.staLta.lta ?? 60;
   const coords = new Map([...sites.values()].map((x) => [x.key, x.coordinates]));
+  const locations = new Map([...coords].map(([key, c]) => [key, siteLocation(c)]));
   const earliestOrigin = (pp: readonly OriginPick[]) => earliestOriginFromP(pp, coords, a.model, s.maxPTravelTime);
   const qmlEvents: QmlEvent[] = [];
   for (let k = 0; k < events.length; k++) {
@@ -530,7 +530,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
       // A failure here (a site or solution the travel times refuse) keeps the picks as they were.
       let r: ReturnType<typeof rereadMisfits> | null = null;
       try {
-        r = rereadMisfits(picks, qe.picks.map((p) => p.id), o.origin, rereadSites(pickSites, coords, sosFor), a.model, s.reread);
+        r = rereadMisfits(picks, qe.picks.map((p) => p.id), o.origin, rereadSites(pickSites, locations, sosFor), a.model, s.reread);
       } catch (e) {
         qe.comment = `${qe.comment}; misfits not read again: ${(e as Error).message}`;
       }
@@ -544,41 +544,32 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
         }
       }
     }
-    for (const p of picks) summary.picks[p.phaseHint]++;
     if (o.ok) {
       qe.origins.push(o.origin);
       qe.preferredOriginId = o.origin.id;
-      summary.located++;
-      const ml = await magnitudeFor(qe, o.origin, [...sites.values()], async (want, from, to) => {
-        const got = await readWindow(files, want, from, to);
-        noteErrors(got.errors);
-        return got.channels;
-      }, inv);
-      for (const sk of ml.skipped) summary.magnitudeNotes.push(`${sk.key}: ${sk.why}`);
-      if (ml.magnitude) summary.magnitudes++;
     } else qe.comment = `${qe.comment}; not located: ${o.message}`;
     qmlEvents.push(qe);
   }
 
   // One event read twice (straggling triggers, or a regional event's S triggering again) is written
-  // once: the copy whose origin fits better (core/scan/duplicates.ts).
-  const siteLocations = new Map([...coords].map(([k, c]) => [k, { latitude: c.latitude, longitude: c.longitude, elevation: c.elevationM }]));
-  const predict = (e: QmlEvent, site: string) => {
-    const o = e.origins.find((x) => x.id === e.preferredOriginId) ?? e.origins[0];
-    const loc = siteLocations.get(site);
-    if (!o || !loc) return null;
-    const at = predictedArrivals({ originTime: o.time, latDeg: o.latitude, lonDeg: o.longitude, depthKm: o.depthM / 1000 }, new Map([[site, loc]]), a.model).get(site);
-    return at ? { P: at.p, S: at.s } : null;
-  };
-  const { kept, dropped } = leaveOutDuplicates(qmlEvents, predict);
-  if (dropped.length) {
-    summary.duplicates = dropped.map((d) => `${d.id} (the same picks as ${d.duplicateOf})`);
-    summary.candidates = kept.length;
-    summary.picks = { P: 0, S: 0 };
-    for (const e of kept) for (const p of e.picks) summary.picks[p.phaseHint === 'S' ? 'S' : 'P']++;
-    summary.located = kept.filter((e) => e.origins.length > 0).length;
-    summary.magnitudes = kept.filter((e) => (e.magnitudes?.length ?? 0) > 0).length;
+  // once: the copy whose origin fits better (core/scan/duplicates.ts). Before the magnitudes, so no
+  // data are read for a copy left out, and the copy kept is measured with the picks it took over.
+  const { kept, dropped } = leaveOutDuplicates(qmlEvents, originPredictor(locations, a.model));
+  summary.duplicates = dropped.map((d) => `${d.id} (the same picks as ${d.duplicateOf})`);
+  for (const qe of kept) {
+    const origin = qe.origins[0];
+    if (!origin) continue;
+    const ml = await magnitudeFor(qe, origin, [...sites.values()], async (want, from, to) => {
+      const got = await readWindow(files, want, from, to);
+      noteErrors(got.errors);
+      return got.channels;
+    }, inv);
+    for (const sk of ml.skipped) summary.magnitudeNotes.push(`${sk.key}: ${sk.why}`);
   }
+  summary.candidates = kept.length;
+  for (const e of kept) for (const p of e.picks) summary.picks[p.phaseHint === 'S' ? 'S' : 'P']++;
+  summary.located = kept.filter((e) => e.origins.length > 0).length;
+  summary.magnitudes = kept.filter((e) => (e.magnitudes?.length ?? 0) > 0).length;
 
   // Output, atomically.
   const xml = writeQuakeMl({ events: kept }, {
