@@ -18,7 +18,7 @@ import { EventMeasures } from './eventMeasures';
 import { drawPicks, hitPick, type PickMarks } from './picks/pickLayer';
 import { openReview, ReviewSaver } from './data/reviewSync';
 import {
-  History, acceptAutomatic, addEvent, deletePick, movePick, placePick, setPickAttributes, setState, setUncertainty,
+  History, acceptAutomatic, addEvent, deletePick, movePick, placePick, setExcluded, setPickAttributes, setState, setUncertainty,
   mergeEvents, splitEvent, setNote,
   setEventType, EVENT_TYPES, REVIEW_STATES, reviewToCsv, reviewEventsToQuakeMl, quakemlStatus, mergeCandidates, type ReviewDocument, type ReviewEvent, type EventType,
   type ReviewState,
@@ -295,7 +295,7 @@ export class Desk {
     // Read-only view state for end-to-end tests (seconds from the sheet's reference time).
     (window as unknown as { daybreakView: () => unknown }).daybreakView = () => {
       const [x0, x1] = this.traces?.window ?? [0, 0];
-      return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.fullDrawMs ?? 0, frameMs: this.traces?.lastDrawMs ?? 0,
+      return { x0, x1, secondsPerPixel: this.traces?.secondsPerPixel() ?? 0, ref: this.ref, selectedPick: this.selected, timings: this.timings, openMs: this.session.openMs, overviewMs: this.overview?.fullDrawMs ?? 0, frameMs: this.traces?.lastDrawMs ?? 0,
         sheet: this.sheet && { shown: this.sheet.shown.map((x) => x.streams.site), hidden: this.sheet.hidden.map((x) => x.streams.site), reference: this.sheet.reference, showAll: this.showAllSites },
         panels: this.panels && { event: this.panels.current.event?.id ?? null, location: this.panels.current.location, locateMs: this.panels.current.locateMs, drawMs: this.panels.current.drawMs, locatedBefore: this.panels.current.locatedBefore } };
     };
@@ -719,7 +719,7 @@ export class Desk {
   private selectedText(ev: ReviewEvent): string {
     const p = ev.picks.find((x) => x.id === this.selected);
     if (!p) return '';
-    return `${p.phase} ${p.channel} ${isoFromMicros(p.time).slice(11, 23)} \u2212${p.lower.toFixed(3)}/+${p.upper.toFixed(3)} s \u00b7 ${p.onset} \u00b7 ${p.polarity ?? 'no polarity'} \u00b7 ${p.mode}${p.mode === 'automatic' ? ` (${p.status})` : ''}`;
+    return `${p.phase} ${p.channel} ${isoFromMicros(p.time).slice(11, 23)} \u2212${p.lower.toFixed(3)}/+${p.upper.toFixed(3)} s \u00b7 ${p.onset} \u00b7 ${p.polarity ?? 'no polarity'} \u00b7 ${p.mode}${p.mode === 'automatic' ? ` (${p.status})` : ''}${p.excluded ? ' \u00b7 left out of the location' : ''}`;
   }
 
   // ----- pointer -------------------------------------------------------------------------------
@@ -816,7 +816,13 @@ export class Desk {
         return;
       }
       case 'deletePick': if (!this.amplitudeTool.toggleSelected()) onPick((d, a, b) => deletePick(d, a, b)); return;
-      case 'toggleStationAmplitudes': if (!this.amplitudeTool.toggleStation()) this.setStatus('select an amplitude mark first (click it)'); return;
+      case 'leaveOut':
+        if (this.amplitudeTool.toggleStation()) return;
+        if (ev && pick) {
+          const out = !pick.excluded;
+          if (this.apply((d) => setExcluded(d, ev.id, pick.id, out))) this.setStatus(`${pick.phase} at ${pick.channel} ${out ? 'left out of the location (kept, with its residual)' : 'used in the location again'}`);
+        } else this.setStatus('select a pick or an amplitude mark first (click it)');
+        return;
       case 'onsetImpulsive': onPick((d, a, b) => setPickAttributes(d, a, b, { onset: 'impulsive' })); return;
       case 'onsetEmergent': onPick((d, a, b) => setPickAttributes(d, a, b, { onset: 'emergent' })); return;
       case 'onsetQuestionable': onPick((d, a, b) => setPickAttributes(d, a, b, { onset: 'questionable' })); return;

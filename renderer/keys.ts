@@ -21,7 +21,7 @@
  * Enter, which sets a state) shows the next review state only (all, not done, to do, ...).
  */
 export type KeyAction =
-  | 'placeP' | 'placeS' | 'deletePick' | 'toggleStationAmplitudes'
+  | 'placeP' | 'placeS' | 'deletePick' | 'leaveOut'
   | 'onsetImpulsive' | 'onsetEmergent' | 'onsetQuestionable'
   | 'polarityPositive' | 'polarityUndecidable' | 'polarityNegative'
   | 'widen' | 'uncertaintyFromZoom' | 'narrow'
@@ -37,7 +37,7 @@ export const KEY_MAP: readonly KeyBinding[] = [
   { group: 'Picks (index finger)', keys: 'R', action: 'placeP', what: 'place a P pick at the pointer' },
   { group: 'Picks (index finger)', keys: 'F', action: 'placeS', what: 'place an S pick at the pointer' },
   { group: 'Picks (index finger)', keys: 'V', action: 'deletePick', what: 'delete the selected pick; on an amplitude mark: take it out of ML, or put it back' },
-  { group: 'Picks (index finger)', keys: 'Shift+V', action: 'toggleStationAmplitudes', what: 'amplitude mark: take the whole station out of ML, or put it back' },
+  { group: 'Picks (index finger)', keys: 'Shift+V', action: 'leaveOut', what: 'leave the selected pick out of the location (kept, with its residual), or use it again; on an amplitude mark: take the whole station out of ML, or put it back' },
   { group: 'Picks (index finger)', keys: 'drag a green mark', action: 'deletePick', what: 'move an amplitude: its peak is measured again where it is dropped' },
   { group: 'Onset (middle finger)', keys: 'E', action: 'onsetImpulsive', what: 'onset impulsive' },
   { group: 'Onset (middle finger)', keys: 'D', action: 'onsetEmergent', what: 'onset emergent' },
@@ -95,6 +95,6 @@ export function actionForKey(e: Pick<KeyboardEvent, 'key' | 'ctrlKey' | 'metaKey
   if (e.key === 'Enter' && e.shiftKey) return 'filterNext';
   if (e.key === '`') return 'sortNext';
   if (e.key === '~') return 'sortReverse';
-  if (e.shiftKey && (e.key === 'V' || e.key === 'v')) return 'toggleStationAmplitudes';
+  if (e.shiftKey && (e.key === 'V' || e.key === 'v')) return 'leaveOut';
   return PLAIN[e.key.length === 1 ? e.key.toLowerCase() : e.key] ?? (e.key === '?' ? 'help' : null);
 }

@@ -7,7 +7,8 @@
  *   1-sigma timing uncertainty is the half-width of its interval, (lower + upper) / 2, at least
  *   `minUncertaintyS` (as core/scan does for automatic origins, so both weigh picks alike); picks
  *   whose record flags questionable timing are down-weighted (sigma x QUESTIONABLE_FACTOR) or left
- *   out; rejected picks (status 'rejected') only get a residual. Picks at sites without coordinates
+ *   out; rejected picks (status 'rejected') and picks the analyst left out (`excluded`) only get a
+ *   residual. Picks at sites without coordinates
  *   are skipped and named. Failures are values with a message for the analyst, never thrown.
  * - `predictedArrivals`: the first P and S at every site from a solution, as absolute times (µs),
  *   for guides on the traces of sites without picks.
@@ -146,7 +147,7 @@ export function locateReviewEvent(
     picks.push({
       stationKey: site, wave: p.phase, time: p.time,
       uncertaintyS: Math.min(100, Math.max(minSigma, (p.lower + p.upper) / 2)),
-      use: p.status !== 'rejected',
+      use: p.status !== 'rejected' && !p.excluded,
       timingQuestionable: p.questionableTiming,
     });
     ids.push(p);
@@ -221,13 +222,13 @@ export function predictedArrivals(origin: OriginPoint, stations: ReadonlyMap<str
 
 /**
  * The P and S pick of each site that has both, for the Wadati diagram and the S-P circles. Rejected
- * picks are left out; of several picks of one phase at a site, the one with the narrowest interval
- * wins (then the earlier). Sites in order of their P time.
+ * and excluded picks are left out; of several picks of one phase at a site, the one with the
+ * narrowest interval wins (then the earlier). Sites in order of their P time.
  */
 export function spPairs(event: ReviewEvent): WadatiPoint[] {
   const best = new Map<string, { P?: ReviewPick; S?: ReviewPick }>();
   for (const p of event.picks) {
-    if (p.status === 'rejected') continue;
+    if (p.status === 'rejected' || p.excluded) continue;
     const site = siteOfChannel(p.channel);
     const entry = best.get(site) ?? {};
     const cur = entry[p.phase];

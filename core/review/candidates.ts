@@ -6,6 +6,9 @@
  * - a known event still in `todo` (nobody has touched it) takes the new automatic picks (a re-scan
  *   after late data) and keeps any manual ones;
  * - a known event the analyst has started, finished or discarded is left exactly as it is.
+ * A candidate's pick that its preferred origin gave time weight 0 (the scan's location left it out,
+ * as an outlier or a pick on a record with questionable timing) comes in `excluded`, so the desk
+ * locates the candidate with the picks the scan used and shows the others with their residuals.
  */
 import { channelKey } from '../model';
 import { readPickComment } from '../quakeml/pickComment';
@@ -23,7 +26,14 @@ export interface CandidateMerge {
   keptAsReviewed: number;
 }
 
+/** QuakeML ids of the picks the event's preferred origin (else its first) gave time weight 0. */
+function leftOutByOrigin(e: QmlEvent): Set<string> {
+  const origin = e.origins.find((o) => o.id === e.preferredOriginId) ?? e.origins[0];
+  return new Set((origin?.arrivals ?? []).filter((a) => a.timeWeight === 0).map((a) => a.pickId));
+}
+
 function picksOf(e: QmlEvent): ReviewPick[] {
+  const leftOut = leftOutByOrigin(e);
   return e.picks
     .filter((p) => p.phaseHint === 'P' || p.phaseHint === 'S')
     .map((p) => ({
@@ -38,6 +48,7 @@ function picksOf(e: QmlEvent): ReviewPick[] {
       mode: p.evaluationMode,
       status: p.evaluationStatus,
       ...commentFlags(p.comment),
+      ...(leftOut.has(p.id) ? { excluded: true } : {}),
     }));
 }
 

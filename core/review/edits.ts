@@ -72,13 +72,18 @@ export function placePick(doc: ReviewDocument, eventId: string, p: NewPick): { d
   return { doc: next, pickId };
 }
 
-/** Moves a pick to a new time; it becomes a manual pick (the analyst set its time). */
+/**
+ * Moves a pick to a new time; it becomes a manual pick (the analyst set its time) and is used in the
+ * location again if it was left out (a moved pick is a new reading: mostly an automatic outlier put
+ * where it belongs).
+ */
 export function movePick(doc: ReviewDocument, eventId: string, pickId: string, time: Micros): ReviewDocument {
   if (!Number.isSafeInteger(time)) throw new RangeError(`pick time must be integer microseconds, got ${time}`);
   return withEvent(doc, eventId, (ev) => {
     const i = pickIndex(ev, pickId);
     const picks = ev.picks.slice();
-    picks[i] = { ...picks[i], time, mode: 'manual', status: 'preliminary', snr: null };
+    const { excluded: _wasExcluded, ...kept } = picks[i];
+    picks[i] = { ...kept, time, mode: 'manual', status: 'preliminary', snr: null };
     return { ...ev, picks };
   });
 }
@@ -101,6 +106,20 @@ export function setPickAttributes(doc: ReviewDocument, eventId: string, pickId: 
     const i = pickIndex(ev, pickId);
     const picks = ev.picks.slice();
     picks[i] = { ...picks[i], ...attrs };
+    return { ...ev, picks };
+  });
+}
+
+/**
+ * Leaves a pick out of the location and the Wadati fit (`excluded` true) or uses it again (false).
+ * The pick stays in the event, keeps its mode and status, and is exported with time weight 0.
+ */
+export function setExcluded(doc: ReviewDocument, eventId: string, pickId: string, excluded: boolean): ReviewDocument {
+  return withEvent(doc, eventId, (ev) => {
+    const i = pickIndex(ev, pickId);
+    const picks = ev.picks.slice();
+    const { excluded: _was, ...rest } = picks[i];
+    picks[i] = excluded ? { ...rest, excluded: true } : rest;
     return { ...ev, picks };
   });
 }

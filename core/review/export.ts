@@ -85,9 +85,13 @@ export function csvField(v: string | number | null): string {
 export const PICK_CSV_COLUMNS = [
   'event_id', 'event_state', 'event_type', 'network', 'station', 'location', 'channel', 'phase', 'time',
   'lower_uncertainty_s', 'upper_uncertainty_s', 'onset', 'polarity', 'evaluation_mode', 'evaluation_status', 'snr', 'questionable_timing',
+  'excluded_from_location',
 ] as const;
 
-/** One row per pick; the first line is a comment with the caution (lines starting with #). */
+/**
+ * One row per pick; the first line is a comment with the caution (lines starting with #).
+ * `excluded_from_location` is true for a pick kept in the event but left out of its location.
+ */
 export function reviewToCsv(doc: ReviewDocument): string {
   const lines = [`# ${CAUTION}`, PICK_CSV_COLUMNS.join(',')];
   for (const ev of doc.events) {
@@ -96,6 +100,7 @@ export function reviewToCsv(doc: ReviewDocument): string {
       lines.push([
         ev.id, ev.state, ev.type, id.network, id.station, id.location, id.channel, p.phase, isoFromMicros(p.time),
         p.lower, p.upper, p.onset, p.polarity, p.mode, pickStatus(ev, p), p.snr, p.questionableTiming ? 'true' : 'false',
+        p.excluded ? 'true' : 'false',
       ].map(csvField).join(','));
     }
   }

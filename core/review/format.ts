@@ -1,10 +1,10 @@
 /**
  * The review file: Daybreak's own versioned JSON, one per dataset, rewritten whole (atomically, by
- * the host) after every edit. Layout, version 2:
+ * the host) after every edit. Layout, version 3:
  *
  *   {
  *     "format": "daybreak-review",
- *     "version": 2,
+ *     "version": 3,
  *     "caution": "<the preliminary-results caution>",
  *     "revision": 17,                       // increments with every change
  *     "nextSerial": 42,                     // behind new pick/event identifiers
@@ -21,7 +21,8 @@
  *         "polarity": "positive" | "negative" | "undecidable" | null,
  *         "mode": "automatic" | "manual",
  *         "status": "preliminary" | "confirmed" | "reviewed" | "final" | "rejected",
- *         "snr": 12.5 | null, "questionableTiming": false
+ *         "snr": 12.5 | null, "questionableTiming": false,
+ *         "excluded": true                                         // optional (absent: used)
  *       }],
  *       "amplitudeEdits": [                                         // optional (absent: none)
  *         { "channel": "NET.STA.LOC.CHA", "kind": "moved",
@@ -44,8 +45,13 @@
  * `fixedDepthKm` (version 2): the depth, km below the velocity model's datum (negative above it),
  * at which the analyst holds the event's location (QuakeML depthType "operator assigned").
  *
- * Versions: 1 (no amplitude edits) is still read, as a version 2 file without `amplitudeEdits`;
- * this version always writes 2. A reader of a newer version refuses it rather than dropping what it
+ * `excluded` (version 3): the pick is left out of the location and the Wadati fit but kept, with
+ * its residual, in the event and its exports (QuakeML: an arrival with time weight 0). The analyst
+ * sets it; a detector candidate's pick comes in with it when the candidate's automatic origin gave it
+ * weight 0.
+ *
+ * Versions: 1 (no amplitude edits) and 2 (no `excluded`) are still read, as version 3 files without
+ * those fields; this version always writes 3. A reader of a newer version refuses it rather than dropping what it
  * does not know.
  */
 import { CAUTION } from '../caution';
@@ -56,7 +62,7 @@ import { EVENT_TYPES, REVIEW_STATES, type AmplitudeEdit, type ReviewDocument, ty
 
 export const REVIEW_FORMAT = 'daybreak-review';
 /** The version written; every version from 1 up to it is read. */
-export const REVIEW_VERSION = 2;
+export const REVIEW_VERSION = 3;
 
 export class ReviewFileError extends Error {
   constructor(readonly file: string, readonly where: string, readonly reason: string) {
@@ -78,6 +84,7 @@ export function serializeReview(doc: ReviewDocument): string {
       picks: e.picks.map((p) => ({
         id: p.id, phase: p.phase, channel: p.channel, time: isoFromMicros(p.time), lower: p.lower, upper: p.upper,
         onset: p.onset, polarity: p.polarity, mode: p.mode, status: p.status, snr: p.snr, questionableTiming: p.questionableTiming,
+        ...(p.excluded ? { excluded: true } : {}),
       })),
       ...(e.amplitudeEdits?.length ? {
         amplitudeEdits: e.amplitudeEdits.map((a) => (a.kind === 'moved'
@@ -129,6 +136,8 @@ export function parseReview(text: string, file: string): ReviewDocument {
     const picks: ReviewPick[] = (e.picks as unknown[]).map((pk, j) => {
       const pw = `${w}.picks[${j}]`;
       const p = obj(pk, pw);
+      if (p.excluded !== undefined && (version as number) < 3) fail(`${pw}.excluded`, `not part of version ${version} files`);
+      if (p.excluded !== undefined && typeof p.excluded !== 'boolean') fail(`${pw}.excluded`, 'expected true or false');
       return {
         id: str(p.id, `${pw}.id`),
         phase: oneOf<'P' | 'S'>(p.phase, ['P', 'S'], `${pw}.phase`)!,
@@ -142,6 +151,7 @@ export function parseReview(text: string, file: string): ReviewDocument {
         status: oneOf<ReviewPick['status']>(p.status, STATUSES, `${pw}.status`)!,
         snr: p.snr === null ? null : typeof p.snr === 'number' && p.snr >= 0 ? p.snr : fail(`${pw}.snr`, 'expected a non-negative number or null'),
         questionableTiming: typeof p.questionableTiming === 'boolean' ? p.questionableTiming : fail(`${pw}.questionableTiming`, 'expected true or false'),
+        ...(p.excluded === true ? { excluded: true } : {}),
       };
     });
     let amplitudeEdits: AmplitudeEdit[] | undefined;

@@ -48,6 +48,12 @@ export interface ReviewPick {
   /** Signal-to-noise ratio from the picker, null for manual picks. */
   readonly snr: number | null;
   readonly questionableTiming: boolean;
+  /**
+   * Left out of the location and the Wadati fit, but kept (with its residual) and exported; absent
+   * or false: used. Set by the analyst, or on a detector candidate's pick that its automatic origin
+   * left out (arrival weight 0, e.g. an outlier or a pick on a bad clock).
+   */
+  readonly excluded?: boolean;
 }
 
 export interface ReviewEvent {

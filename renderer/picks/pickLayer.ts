@@ -3,7 +3,8 @@
  * shape and line style, not only colour: a manual pick is a solid line with a filled tab, an
  * automatic one a dashed line with an open tab (a confirmed automatic pick's tab gets a tick). P and
  * S differ by colour (Okabe-Ito blue and vermillion) and by the tab's letter. The uncertainty is a
- * bar through the pick's own band with a handle at each end.
+ * bar through the pick's own band with a handle at each end. A pick left out of the location is a
+ * faint dotted line, its tab struck through.
  */
 import type { ReviewPick } from '../../core/review';
 import type { RowMarksContext, SiteRow } from '../traces/traceView';
@@ -50,12 +51,15 @@ export function drawPicks(m: RowMarksContext, marks: PickMarks): void {
     ctx.strokeStyle = colour;
     ctx.fillStyle = colour;
     ctx.lineWidth = (selected ? 2.5 : 1.5) * pxRatio;
-    ctx.setLineDash(p.mode === 'automatic' ? [5 * pxRatio, 3 * pxRatio] : []);
+    ctx.setLineDash(p.excluded ? [1.5 * pxRatio, 3.5 * pxRatio] : p.mode === 'automatic' ? [5 * pxRatio, 3 * pxRatio] : []);
+    const faint = p.excluded ? 0.6 : 1;
+    ctx.globalAlpha = faint;
     ctx.beginPath();
     ctx.moveTo(x, top);
     ctx.lineTo(x, top + height);
     ctx.stroke();
     ctx.setLineDash([]);
+    ctx.globalAlpha = 1;
     // Tab with the phase letter at the top of the pick's band.
     const w = 13 * pxRatio;
     const h = 12 * pxRatio;
@@ -69,6 +73,15 @@ export function drawPicks(m: RowMarksContext, marks: PickMarks): void {
     ctx.font = `bold ${10 * pxRatio}px system-ui, sans-serif`;
     ctx.textBaseline = 'middle';
     ctx.fillText(p.phase, x + 3 * pxRatio, ty + h / 2 + 0.5 * pxRatio);
+    if (p.excluded) {
+      // Struck through, corner to corner, in the tab's own letter colour.
+      ctx.strokeStyle = p.mode === 'manual' ? '#111' : colour;
+      ctx.lineWidth = 1.5 * pxRatio;
+      ctx.beginPath();
+      ctx.moveTo(x, ty + h);
+      ctx.lineTo(x + w, ty);
+      ctx.stroke();
+    }
     if (p.mode === 'automatic' && p.status === 'confirmed') {
       ctx.strokeStyle = colour;
       ctx.beginPath();
@@ -94,7 +107,7 @@ export function drawPicks(m: RowMarksContext, marks: PickMarks): void {
     const x1 = m.xOf(marks.toView(p.time) + p.upper);
     ctx.strokeStyle = colour;
     ctx.lineWidth = (selected ? 3 : 2) * pxRatio;
-    ctx.globalAlpha = selected ? 0.9 : 0.6;
+    ctx.globalAlpha = (selected ? 0.9 : 0.6) * faint;
     ctx.beginPath();
     ctx.moveTo(x0, y);
     ctx.lineTo(x1, y);

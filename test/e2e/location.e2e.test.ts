@@ -11,6 +11,7 @@ import { readQuakeMl } from '../../core/quakeml';
 import { locateReviewEvent, siteLocations, type ReviewLocateResult } from '../../core/location/fromReview';
 import { DEFAULT_MODEL } from '../../core/location/velocityModel';
 import { channelsOf, parseStationXml } from '../../core/stationxml';
+import { microsFromIso } from '../../core/time';
 
 // The real records (../shared/data/real-microseismic), copied so the review file can be written beside
 // them; the review file holds one event with the analyst's own (manual) P and S picks of that event.
@@ -18,7 +19,7 @@ const REAL = resolve(__dirname, '..', '..', '..', 'shared', 'data', 'real-micros
 const EVENT_FILE = '2019-01-21T11-50-32-914c4.xml';
 
 
-interface Saved { revision: number; events: { id: string; fixedDepthKm?: number }[] }
+interface Saved { revision: number; events: { id: string; fixedDepthKm?: number; picks: { id: string; channel: string; phase: string; time: string; excluded?: boolean }[] }[] }
 
 describe('location in the review desk: fixed depth and radial/transverse rows (Chromium, browser mode)', () => {
   let app: RunningApp;
@@ -80,6 +81,36 @@ describe('location in the review desk: fixed depth and radial/transverse rows (C
     expect(text).toContain(`RMS ${(n.rmsS * 1000).toFixed(1)} ms`);
     expect(text).toContain(`${n.latDeg.toFixed(4)}\u00b0 ${n.lonDeg.toFixed(4)}\u00b0`);
     console.log(`desk: the open event located in the worker in ${v.panels.locateMs.toFixed(1)} ms, panels drawn in ${v.panels.drawMs.toFixed(1)} ms on the interface thread`);
+  });
+
+  it('Shift+V leaves the selected pick out of the location (saved, drawn, relocated without it) and Shift+V again uses it', async () => {
+    const v = (await app.page.evaluate('window.daybreakView()')) as { x0: number; x1: number; ref: number; sheet: { shown: string[] } };
+    const site = v.sheet.shown[0];
+    const target = saved().events[0].picks.find((p) => p.phase === 'P' && p.channel.startsWith(`${site}.`));
+    if (!target) throw new Error(`no P pick at ${site}`);
+    const box = await app.page.locator('.trace-row:visible .trace-plot').first().boundingBox();
+    if (!box) throw new Error('no trace plot on screen');
+    const t = (microsFromIso(target.time) - v.ref) / 1e6;
+    await app.page.mouse.click(box.x + ((t - v.x0) / (v.x1 - v.x0)) * box.width, box.y + 4);
+    await app.page.waitForFunction((id) => (window as unknown as { daybreakView: () => { selectedPick: string | null } }).daybreakView().selectedPick === id, target.id);
+    await app.page.keyboard.press('Shift+V');
+    await savedWhen((x) => x.events[0].picks.find((p) => p.id === target.id)?.excluded === true);
+    // The worker's solution drops the pick; the core in Node, given the same event, agrees.
+    await app.page.waitForFunction(() => /13 phases/.test(document.querySelector('.db-panels-summary')?.textContent ?? ''));
+    const inv = join(REAL, 'stations', 'inv.xml');
+    const sites = siteLocations(channelsOf(parseStationXml(readFileSync(inv, 'utf8'), inv)));
+    const ev = realEvent(REAL, EVENT_FILE, 6_000_000);
+    const node = locateReviewEvent({ ...ev, picks: ev.picks.map((p) => (p.id === target.id ? { ...p, excluded: true } : p)) }, sites, DEFAULT_MODEL);
+    if (!node.ok) throw new Error(node.message);
+    expect(node.value.hypocentre.phaseCount).toBe(13);
+    expect(await summary()).toContain(`RMS ${(node.value.hypocentre.rmsS * 1000).toFixed(1)} ms`);
+    expect(await app.page.locator('.selected-pick').innerText()).toContain('left out of the location');
+    await app.page.screenshot({ path: screenshotPath('location-pick-left-out') });
+    const px = box.x + ((t - v.x0) / (v.x1 - v.x0)) * box.width;
+    await app.page.screenshot({ path: screenshotPath('location-pick-left-out-detail'), clip: { x: px - 60, y: box.y - 10, width: 160, height: 210 } });
+    await app.page.keyboard.press('Shift+V');
+    await savedWhen((x) => x.events[0].picks.find((p) => p.id === target.id)?.excluded === undefined);
+    await app.page.waitForFunction(() => /14 phases/.test(document.querySelector('.db-panels-summary')?.textContent ?? ''));
   });
 
   it('Y shows radial and transverse rows with each site\'s back-azimuth, and Y again the recorded ones', async () => {

@@ -134,6 +134,27 @@ describe('locateReviewEvent', () => {
     expect(vincentyKm(r.value.hypocentre.latDeg, r.value.hypocentre.lonDeg, TRUTH.lat, TRUTH.lon) * 1000).toBeLessThan(10);
   });
 
+  it('picks the analyst left out (excluded) get a residual but no weight, whatever their status', () => {
+    const ev = exactEvent();
+    // S at the 3rd site 1.5 s late and P at the 6th 0.7 s early: both left out, so the solution is
+    // the exact one (within 10 m) and each residual is its own shift.
+    const picks = ev.picks.map((p, i) => (i === 5 ? { ...p, time: p.time + 1_500_000, excluded: true }
+      : i === 10 ? { ...p, time: p.time - 700_000, excluded: true, status: 'preliminary' as const, mode: 'automatic' as const } : p));
+    const r = locateReviewEvent(event(picks), SITES, DEFAULT_MODEL);
+    if (!r.ok) throw new Error(r.message);
+    expect(r.value.hypocentre.phaseCount).toBe(18);
+    expect(r.value.arrivals[5]).toMatchObject({ used: false, weight: 0 });
+    expect(r.value.arrivals[10]).toMatchObject({ used: false, weight: 0 });
+    expect(r.value.arrivals[5].residualS).toBeCloseTo(1.5, 2);
+    expect(r.value.arrivals[10].residualS).toBeCloseTo(-0.7, 2);
+    expect(vincentyKm(r.value.hypocentre.latDeg, r.value.hypocentre.lonDeg, TRUTH.lat, TRUTH.lon) * 1000).toBeLessThan(10);
+    // used again (excluded false), the late S pulls the solution away
+    const back = locateReviewEvent(event(picks.map((p, i) => (i === 5 ? { ...p, excluded: false } : p))), SITES, DEFAULT_MODEL);
+    if (!back.ok) throw new Error(back.message);
+    expect(back.value.hypocentre.phaseCount).toBe(19);
+    expect(vincentyKm(back.value.hypocentre.latDeg, back.value.hypocentre.lonDeg, TRUTH.lat, TRUTH.lon) * 1000).toBeGreaterThan(50);
+  });
+
   it('under four phases gives a message instead of a location', () => {
     const r = locateReviewEvent(event(exactEvent().picks.slice(0, 3)), SITES, DEFAULT_MODEL);
     expect(r.ok).toBe(false);
@@ -225,12 +246,13 @@ describe('wadatiOfEvent and spPairs', () => {
     expect(r.value.count).toBe(10);
   });
 
-  it('pairs P and S picks read on different channels of one site, skipping rejected picks and sites without S', () => {
+  it('pairs P and S picks read on different channels of one site, skipping rejected and excluded picks and sites without S', () => {
     const picks = [
       pick('XX.S1', 'P', T0 + 2_000_000), pick('XX.S1', 'S', T0 + 3_500_000),
       pick('XX.S1', 'P', T0 + 2_100_000, { lower: 0.1, upper: 0.1 }), // wider: not the one paired
       pick('XX.S2', 'P', T0 + 1_000_000), pick('XX.S2', 'S', T0 + 9_000_000, { status: 'rejected' }),
       pick('XX.S3', 'P', T0 + 1_500_000),
+      pick('XX.S4', 'P', T0 + 1_600_000, { excluded: true }), pick('XX.S4', 'S', T0 + 2_900_000),
       pick('XX.S0', 'P', T0 + 500_000), pick('XX.S0', 'S', T0 + 1_200_000),
     ];
     expect(spPairs(event(picks))).toEqual([

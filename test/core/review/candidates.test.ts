@@ -63,4 +63,28 @@ describe('candidates from daybreak scan\'s own QuakeML', () => {
     const picks = mergeCandidates(EMPTY_REVIEW, readQuakeMl(xml, 'scan.xml').events).doc.events[0].picks;
     expect(picks.map((p) => [p.channel, p.snr, p.questionableTiming])).toEqual([['XX.MARW.00.HHZ', 2.8, true], ['XX.DUNM.00.HHZ', 47.3, false]]);
   });
+
+  it('bring in the picks the scan\'s origin left out (time weight 0) as excluded, which the CSV export then names', async () => {
+    const { readQuakeMl, writeQuakeMl } = await import('../../../core/quakeml');
+    const { reviewToQuakeMl } = await import('../../../core/review');
+    const c = candidate('ev-w', [['BRAE', '19.87', 'P'], ['CALD', '21.00', 'P'], ['DUNM', '22.10', 'P'], ['BRAE', '23.50', 'S']]);
+    const arrival = (pickId: string, timeWeight: number, timeResidual: number) => ({ pickId, phase: 'P', distanceDeg: 0.1, azimuth: 10, timeResidual, timeWeight });
+    c.origins = [{
+      id: 'ev-w.o1', time: T('17.00'), timeUncertainty: 0.1, latitude: 46, longitude: 8, depthM: 5000, depthUncertaintyM: 900, depthType: 'from location',
+      ellipse: null, horizontalUncertaintyM: 500, quality: null, evaluationMode: 'automatic', evaluationStatus: 'preliminary',
+      arrivals: [arrival('p0', 1, 0.01), arrival('p1', 0, 2.4), arrival('p2', 0.8, -0.02), arrival('p3', 1, 0.03)],
+    }];
+    c.preferredOriginId = 'ev-w.o1';
+    const xml = writeQuakeMl({ events: [c] }, { authority: 'daybreak.test', agencyId: 'XX', author: 'test', creationTime: 0, version: 'test' });
+    const doc = mergeCandidates(EMPTY_REVIEW, readQuakeMl(xml, 'scan.xml').events).doc;
+    expect(doc.events[0].picks.map((p) => [p.channel, p.excluded ?? false])).toEqual([
+      ['XX.BRAE.00.HHZ', false], ['XX.CALD.00.HHZ', true], ['XX.DUNM.00.HHZ', false], ['XX.BRAE.00.HHN', false],
+    ]);
+    // The desk's export without a location keeps the picks; a CSV row says which one is left out.
+    const { reviewToCsv } = await import('../../../core/review');
+    const rows = reviewToCsv(doc).split('\n').filter((l) => l && !l.startsWith('#'));
+    expect(rows[0].split(',').at(-1)).toBe('excluded_from_location');
+    expect(rows.slice(1).map((r) => r.split(',').at(-1))).toEqual(['false', 'true', 'false', 'false']);
+    expect(readQuakeMl(reviewToQuakeMl(doc, { authority: 'daybreak.test', agencyId: 'XX', author: 'test', creationTime: 0 }), 'x.xml').events[0].picks).toHaveLength(4);
+  });
 });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   EMPTY_REVIEW, History, acceptAutomatic, addEvent, deletePick, mergeEvents, movePick, placePick, quakemlStatus,
-  setEventType, setPickAttributes, setState, setUncertainty, splitEvent, type ReviewDocument, type ReviewPick,
+  setEventType, setExcluded, setPickAttributes, setState, setUncertainty, splitEvent, type ReviewDocument, type ReviewPick,
   moveAmplitude, removeAmplitudes, restoreAmplitudes, amplitudeEditOf,
 } from '../../../core/review';
 import { microsFromIso } from '../../../core/time';
@@ -45,6 +45,24 @@ describe('review edits', () => {
     expect(moved.events[0].picks[0]).toMatchObject({ mode: 'manual', time: T('05.120000'), snr: null });
     const accepted = acceptAutomatic(moved, id);
     expect(accepted.events[0].picks.map((p) => [p.mode, p.status])).toEqual([['manual', 'preliminary'], ['automatic', 'confirmed']]);
+  });
+
+  it('leaves a pick out of the location and takes it back, keeping its mode and status; moving it uses it again', () => {
+    const { doc: d0, id } = withOneEvent();
+    const doc = { ...d0, events: [{ ...d0.events[0], state: 'todo' as const, picks: [automatic('a1', 'ZZ.QRS.00.HHZ', T('10.000000')), automatic('a2', 'ZZ.TUV.00.HHZ', T('11.000000'))] }] };
+    const out = setExcluded(doc, id, 'a2', true);
+    expect(out.events[0].picks[1]).toEqual({ ...automatic('a2', 'ZZ.TUV.00.HHZ', T('11.000000')), excluded: true });
+    expect(out.events[0].picks[0]).toBe(doc.events[0].picks[0]);
+    expect(out.events[0].state).toBe('started');
+    expect(out.revision).toBe(doc.revision + 1);
+    expect(doc.events[0].picks[1].excluded).toBeUndefined(); // input untouched
+    // taken back: the field is gone, the pick is as it was
+    expect(setExcluded(out, id, 'a2', false).events[0].picks[1]).toEqual(automatic('a2', 'ZZ.TUV.00.HHZ', T('11.000000')));
+    // a moved pick is a new reading: manual, and used again
+    const moved = movePick(out, id, 'a2', T('11.250000')).events[0].picks[1];
+    expect(moved).toMatchObject({ mode: 'manual', time: T('11.250000') });
+    expect('excluded' in moved).toBe(false);
+    expect(() => setExcluded(out, id, 'nope', true)).toThrow('no pick "nope" in event');
   });
 
   it('sets uncertainty, onset and polarity, and refuses an uncertainty outside 0-60 s', () => {

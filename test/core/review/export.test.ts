@@ -84,4 +84,35 @@ describe('review export with locations', () => {
     r = addEvent(d, t0 + 100e6, t0 + 160e6);
     expect(readQuakeMl(reviewToQuakeMl(r.doc, opts), 'y.xml').events.every((e) => e.origins.length === 0)).toBe(true);
   });
+
+  it('exports a pick left out of the location with time weight 0 and its residual; read back as candidates it is left out again', async () => {
+    const { DEFAULT_MODEL, firstArrival, locateReviewEvent } = await import('../../../core/location');
+    const { toLocalKm, localProjection } = await import('../../../core/location/projection');
+    const { mergeCandidates, setExcluded } = await import('../../../core/review');
+    // Same geometry and travel times as the test above; one S pick 1.2 s late is left out.
+    const proj = localProjection(45, 7);
+    const sites = new Map<string, { latitude: number; longitude: number; elevation: number }>();
+    for (let i = 0; i < 6; i++) sites.set(`XX.R${i}`, { latitude: 45 + (0.18 * Math.cos((i * Math.PI) / 3)), longitude: 7 + (0.25 * Math.sin((i * Math.PI) / 3)), elevation: 0 });
+    const t0 = microsFromIso('2026-11-14T21:00:00Z');
+    const r = addEvent(EMPTY_REVIEW, t0 - 10e6, t0 + 60e6);
+    let d = r.doc;
+    for (const [key, s] of sites) {
+      const [e, n] = toLocalKm(proj, s.latitude, s.longitude);
+      for (const w of ['P', 'S'] as const) {
+        const late = key === 'XX.R2' && w === 'S' ? 1_200_000 : 0;
+        d = placePick(d, r.eventId, { phase: w, channel: `${key}.00.${w === 'P' ? 'HHZ' : 'HHN'}`, time: t0 + late + Math.round(firstArrival(DEFAULT_MODEL, w, Math.hypot(e, n), 10, 0).time * 1e6) }).doc;
+      }
+    }
+    const late = d.events[0].picks.find((p) => p.channel === 'XX.R2.00.HHN')!;
+    d = setExcluded(d, r.eventId, late.id, true);
+    const loc = locateReviewEvent(d.events[0], sites, DEFAULT_MODEL);
+    if (!loc.ok) throw new Error(loc.message);
+    const qe = readQuakeMl(reviewToQuakeMl(d, opts, new Map([[r.eventId, loc.value]])), 'x.xml').events[0];
+    const arrival = qe.origins[0].arrivals.find((a) => a.pickId === `${r.eventId}.${late.id}`)!;
+    expect(arrival.timeWeight).toBe(0);
+    expect(arrival.timeResidual).toBeCloseTo(1.2, 2);
+    expect(qe.origins[0].quality?.usedPhaseCount).toBe(11);
+    const back = mergeCandidates(EMPTY_REVIEW, [qe]).doc.events[0].picks;
+    expect(back.filter((p) => p.excluded).map((p) => p.channel)).toEqual(['XX.R2.00.HHN']);
+  });
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { EMPTY_REVIEW, addEvent, parseReview, placePick, serializeReview, setEventType, ReviewFileError, moveAmplitude, removeAmplitudes } from '../../../core/review';
+import { EMPTY_REVIEW, addEvent, parseReview, placePick, serializeReview, setEventType, setExcluded, ReviewFileError, moveAmplitude, removeAmplitudes } from '../../../core/review';
 import { microsFromIso } from '../../../core/time';
 
 function sample() {
@@ -18,15 +18,15 @@ describe('review file', () => {
   it('carries the format name, version and the preliminary-results caution', () => {
     const raw = JSON.parse(serializeReview(sample()));
     expect(raw.format).toBe('daybreak-review');
-    expect(raw.version).toBe(2);
+    expect(raw.version).toBe(3);
     expect(raw.caution).toMatch(/preliminary/);
     expect(raw.events[0].picks[0].time).toBe('2026-12-02T00:00:03.123456Z');
   });
 
   it('refuses a file from a newer version instead of dropping what it does not know', () => {
     const raw = JSON.parse(serializeReview(sample()));
-    raw.version = 3;
-    expect(() => parseReview(JSON.stringify(raw), 'r.json')).toThrow(/version 3 was written by a newer Daybreak; this one reads version 2/);
+    raw.version = 4;
+    expect(() => parseReview(JSON.stringify(raw), 'r.json')).toThrow(/version 4 was written by a newer Daybreak; this one reads version 3/);
   });
 
   it('names the file and the JSON path of a bad value', () => {
@@ -62,6 +62,28 @@ describe('review file', () => {
     expect(parseReview(JSON.stringify(raw), 'old.json')).toEqual(sample());
     raw.events[0].amplitudeEdits = [{ channel: 'ZZ.QRS..HH1', kind: 'removed' }];
     expect(() => parseReview(JSON.stringify(raw), 'old.json')).toThrow('old.json: $.events[0].amplitudeEdits: not part of version 1 files');
+  });
+
+  it('stores a pick left out of the location (excluded) only when it is, and reads it back exactly', () => {
+    const doc0 = sample();
+    const ev = doc0.events[0];
+    const doc = setExcluded(doc0, ev.id, ev.picks[0].id, true);
+    const text = serializeReview(doc);
+    expect(JSON.parse(text).events[0].picks[0].excluded).toBe(true);
+    expect(parseReview(text, 'r.json')).toEqual(doc);
+    expect('excluded' in JSON.parse(serializeReview(doc0)).events[0].picks[0]).toBe(false);
+    const raw = JSON.parse(text);
+    raw.events[0].picks[0].excluded = 'yes';
+    expect(() => parseReview(JSON.stringify(raw), 'r.json')).toThrow('r.json: $.events[0].picks[0].excluded: expected true or false');
+    raw.events[0].picks[0].excluded = true;
+    raw.version = 2;
+    expect(() => parseReview(JSON.stringify(raw), 'old.json')).toThrow('old.json: $.events[0].picks[0].excluded: not part of version 2 files');
+  });
+
+  it('still reads a version 2 file (written before picks could be left out) as the same document', () => {
+    const raw = JSON.parse(serializeReview(sample()));
+    raw.version = 2;
+    expect(parseReview(JSON.stringify(raw), 'old.json')).toEqual(sample());
   });
 
   it('names a bad amplitude edit: unknown kind, half-width out of range, a channel edited twice', () => {
