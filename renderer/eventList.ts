@@ -40,10 +40,16 @@ export function sitesWithPicks(e: ReviewEvent): number {
   return new Set(e.picks.map((p) => p.channel.split('.').slice(0, 2).join('.'))).size;
 }
 
+/** How many of the event's picks are kept but left out of its location. */
+function leftOut(e: ReviewEvent): number {
+  return e.picks.reduce((n, p) => n + (p.excluded && p.status !== 'rejected' ? 1 : 0), 0);
+}
+
 /**
- * The time the list shows and sorts an event by: its earliest P pick that is not rejected, else its
- * earliest such pick, else the start of its window (a detector's candidate window opens 20 s before
- * its first pick, which would put the event 20 s early in the list).
+ * The time the list shows and sorts an event by: its earliest P pick that is used in the location
+ * (neither rejected nor left out), else its earliest pick that is not rejected, else the start of its
+ * window (a detector's candidate window opens 20 s before its first pick, which would put the event
+ * 20 s early in the list).
  */
 export function eventTime(e: ReviewEvent): Micros {
   let p = Infinity;
@@ -51,7 +57,7 @@ export function eventTime(e: ReviewEvent): Micros {
   for (const k of e.picks) {
     if (k.status === 'rejected') continue;
     if (k.time < any) any = k.time;
-    if (k.phase === 'P' && k.time < p) p = k.time;
+    if (k.phase === 'P' && !k.excluded && k.time < p) p = k.time;
   }
   return Number.isFinite(p) ? p : Number.isFinite(any) ? any : e.start;
 }
@@ -213,7 +219,7 @@ export class EventList {
         el('span', { className: 'ev-time' }, mark('time', isoFromMicros(eventTime(e)).slice(11, 19))),
         el('span', { className: 'ev-state' }, mark('state', STATE_LABEL[e.state])),
         el('span', { className: 'ev-info' },
-          mark('sites', `${sites} site${sites === 1 ? '' : 's'}`), ` \u00b7 ${e.picks.length} picks${e.type ? ` \u00b7 ${e.type}` : ''}`),
+          mark('sites', `${sites} site${sites === 1 ? '' : 's'}`), ` \u00b7 ${e.picks.length} picks${leftOut(e) ? ` (${leftOut(e)} left out)` : ''}${e.type ? ` \u00b7 ${e.type}` : ''}`),
         el('span', { className: 'ev-measure' },
           mark('rms', m.rmsS === null ? 'RMS \u2013' : `RMS ${m.rmsS.toFixed(3)} s`), ' \u00b7 ', mark('magnitude', m.ml === null ? 'ML \u2013' : `ML ${m.ml.toFixed(1)}`))),
       { id: e.id, sites: String(sites), state: e.state, rms: m.rmsS === null ? '' : String(m.rmsS), ml: m.ml === null ? '' : String(m.ml) });

@@ -105,12 +105,14 @@ describe('location in the review desk: fixed depth and radial/transverse rows (C
     expect(node.value.hypocentre.phaseCount).toBe(13);
     expect(await summary()).toContain(`RMS ${(node.value.hypocentre.rmsS * 1000).toFixed(1)} ms`);
     expect(await app.page.locator('.selected-pick').innerText()).toContain('left out of the location');
+    expect(await app.page.locator('.event-list li').first().innerText()).toContain('14 picks (1 left out)');
     await app.page.screenshot({ path: screenshotPath('location-pick-left-out') });
     const px = box.x + ((t - v.x0) / (v.x1 - v.x0)) * box.width;
     await app.page.screenshot({ path: screenshotPath('location-pick-left-out-detail'), clip: { x: px - 60, y: box.y - 10, width: 160, height: 210 } });
     await app.page.keyboard.press('Shift+V');
     await savedWhen((x) => x.events[0].picks.find((p) => p.id === target.id)?.excluded === undefined);
     await app.page.waitForFunction(() => /14 phases/.test(document.querySelector('.db-panels-summary')?.textContent ?? ''));
+    expect(await app.page.locator('.event-list li').first().innerText()).not.toContain('left out');
   });
 
   it('Y shows radial and transverse rows with each site\'s back-azimuth, and Y again the recorded ones', async () => {

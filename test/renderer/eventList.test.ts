@@ -16,13 +16,16 @@ const measure = (e: ReviewEvent) => measures[e.id];
 const ids = (list: ReviewEvent[]) => list.map((e) => e.id);
 
 describe('eventTime', () => {
-  it('is the earliest P pick not rejected, else the earliest pick, else the window start', () => {
+  it('is the earliest P pick used in the location, else the earliest pick not rejected, else the window start', () => {
     const e = event('x', 5e6, 'todo', 3);
     expect(eventTime(e)).toBe(25e6);
     const s = { ...e.picks[0], id: 's', phase: 'S' as const, time: 24e6 };
     const rejectedP = { ...e.picks[1], id: 'r', time: 23e6, status: 'rejected' as const };
     expect(eventTime({ ...e, picks: [...e.picks, s, rejectedP] })).toBe(25e6);
     expect(eventTime({ ...e, picks: [s, rejectedP] })).toBe(24e6);
+    const leftOutP = { ...e.picks[1], id: 'l', time: 22e6, excluded: true };
+    expect(eventTime({ ...e, picks: [...e.picks, leftOutP] })).toBe(25e6);
+    expect(eventTime({ ...e, picks: [s, leftOutP] })).toBe(22e6);
     expect(eventTime({ ...e, picks: [] })).toBe(5e6);
   });
 });
