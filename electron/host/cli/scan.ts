@@ -285,7 +285,7 @@ export interface ScanSummary {
   /** Located events with a local magnitude. */
   magnitudes: number;
   picks: { P: number; S: number };
-  /** Candidates left out as another candidate read twice: "ID (the same picks as ID)". */
+  /** Candidates left out as another candidate read twice: "ID (the same picks as ID)" or "ID (its picks fit ID's origin)". */
   duplicates: string[];
   /** Picks the location did not fit, read again: replaced by a new reading, or dropped. */
   reread: { replaced: number; dropped: number };
@@ -551,11 +551,12 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
     qmlEvents.push(qe);
   }
 
-  // One event read twice (straggling triggers, or a regional event's S triggering again) is written
-  // once: the copy whose origin fits better (core/scan/duplicates.ts). Before the magnitudes, so no
-  // data are read for a copy left out, and the copy kept is measured with the picks it took over.
+  // One event read twice (straggling triggers, a regional event's S triggering again, or far sites
+  // triggering on a local event's S) is written once: the copy whose origin fits better
+  // (core/scan/duplicates.ts). Before the magnitudes, so no data are read for a copy left out, and
+  // the copy kept is measured with the picks it took over.
   const { kept, dropped } = leaveOutDuplicates(qmlEvents, originPredictor(locations, a.model));
-  summary.duplicates = dropped.map((d) => `${d.id} (the same picks as ${d.duplicateOf})`);
+  summary.duplicates = dropped.map((d) => (d.reason === 'same picks' ? `${d.id} (the same picks as ${d.duplicateOf})` : `${d.id} (its picks fit ${d.duplicateOf}'s origin)`));
   for (const qe of kept) {
     const origin = qe.origins[0];
     if (!origin) continue;

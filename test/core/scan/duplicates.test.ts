@@ -36,7 +36,7 @@ describe('leaveOutDuplicates', () => {
     const b = event('b', [pick('BB', 'P', 1.55), pick('CC', 'P', 3.45), pick('AA', 'S', 1.1), pick('DD', 'S', 3.7), pick('EE', 'P', 4.0)], 3.0);
     const r = leaveOutDuplicates([b, a], predict);
     expect(r.kept.map((e) => e.id)).toEqual(['a']);
-    expect(r.dropped).toEqual([{ id: 'b', duplicateOf: 'a' }]);
+    expect(r.dropped).toEqual([{ id: 'b', duplicateOf: 'a', reason: 'same picks' }]);
     // DD's S (3.7 s) lies 0.2 s from a's predicted S: it joins; EE's P (4.0 s) lies 2 s from the
     // predicted P: it does not; AA's S (1.1 s) is 2.4 s from the predicted S: it does not.
     const moved = a.picks.slice(4);
@@ -48,9 +48,11 @@ describe('leaveOutDuplicates', () => {
     const a = event('a', [pick('AA', 'P', 1.0), pick('BB', 'P', 1.5), pick('CC', 'P', 2.0), pick('DD', 'P', 2.5)], 0.05);
     const one = event('one', [pick('AA', 'P', 1.05), pick('EE', 'P', 9), pick('FF', 'P', 9.5)], 0.1); // one shared of three
     const far = event('far', [pick('AA', 'P', 1.2), pick('BB', 'P', 1.7), pick('CC', 'P', 2.2)], 0.1); // 0.2 s apart
-    expect(leaveOutDuplicates([a, one, far], predict).kept.map((e) => e.id)).toEqual(['a', 'one', 'far']);
+    // No predictor: the shared-pick test alone (this predictor, P at 2 s at every site, would find
+    // far's BB and CC picks within 0.5 s of a's origin; the origin test is duplicatesOrigin.test.ts's).
+    expect(leaveOutDuplicates([a, one, far]).kept.map((e) => e.id)).toEqual(['a', 'one', 'far']);
     const two = event('two', [pick('AA', 'P', 1.05), pick('BB', 'P', 1.45), pick('FF', 'P', 9.5), pick('GG', 'P', 9.9)], 0.1); // two of four
-    expect(leaveOutDuplicates([a, two], predict).dropped).toEqual([{ id: 'two', duplicateOf: 'a' }]);
+    expect(leaveOutDuplicates([a, two], predict).dropped).toEqual([{ id: 'two', duplicateOf: 'a', reason: 'same picks' }]);
   });
 
   it('prefers a located copy to one that is not, then the one with more picks', () => {
