@@ -13,7 +13,8 @@
  * with residual RMS near 1 s). So after each location the used pick with the largest residual in its
  * own sigmas is left out (kept in the event and reported with its residual, weight 0) and the event
  * located again, while that residual exceeds OUTLIER_SIGMAS and OUTLIER_SPREAD times the median of
- * the used picks', at most a third of the picks and never below MIN_PHASES + 1 used. Daybreak's rule
+ * the used picks' (or, for a pick whose record flags questionable timing, while its residual exceeds
+ * FLAGGED_MISFIT_S), at most a third of the picks and never below MIN_PHASES + 1 used. Daybreak's rule
  * (leaving out the worst residual and locating again is common practice in automatic location; the
  * thresholds are ours, not tuned): on those nights the 90th percentile of the epicentral error fell
  * from 0.47 to 0.20 km and of the depth error from 0.99 to 0.24-0.33 km (README).
@@ -25,6 +26,7 @@ import type { Pick } from '../pick';
 import { originFromHypocentre, type QmlOrigin } from '../quakeml';
 import type { Micros } from '../time';
 import { stationKey } from '../model';
+import { LOCAL_REREAD } from './reread';
 
 /** Where a site is: degrees north and east, metres above the model's datum (sea level). */
 export interface SiteCoordinates {
@@ -112,7 +114,8 @@ export function eventOrigin(
   const left = picksNow.map((p, i) => (p.use === false ? pickIds[index[i]] : null)).filter((id): id is string => id !== null);
   if (left.length) {
     origin.comment = `${origin.comment ? `${origin.comment}; ` : ''}${left.length} pick${left.length > 1 ? 's' : ''} left out as outlier${left.length > 1 ? 's' : ''} `
-      + `(residual over ${OUTLIER_SIGMAS} sigma and ${OUTLIER_SPREAD} times the median), kept as arrivals of weight 0: ${left.join(', ')}`;
+      + `(residual over ${OUTLIER_SIGMAS} sigma and ${OUTLIER_SPREAD} times the median, or over ${FLAGGED_MISFIT_S} s on a record with questionable timing), `
+      + `kept as arrivals of weight 0: ${left.join(', ')}`;
   }
   return { ok: true, origin };
 }
@@ -146,12 +149,27 @@ function outlierZ(arrivals: Residuals, picks: readonly LocationPick[], i: number
   return isOutlier(z.get(i), median);
 }
 
-/** Index of the used pick with the largest residual in its own sigmas when that is an outlier, else -1. */
+/**
+ * A used pick on a record that flags questionable timing is also left out when its residual exceeds
+ * this, s, however wide its sigma: the down-weighting (sigma x QUESTIONABLE_FACTOR) allows for a clock
+ * off by a fraction of a second, not for a wrong reading seconds off, which then sets the origin's RMS
+ * alone. The number is core/scan/reread.ts's misfit bound (LOCAL_REREAD.misfitSeconds).
+ */
+export const FLAGGED_MISFIT_S = LOCAL_REREAD.misfitSeconds;
+
+/**
+ * Index of the used pick with the largest residual in its own sigmas among the outliers (the module
+ * comment's rule, or a pick with questionable timing off by more than FLAGGED_MISFIT_S), else -1.
+ */
 function worstOutlier(arrivals: Residuals, picks: readonly LocationPick[]): number {
   const { z, median } = residualSigmas(arrivals, picks);
   let worst = -1;
-  for (const a of arrivals) if (a.used && (worst < 0 || z.get(a.pickIndex)! > z.get(worst)!)) worst = a.pickIndex;
-  return worst >= 0 && isOutlier(z.get(worst), median) ? worst : -1;
+  for (const a of arrivals) {
+    if (!a.used) continue;
+    const out = isOutlier(z.get(a.pickIndex), median) || (picks[a.pickIndex].timingQuestionable === true && Math.abs(a.residualS) > FLAGGED_MISFIT_S);
+    if (out && (worst < 0 || z.get(a.pickIndex)! > z.get(worst)!)) worst = a.pickIndex;
+  }
+  return worst;
 }
 
 /** A least-squares plane wave through arrival times: t = t0 + sx x + sy y. */

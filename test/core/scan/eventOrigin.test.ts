@@ -87,7 +87,7 @@ describe('eventOrigin', () => {
     expect(o.arrivals).toHaveLength(12);
     const left = o.arrivals[4];
     expect(left.timeWeight).toBe(0);
-    expect(o.comment).toMatch(/; 1 pick left out as outlier \(residual over 5 sigma and 5 times the median\), kept as arrivals of weight 0: ev\.4$/);
+    expect(o.comment).toMatch(/; 1 pick left out as outlier \(residual over 5 sigma and 5 times the median, or over 1 s on a record with questionable timing\), kept as arrivals of weight 0: ev\.4$/);
     expect(left.timeResidual).toBeGreaterThan(2.99);
     expect(left.timeResidual).toBeLessThan(3.01);
     // Plain least squares with that pick in does not converge (or is pulled far off): what the
@@ -107,6 +107,26 @@ describe('eventOrigin', () => {
     if (!r.ok) throw new Error(r.message);
     expect(haversineKm(SRC.lat, SRC.lon, r.origin.latitude, r.origin.longitude)).toBeLessThan(0.05);
     expect(r.origin.arrivals.map((a) => a.timeWeight === 0)).toEqual(ids.map((_id, i) => i === 2));
+  });
+
+  it('leaves out a pick with questionable timing that is over 1 s off however wide its sigma, and keeps one 0.6 s off', () => {
+    // An S read with +-0.5 s: sigma 0.5 s, times QUESTIONABLE_FACTOR (3) on a flagged record = 1.5 s, so
+    // 2 s off is 1.3 sigma (no outlier by sigmas), but over the 1 s bound for flagged records.
+    const wide = (shift: number, flagged: boolean) => picks.map((p, i) => (i === 5
+      ? { ...p, time: p.time + shift, lowerUncertainty: 0.5, upperUncertainty: 0.5, questionableTiming: flagged } : p));
+    const weights = (list: Pick[]) => {
+      const r = eventOrigin('ev', list, ids, sites, DEFAULT_MODEL, 'default');
+      if (!r.ok) throw new Error(r.message);
+      return r.origin;
+    };
+    const off = weights(wide(2_000_000, true));
+    expect(off.arrivals.map((a) => a.timeWeight === 0)).toEqual(ids.map((_id, i) => i === 5));
+    expect(off.arrivals[5].timeResidual).toBeGreaterThan(1.99);
+    expect(off.quality?.standardError).toBeLessThan(0.01);
+    // Not flagged: 2 s is 4 sigma of 0.5 s, under the 5-sigma rule, so it stays in.
+    expect(weights(wide(2_000_000, false)).arrivals[5].timeWeight).toBeGreaterThan(0);
+    // Flagged but 0.6 s off: within the bound, used with its widened sigma.
+    expect(weights(wide(600_000, true)).arrivals[5].timeWeight).toBeGreaterThan(0);
   });
 
   it('leaves out nothing when the residuals are alike (picks scattered by a few sigma at most)', () => {

@@ -152,6 +152,15 @@ describe('rereadMisfits', () => {
     expect(pair.changes.map((c) => c.id)).toEqual(['ev.A.P', 'ev.A.S']);
     expect(Math.abs(pair.picks[0].time - TP) / 1e6).toBeLessThan(0.02);
     expect(Math.abs(pair.picks[1].time - TS) / 1e6).toBeLessThan(0.03);
+    // A "P" 0.7 s into the S wave (a trigger late in S) and the S 2.46 s after it: the P lies within the
+    // misfit bound (1 s) of the predicted S, so not a clock either, and both are read again.
+    const late = rereadMisfits(
+      [pick('P', TS + 700_000, 'HHZ'), pick('S', TS + 3_160_000, 'HHN')], ['ev.A.P', 'ev.A.S'],
+      origin([...GOOD, arrival('ev.A.P', 'P', 3.15, 0), arrival('ev.A.S', 'S', 3.16, 0)]), site(z, n, e), MODEL,
+    );
+    expect(late.changes.map((c) => c.id)).toEqual(['ev.A.P', 'ev.A.S']);
+    expect(Math.abs(late.picks[0].time - TP) / 1e6).toBeLessThan(0.02);
+    expect(Math.abs(late.picks[1].time - TS) / 1e6).toBeLessThan(0.03);
     const flagged = { ...pick('P', TS, 'HHZ'), questionableTiming: true };
     const kept = rereadMisfits([flagged], ['ev.A.P'], origin([...GOOD, arrival('ev.A.P', 'P', 2.45, 0)]), site(z, null, null), MODEL);
     expect(kept.changes).toEqual([]);
