@@ -37,7 +37,7 @@ export const KEY_MAP: readonly KeyBinding[] = [
   { group: 'Picks (index finger)', keys: 'R', action: 'placeP', what: 'place a P pick at the pointer' },
   { group: 'Picks (index finger)', keys: 'F', action: 'placeS', what: 'place an S pick at the pointer' },
   { group: 'Picks (index finger)', keys: 'V', action: 'deletePick', what: 'delete the selected pick; on an amplitude mark: take it out of ML, or put it back' },
-  { group: 'Picks (index finger)', keys: 'Shift+V', action: 'leaveOut', what: 'leave the selected pick out of the location (kept, with its residual), or use it again; on an amplitude mark: take the whole station out of ML, or put it back' },
+  { group: 'Picks (index finger)', keys: 'Shift+V', action: 'leaveOut', what: 'pick: leave it out of the location (kept), or use it again; amplitude mark: the whole station out of ML, or back' },
   { group: 'Picks (index finger)', keys: 'drag a green mark', action: 'deletePick', what: 'move an amplitude: its peak is measured again where it is dropped' },
   { group: 'Onset (middle finger)', keys: 'E', action: 'onsetImpulsive', what: 'onset impulsive' },
   { group: 'Onset (middle finger)', keys: 'D', action: 'onsetEmergent', what: 'onset emergent' },
