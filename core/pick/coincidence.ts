@@ -23,9 +23,13 @@
  * stays in the same grid cell; to keep identifiers across a re-scan in which late data add an earlier
  * trigger, pass the earlier scan's events as `previous`: a new event whose member on-times overlap a
  * previous event's span [time, last member on-time] (within `slack`) takes that event's identifier.
+ *
+ * A second event seconds after another joins the first one's candidate (as members at sites the first
+ * did not reach, as secondary triggers at the others); once the candidate is located,
+ * `unexplainedTriggers` gives the triggers its origin does not explain, for the coincidence again.
  */
 import { stationKey, channelKey } from '../model';
-import { isoFromMicros } from '../time';
+import { isoFromMicros, type Micros } from '../time';
 import type { CandidateEvent, StationTrigger } from './types';
 
 /** Station position: flat coordinates in km, or geographic in degrees. */
@@ -44,6 +48,8 @@ export interface CoincidenceOptions {
   readonly idGrid: number;
   /** Events of an earlier scan of the same span, whose identifiers are reused (see the module comment). */
   readonly previous?: readonly CandidateEvent[];
+  /** Identifiers already given to other events, which new ones skip (a suffix letter is added). */
+  readonly reserved?: ReadonlySet<string>;
 }
 
 export const DEFAULT_COINCIDENCE: Omit<CoincidenceOptions, 'network'> = Object.freeze({
@@ -164,7 +170,8 @@ export function coincidence(
     if (id === undefined) {
       const base = `${o.network}.${idTime(time, o.idGrid)}`;
       id = base;
-      for (let n = 1; taken.has(id) || prev.some((p) => p.id === id); n++) id = base + String.fromCharCode(97 + n);
+      const given = (x: string) => taken.has(x) || prev.some((p) => p.id === x) || (o.reserved?.has(x) ?? false);
+      for (let n = 1; given(id); n++) id = base + String.fromCharCode(97 + n);
     }
     taken.add(id);
     events.push({
@@ -178,4 +185,39 @@ export function coincidence(
     });
   }
   return events;
+}
+
+/** Predicted P and S arrival times (µs) of a located event at a site ("NET.STA"), or null when none can be given. */
+export type PredictedArrivals = (site: string) => { readonly P: Micros; readonly S: Micros } | null;
+
+/**
+ * The triggers of a located candidate (its members and its secondary triggers) that its origin does
+ * not explain: whose on-time lies more than `slack` seconds from both the P and the S time the origin
+ * predicts at their site. A trigger at a site without a prediction counts as explained (nothing to
+ * judge it by). In time order; none when the origin explains the triggers of fewer than `minSites`
+ * sites (it is then not the event the coincidence found, and a candidate made of what it leaves
+ * could be the same one again).
+ *
+ * Why: a second earthquake 3-20 s after another (a doublet, an early aftershock) triggers inside the
+ * first one's coincidence window, so its triggers join the first candidate, as members at sites the
+ * first did not reach and as secondary triggers at the others, and it gets no candidate of its own.
+ * One origin explains a trigger at its P or its S (a trigger comes after its onset by about the STA
+ * window, and `slack` - coincidence's own allowance for that and clock error - covers it); triggers
+ * it explains at neither are another source's. The caller runs `coincidence` on them again: three
+ * or more sites that agree make a candidate of their own (Daybreak's rule; README, "Automatic
+ * locations").
+ */
+export function unexplainedTriggers(event: CandidateEvent, predicted: PredictedArrivals, slack: number, minSites: number): StationTrigger[] {
+  if (!(slack >= 0 && Number.isFinite(slack))) throw new RangeError(`slack (s) must be >= 0, got ${slack}`);
+  if (!Number.isInteger(minSites) || minSites < 1) throw new RangeError(`minSites must be an integer >= 1, got ${minSites}`);
+  const slackUs = Math.round(slack * 1e6);
+  const out: StationTrigger[] = [];
+  const explained = new Set<string>();
+  for (const t of [...event.triggers, ...event.secondary]) {
+    const site = stationKey(t.id);
+    const at = predicted(site);
+    if (!at || Math.abs(t.on - at.P) <= slackUs || Math.abs(t.on - at.S) <= slackUs) explained.add(site);
+    else out.push(t);
+  }
+  return explained.size >= minSites ? out.sort((a, b) => a.on - b.on) : [];
 }

@@ -15,7 +15,8 @@ export {
   resolveOnsetOptions, sWindow, type SWindowOptions,
 } from './onset';
 export {
-  coincidence, type CoincidenceOptions, DEFAULT_COINCIDENCE, idTime, siteDistanceKm, type SitePosition,
+  coincidence, type CoincidenceOptions, DEFAULT_COINCIDENCE, idTime, type PredictedArrivals, siteDistanceKm, type SitePosition,
+  unexplainedTriggers,
 } from './coincidence';
 export { chooseSiteStreams, type SiteStream } from './streams';
 export { LOCAL_EARTHQUAKE, LOCAL_EARTHQUAKE_BUSY, NEAR_FIELD_MICROSEISMIC, type PickingPreset } from './presets';

@@ -29,7 +29,7 @@
  * from joining a pick, 0.5 s from the fit below which core/scan/reread.ts reads misfits again)
  * before measuring it, not tuned.
  */
-import { stationKey } from '../model';
+import { stationKey, type ChannelId } from '../model';
 import type { SiteLocation, VelocityModel } from '../location';
 import type { QmlEvent, QmlOrigin } from '../quakeml';
 import type { Micros } from '../time';
@@ -166,4 +166,23 @@ function joinPicks(to: QmlEvent, from: QmlEvent, predict: ArrivalPredictor, join
     if (!t || !(Math.abs(p.time - t[phase]) <= joinSeconds * 1e6)) continue;
     to.picks.push({ ...p, comment: `${p.comment ? `${p.comment}; ` : ''}from candidate ${from.id}, the same event read twice` });
   }
+}
+
+/**
+ * The picks of a candidate found inside other events' coincidence window (core/pick
+ * unexplainedTriggers) less those that are the other events' onsets: a pick lying within
+ * `joinSeconds` of the P or the S time an earlier event's origin predicts at its site (`predict`),
+ * whatever its phase hint, is that event's (the same bound by which a pick joins a kept copy
+ * above). The second event's picker searches its sites from its own first P, and where the first
+ * event's S or coda lies there it may read that instead.
+ */
+export function leaveOutOthersOnsets<T extends { readonly time: Micros; readonly waveformId: ChannelId }>(
+  picks: readonly T[], others: readonly QmlEvent[], predict: ArrivalPredictor, joinSeconds = JOIN_S,
+): T[] {
+  if (!(joinSeconds >= 0 && Number.isFinite(joinSeconds))) throw new RangeError(`joinSeconds must be >= 0, got ${joinSeconds}`);
+  const near = Math.round(joinSeconds * 1e6);
+  return picks.filter((p) => !others.some((e) => {
+    const t = predict(e, stationKey(p.waveformId));
+    return t !== null && (Math.abs(p.time - t.P) <= near || Math.abs(p.time - t.S) <= near);
+  }));
 }

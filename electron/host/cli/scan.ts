@@ -17,6 +17,11 @@
  *     `filterPad` seconds before the earliest P window or re-trigger LTA, so the filter has settled;
  *     to the end of the longest S window) and picked (core/scan eventPicks: core/pick's
  *     pickEventSites, with a P-only location widening the S window for distant events).
+ *     A located candidate's triggers that its origin explains at neither P nor S (a second event
+ *     3-20 s after the first: a doublet, an early aftershock) go through the coincidence again; three
+ *     or more sites that agree make a candidate of their own, picked without the first event's
+ *     onsets and written when its origin fits (core/pick unexplainedTriggers, core/scan/duplicates.ts
+ *     leaveOutOthersOnsets).
  *  5. Magnitude: per located event, the horizontals around its amplitude windows are read (with a
  *     margin for the response-removal taper) and measured.
  *
@@ -32,7 +37,7 @@ import { isoFromMicros, type Micros } from '../../../core/time';
 import { isMiniSeed3, looksLikeRecordStart } from '../../../core/mseed';
 import { parseStationXml, findChannel, missingMetadata, type Inventory } from '../../../core/stationxml';
 import { designForChannel, verticalPolarity } from '../../../core/dsp';
-import { chooseSiteStreams, coincidence, type CandidateEvent, type OriginPick, type Pick, type SitePosition, type StationTrigger } from '../../../core/pick';
+import { chooseSiteStreams, coincidence, unexplainedTriggers, type CandidateEvent, type OriginPick, type Pick, type SitePosition, type StationTrigger } from '../../../core/pick';
 import { pickComment, writeQuakeMl, type QmlEvent, type QmlOrigin } from '../../../core/quakeml';
 import {
   channelResponse, eventMagnitude, magnitudeOrigin, stationWindows, type EventMagnitude, type HorizontalTrace, type MagnitudeStation,
@@ -44,9 +49,9 @@ import { atomicTempPath, removeStaleTemps } from '../atomicTemp';
 import { TriggerStream } from '../../../core/scan/triggerStream';
 import { eventPicks, pickId, rereadSites, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
 import { earliestOriginFromP, eventOrigin, siteLocation, type SiteCoordinates } from '../../../core/scan/eventOrigin';
-import { leaveOutDuplicates, originPredictor } from '../../../core/scan/duplicates';
+import { FIT_S, leaveOutDuplicates, leaveOutOthersOnsets, originPredictor } from '../../../core/scan/duplicates';
 import { rereadMisfits, type RereadChange } from '../../../core/scan/reread';
-import { DEFAULT_MODEL, parseVelocityModel, type VelocityModel } from '../../../core/location';
+import { DEFAULT_MODEL, MIN_PHASES, parseVelocityModel, type VelocityModel } from '../../../core/location';
 import { listFiles } from '../mseedFiles';
 import { indexFile, readWindow, type IndexedFile } from '../scan/recordFiles';
 import { duration } from './info';
@@ -287,6 +292,8 @@ export interface ScanSummary {
   picks: { P: number; S: number };
   /** Candidates left out as another candidate read twice: "ID (the same picks as ID)" or "ID (its picks fit ID's origin)". */
   duplicates: string[];
+  /** Candidates made of another's triggers its origin did not explain: "ID (inside ID's window)", or "ID left out (why)". */
+  split: string[];
   /** Picks the location did not fit, read again: replaced by a new reading, or dropped. */
   reread: { replaced: number; dropped: number };
   skippedChannels: { id: string; why: string }[];
@@ -330,7 +337,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   let s = a.settings;
   const bar = a.progress === 'bar' ? progressBar(process.stderr) : a.progress === 'lines' ? progressLines(process.stderr) : null;
   const summary: ScanSummary = {
-    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, duplicates: [], reread: { replaced: 0, dropped: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
+    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, duplicates: [], split: [], reread: { replaced: 0, dropped: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
   };
   let bad = false;
 
@@ -473,7 +480,8 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   for (const x of sites.values()) positions.set(x.key, x.position);
   const networks = [...new Set([...sites.values()].map((x) => x.vertical.network))].sort();
   const network = networks.length === 1 && /^[A-Za-z0-9_-]{1,16}$/.test(networks[0]) ? networks[0] : 'NET';
-  const events: CandidateEvent[] = triggers.length ? coincidence(triggers, positions, { minSites: s.minSites, vMin: s.vMin, slack: s.slack, network }) : [];
+  const coincide = { minSites: s.minSites, vMin: s.vMin, slack: s.slack, network };
+  const events: CandidateEvent[] = triggers.length ? coincidence(triggers, positions, coincide) : [];
 
   // Pass 2: picks per event, at every site whose data covers it (sites that did not trigger are
   // searched with pickEventSites' lower re-trigger level).
@@ -485,6 +493,9 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   const locations = new Map([...coords].map(([key, c]) => [key, siteLocation(c)]));
   const earliestOrigin = (pp: readonly OriginPick[]) => earliestOriginFromP(pp, coords, a.model, s.maxPTravelTime);
   const qmlEvents: QmlEvent[] = [];
+  const predict = originPredictor(locations, a.model);
+  // Candidates found inside other events' coincidence windows, with those events (earliest first).
+  const foundIn = new Map<CandidateEvent, QmlEvent[]>();
   for (let k = 0; k < events.length; k++) {
     const ev = events[k];
     bar?.update(0.8 + 0.2 * (k / events.length), `picking ${ev.id}`);
@@ -523,6 +534,8 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
       });
     }
     let picks = eventPicks(ev, pickSites, sosFor, s, earliestOrigin);
+    const earlier = foundIn.get(ev);
+    if (earlier) picks = leaveOutOthersOnsets(picks, earlier, predict);
     let qe = toQmlEvent(ev, picks);
     let o = eventOrigin(ev.id, picks, qe.picks.map((p) => p.id), coords, a.model, a.modelId);
     if (o.ok && s.reread) {
@@ -548,14 +561,46 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
       qe.origins.push(o.origin);
       qe.preferredOriginId = o.origin.id;
     } else qe.comment = `${qe.comment}; not located: ${o.message}`;
+    const fits = o.ok && (o.origin.quality?.standardError ?? Infinity) <= FIT_S;
+    if (earlier) {
+      // A candidate found inside another's window is written only when its own origin fits its
+      // picks as well as an origin must to predict anything (FIT_S), with more phases used than the
+      // four unknowns (with four, any four times fit exactly): triggers in an event's coda and late
+      // S triggers agree by chance, and their picks locate nowhere.
+      const used = o.ok ? (o.origin.quality?.usedPhaseCount ?? 0) : 0;
+      if (!fits || used <= MIN_PHASES) {
+        const why = !o.ok ? 'not located' : !fits ? `standard error ${(o.origin.quality?.standardError ?? NaN).toFixed(2)} s` : `${used} phases used`;
+        summary.split.push(`${ev.id} left out (${why})`);
+        continue;
+      }
+      summary.split.push(`${ev.id} (inside ${earlier[earlier.length - 1].id}'s window)`);
+      qe.comment = `${qe.comment}; found inside ${earlier[earlier.length - 1].id}'s coincidence window, from triggers its origin did not explain`;
+    }
     qmlEvents.push(qe);
+    // A second event inside this one's coincidence window (a doublet, an early aftershock): the
+    // triggers its origin explains at neither P nor S, where three or more sites of them agree, make
+    // candidates of their own (core/pick unexplainedTriggers), picked and located in their turn. Only
+    // an origin that fits its picks (standard error within duplicates.ts's FIT_S) predicts anything.
+    if (fits) {
+      const located = qe;
+      const left = unexplainedTriggers(ev, (site) => predict(located, site), s.slack, s.minSites);
+      if (new Set(left.map((t) => stationKey(t.id))).size >= s.minSites) {
+        const more = coincidence(left, positions, { ...coincide, reserved: new Set(events.map((e) => e.id)) });
+        for (const m of more) {
+          let at = k + 1;
+          while (at < events.length && events[at].time <= m.time) at++;
+          events.splice(at, 0, m);
+          foundIn.set(m, [...(earlier ?? []), located]);
+        }
+      }
+    }
   }
 
   // One event read twice (straggling triggers, a regional event's S triggering again, or far sites
   // triggering on a local event's S) is written once: the copy whose origin fits better
   // (core/scan/duplicates.ts). Before the magnitudes, so no data are read for a copy left out, and
   // the copy kept is measured with the picks it took over.
-  const { kept, dropped } = leaveOutDuplicates(qmlEvents, originPredictor(locations, a.model));
+  const { kept, dropped } = leaveOutDuplicates(qmlEvents, predict);
   summary.duplicates = dropped.map((d) => (d.reason === 'same picks' ? `${d.id} (the same picks as ${d.duplicateOf})` : `${d.id} (its picks fit ${d.duplicateOf}'s origin)`));
   for (const qe of kept) {
     const origin = qe.origins[0];
@@ -712,6 +757,11 @@ export function summaryText(sm: ScanSummary, out: string): string {
   lines.push(`daybreak scan: ${sm.candidates} candidate event${sm.candidates === 1 ? '' : 's'}, ${sm.picks.P} P and ${sm.picks.S} S picks written to ${out}`);
   lines.push(`  settings: ${sm.settings}`);
   lines.push(`  located: ${sm.located} of ${sm.candidates} (an origin each)`);
+  if (sm.split.length) {
+    const found = sm.split.filter((x) => !x.includes(' left out ('));
+    const out = sm.split.length - found.length;
+    lines.push(`  found inside another event's coincidence window, from triggers its origin did not explain: ${found.length}${out ? ` (and ${out} left out: no origin within ${FIT_S} s on more than ${MIN_PHASES} phases)` : ''} (${sm.split.join(', ')})`);
+  }
   if (sm.duplicates.length) lines.push(`  left out as the same event read twice: ${sm.duplicates.length} (${sm.duplicates.join(', ')})`);
   if (sm.reread.replaced + sm.reread.dropped > 0) {
     lines.push(`  picks the locations did not fit: ${sm.reread.replaced} read again at the predicted time, ${sm.reread.dropped} dropped (nothing there above the noise)`);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { coincidence, idTime, siteDistanceKm, type SitePosition } from '../../../core/pick/coincidence';
+import { coincidence, idTime, siteDistanceKm, unexplainedTriggers, type PredictedArrivals, type SitePosition } from '../../../core/pick/coincidence';
 import type { StationTrigger } from '../../../core/pick/types';
 import { microsFromIso } from '../../../core/time';
 import { numpy, numpyVersions } from './numpy';
@@ -114,5 +114,70 @@ describe('network coincidence', () => {
     expect(() => coincidence(event, square, { network: 'XX', minSites: 0 })).toThrow(/minSites must be an integer >= 1, got 0/);
     expect(() => coincidence(event, square, { network: 'XX', vMin: -1 })).toThrow(/vMin \(km\/s\) must be > 0, got -1/);
     expect(() => coincidence(event, square, { network: 'a b' })).toThrow(/network must be 1-16 letters/);
+  });
+});
+
+// A second event inside the first one's coincidence window. Straight rays in a uniform half-space,
+// vp 6.0 and vs 3.5 km/s (values chosen for the test), t = hypocentral distance / v, worked by hand:
+//   first event at (10, 10), 8 km deep, origin T: every site at sqrt(100 + 100 + 64) = 16.2481 km,
+//     P 2.70801 s, S 4.64231 s;
+//   second event at (0, 0), 8 km deep, origin T + 8 s: site A at 8 km, P 1.33333 s; B and C at
+//     sqrt(400 + 64) = 21.5407 km, P 3.59011 s; D at sqrt(800 + 64) = 29.3939 km, P 4.89898 s; so P
+//     at A 9.33333, B and C 11.59011, D 12.89898 s after T.
+// Triggers come 0.1-0.2 s after their onsets (a fraction of the STA window).
+describe('triggers a located candidate does not explain (a second event in its window)', () => {
+  const P1 = 2.70801, S1 = 4.64231;
+  const first = [trig('A', 2.81, 1.5), trig('B', 2.91, 1.5), trig('C', 3.01, 1.5), trig('D', 3.11, 1.5)];
+  const sTriggers = [trig('A', 4.80, 1.5), trig('D', 4.75, 1.5)];
+  const second = [trig('A', 9.45, 1.5), trig('B', 11.70, 1.5), trig('C', 11.75, 1.5), trig('D', 13.05, 1.5)];
+  const at = (s: number) => T + Math.round(s * 1e6);
+  const firstOrigin: PredictedArrivals = (site) => (square.has(site) ? { P: at(P1), S: at(S1) } : null);
+
+  it('the coincidence makes one candidate of both events; the triggers the first origin explains at neither P nor S are the second event\'s', () => {
+    const events = coincidence([...first, ...sTriggers, ...second], square, { network: 'XX' });
+    // The second event's triggers all come within the first's span plus the largest move-out
+    // (sqrt(800) / 3 + 1 = 10.43 s after the last member's off time), so they are secondary.
+    expect(events.length).toBe(1);
+    expect(events[0].secondary.length).toBe(6);
+    const left = unexplainedTriggers(events[0], firstOrigin, 1.0, 3);
+    // S triggers 0.16 and 0.11 s after the predicted S are explained; the others lie 4.8-8.4 s after it.
+    expect(left.map((t) => [t.id.station, (t.on - T) / 1e6])).toEqual([['A', 9.45], ['B', 11.7], ['C', 11.75], ['D', 13.05]]);
+    // Coincidence on them again: one candidate of four sites, at the second event's first trigger,
+    // its identifier from that time (T + 9.45 s = 03:29:33.85).
+    const again = coincidence(left, square, { network: 'XX', reserved: new Set([events[0].id]) });
+    expect(again.length).toBe(1);
+    expect(again[0].sites).toEqual(['XX.A', 'XX.B', 'XX.C', 'XX.D']);
+    expect(again[0].time).toBe(at(9.45));
+    expect(again[0].id).toBe('XX.20261202T032933');
+    // An identifier already given is skipped.
+    expect(coincidence(left, square, { network: 'XX', reserved: new Set(['XX.20261202T032933']) })[0].id).toBe('XX.20261202T032933b');
+  });
+
+  it('a trigger within slack of the predicted P or S is explained, just outside it is not', () => {
+    // C triggers 1.001 s before the predicted P (its first trigger, so a member, and the seed), and
+    // again at 3.01 s; A and B trigger 0.999 and 1.001 s after the predicted S.
+    const ev = coincidence([...first, trig('C', P1 - 1.001, 1.5), trig('A', S1 + 0.999, 1.5), trig('B', S1 + 1.001, 1.5)], square, { network: 'XX' })[0];
+    expect(ev.triggers.map((t) => t.id.station)).toEqual(['C', 'A', 'B', 'D']);
+    expect(ev.secondary.length).toBe(3);
+    const left = unexplainedTriggers(ev, firstOrigin, 1.0, 3);
+    expect(left.map((t) => [t.id.station, t.on - T])).toEqual([['C', 1_707_010], ['B', 5_643_310]]);
+    expect(unexplainedTriggers(ev, firstOrigin, 1.002, 3)).toEqual([]);
+  });
+
+  it('nothing is left when the origin explains the triggers of fewer than minSites sites, or a site has no prediction', () => {
+    const events = coincidence([...first, ...second], square, { network: 'XX' });
+    // Predictions only for C and D, 100 s away: no site explained, so the origin is not this candidate's.
+    const elsewhere: PredictedArrivals = (site) => (site === 'XX.C' || site === 'XX.D' ? { P: at(100), S: at(110) } : null);
+    expect(unexplainedTriggers(events[0], elsewhere, 1.0, 3)).toEqual([]);
+    // Sites without a prediction (A, B) count as explained: two sites, enough for minSites 2, and
+    // C's and D's triggers (first and second event) are left.
+    expect(unexplainedTriggers(events[0], elsewhere, 1.0, 2).map((t) => [t.id.station, (t.on - T) / 1e6]))
+      .toEqual([['C', 3.01], ['D', 3.11], ['C', 11.75], ['D', 13.05]]);
+  });
+
+  it('refuses a bad slack or minSites', () => {
+    const ev = coincidence(first, square, { network: 'XX' })[0];
+    expect(() => unexplainedTriggers(ev, firstOrigin, -1, 3)).toThrow(/slack \(s\) must be >= 0, got -1/);
+    expect(() => unexplainedTriggers(ev, firstOrigin, 1, 0)).toThrow(/minSites must be an integer >= 1, got 0/);
   });
 });

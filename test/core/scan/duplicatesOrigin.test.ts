@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { QmlEvent, QmlOrigin, QmlPick } from '../../../core/quakeml';
-import { leaveOutDuplicates, originPredictor, type ArrivalPredictor } from '../../../core/scan/duplicates';
+import { JOIN_S, leaveOutDuplicates, leaveOutOthersOnsets, originPredictor, type ArrivalPredictor } from '../../../core/scan/duplicates';
 
 // The origin test of core/scan/duplicates.ts: a candidate made of another event's later onsets (far
 // sites triggering on its S) is left out when half of its picks lie within 0.5 s of the P or S time
@@ -127,5 +127,33 @@ describe('originPredictor', () => {
     expect((t!.P - T0) / 1e6).toBeCloseTo(1.333333, 5);
     expect((t!.S - T0) / 1e6).toBeCloseTo(2.285714, 5);
     expect(p(better(0.27), 'XX.ZZ')).toBeNull();
+  });
+});
+
+// A candidate found inside another's coincidence window (core/pick unexplainedTriggers) keeps only
+// the picks that are not the first event's onsets: a pick within JOIN_S (0.5 s) of the P or S time
+// the first event's origin predicts at its site is the first event's. Daybreak's own rule: the
+// expected picks are worked by hand from it and the table above (first event's origin at 0 s).
+describe('leaveOutOthersOnsets: a second event\'s picks less the first event\'s onsets', () => {
+  const first = better(0.05);
+  const picks = [
+    pick('NN', 'P', 3.70), // 3.70 - 3.65893 = 0.041 s after the first's S: the first's S read as P, left out
+    pick('NN', 'S', 5.00), // 5.00 - 3.65893 = 1.341 s after it: kept
+    pick('FF', 'P', 7.30), // 7.30 - 6.79869 = 0.50131 s after the first's P: just outside 0.5 s, kept
+    pick('FF', 'S', 12.15), // 12.15 - 11.65490 = 0.4951 s after the first's S: left out
+    pick('ZZ', 'P', 4.00), // no prediction at ZZ: kept
+  ];
+  const names = (list: readonly QmlPick[]) => list.map((p) => `${p.waveformId.station} ${p.phaseHint}`);
+
+  it('drops the picks within 0.5 s of the first origin\'s predicted P or S at their site, whatever their phase', () => {
+    expect(JOIN_S).toBe(0.5);
+    expect(names(leaveOutOthersOnsets(picks, [first], predict))).toEqual(['NN S', 'FF P', 'ZZ P']);
+  });
+
+  it('takes the bound as given, and keeps everything when there is no earlier event', () => {
+    expect(names(leaveOutOthersOnsets(picks, [first], predict, 0.502))).toEqual(['NN S', 'ZZ P']);
+    expect(names(leaveOutOthersOnsets(picks, [first], predict, 0.04))).toEqual(['NN P', 'NN S', 'FF P', 'FF S', 'ZZ P']);
+    expect(leaveOutOthersOnsets(picks, [], predict).length).toBe(5);
+    expect(() => leaveOutOthersOnsets(picks, [first], predict, -0.1)).toThrow(/joinSeconds must be >= 0, got -0.1/);
   });
 });
