@@ -22,7 +22,11 @@
  *     or more sites that agree make a candidate of their own, picked without the first event's
  *     onsets and written when its origin fits (core/pick unexplainedTriggers, core/scan/duplicates.ts
  *     leaveOutOthersOnsets).
- *  5. Magnitude: per located event, the horizontals around its amplitude windows are read (with a
+ *     Each candidate is located (core/scan eventOrigin, outliers left out at weight 0); misfits of
+ *     the location are read again around their predicted times and the event located again
+ *     (core/scan/reread.ts).
+ *  5. One event read twice is written once (core/scan/duplicates.ts leaveOutDuplicates).
+ *  6. Magnitude: per located event, the horizontals around its amplitude windows are read (with a
  *     margin for the response-removal taper) and measured.
  *
  * Exit codes: 0 done; 1 done, but some input was bad or unknown and was reported (bad records, a file
