@@ -4,7 +4,6 @@
  */
 import type { HostApi, Dataset } from '../electron/contract';
 import { isoFromMicros, type Micros } from '../core/time';
-import type { FilterRequest } from '../core/dsp';
 import { DataSession, OVERVIEW_BIN_MICROS } from './data/session';
 import { siteStreams, type SiteStreams } from './data/sites';
 import { Overview } from './overview';
@@ -44,18 +43,7 @@ import { setFixedDepth } from '../core/location/reviewDepth';
 import { NoteField } from './noteField';
 import { channelKey, type ChannelId } from '../core/model';
 import { SpectrumPanel } from './spectrum/spectrumPanel';
-
-export interface FilterPreset { label: string; filter: FilterRequest | null }
-
-export const FILTER_PRESETS: FilterPreset[] = [
-  { label: 'as recorded', filter: null },
-  { label: '1\u201320 Hz', filter: { kind: 'bandpass', order: 4, corners: [1, 20] } },
-  { label: '2\u201315 Hz', filter: { kind: 'bandpass', order: 4, corners: [2, 15] } },
-  { label: '5\u201340 Hz', filter: { kind: 'bandpass', order: 4, corners: [5, 40] } },
-  { label: '0.5\u20135 Hz', filter: { kind: 'bandpass', order: 4, corners: [0.5, 5] } },
-  { label: 'above 1 Hz', filter: { kind: 'highpass', order: 4, corners: 1 } },
-];
-
+import { FILTER_PRESETS, defaultFilterIndex } from './filterPresets';
 
 /** Window the sheet opens around a moment picked on the overview: 20 s before, 70 s after. */
 const OPEN_BEFORE_S = 20;
@@ -189,6 +177,11 @@ export class Desk {
 
   private build(): void {
     const [t0, t1] = this.session.span;
+    const positions = new Map<string, { latitude: number; longitude: number }>();
+    for (const ch of this.session.channels.values()) {
+      if (ch.meta) positions.set(`${ch.meta.id.network}.${ch.meta.id.station}`, { latitude: ch.meta.latitude, longitude: ch.meta.longitude });
+    }
+    this.filterIndex = defaultFilterIndex([...positions.values()]);
     const overviewHost = el('section', { className: 'overview-host' });
     const headline = el('div', { className: 'overview-title' },
       el('span', {}, 'Night overview'),
@@ -850,7 +843,7 @@ export class Desk {
       case 'filterNext': this.eventList.nextFilter(); return;
       case 'markDone': if (ev) this.apply((d) => setState(d, ev.id, 'done')); return;
       case 'discardEvent': if (ev) this.apply((d) => setState(d, ev.id, 'discarded')); return;
-      case 'filter1': case 'filter2': case 'filter3': case 'filter4': case 'filter5': case 'filter6': {
+      case 'filter1': case 'filter2': case 'filter3': case 'filter4': case 'filter5': case 'filter6': case 'filter7': {
         const i = Number(action.slice(-1)) - 1;
         if (i < FILTER_PRESETS.length && this.filterSelect) {
           this.filterIndex = i;

@@ -14,7 +14,7 @@
  * amplitude spectrum of the site under the pointer; N again or Escape closes it (the panel takes
  * Escape itself, and only while it is open, so Escape still closes the dialogs).
  * Thumb and reach keys: Tab / Shift+Tab next / previous event, Enter marks the event done,
- * Backspace discards it, 1-6 filter presets, arrows pan, Ctrl+Z / Ctrl+Shift+Z undo / redo,
+ * Backspace discards it, 1-7 filter presets, arrows pan, Ctrl+Z / Ctrl+Shift+Z undo / redo,
  * ? shows this map.
  * The event list, with the key above Tab (Tab walks the list in its order): ` sorts by the next key
  * (time, state, sites, RMS, magnitude), ~ (Shift+`) turns the order round; Shift+Enter (beside
@@ -27,7 +27,7 @@ export type KeyAction =
   | 'widen' | 'uncertaintyFromZoom' | 'narrow'
   | 'zoomToPick' | 'wholeWindow' | 'acceptAutomatic'
   | 'nextEvent' | 'previousEvent' | 'markDone' | 'discardEvent' | 'sortNext' | 'sortReverse' | 'filterNext'
-  | 'filter1' | 'filter2' | 'filter3' | 'filter4' | 'filter5' | 'filter6'
+  | 'filter1' | 'filter2' | 'filter3' | 'filter4' | 'filter5' | 'filter6' | 'filter7'
   | 'panLeft' | 'panRight' | 'undo' | 'redo' | 'help'
   | 'holdDepth' | 'radialTransverse' | 'spectrum';
 
@@ -61,7 +61,7 @@ export const KEY_MAP: readonly KeyBinding[] = [
   { group: 'Events', keys: '`', action: 'sortNext', what: 'sort the list by the next key (time, state, sites, RMS, magnitude)' },
   { group: 'Events', keys: '~ (Shift+`)', action: 'sortReverse', what: 'turn the list\u2019s order round' },
   { group: 'Events', keys: 'Shift+Enter', action: 'filterNext', what: 'list only the next review state (all, not done, to do, \u2026)' },
-  { group: 'View', keys: '1 \u2026 6', action: 'filter1', what: 'filter presets' },
+  { group: 'View', keys: '1 \u2026 7', action: 'filter1', what: 'filter presets' },
   { group: 'View', keys: '\u2190 \u2192', action: 'panLeft', what: 'pan by a quarter window' },
   { group: 'View', keys: 'wheel / drag / right-drag', action: 'wholeWindow', what: 'zoom at the pointer / zoom to a box / pan' },
   { group: 'Edit', keys: 'Ctrl+Z', action: 'undo', what: 'undo' },
@@ -77,7 +77,7 @@ const PLAIN: Record<string, KeyAction> = {
   t: 'zoomToPick', g: 'wholeWindow', b: 'acceptAutomatic',
   h: 'holdDepth', y: 'radialTransverse', n: 'spectrum',
   Enter: 'markDone', Backspace: 'discardEvent', Delete: 'deletePick',
-  '1': 'filter1', '2': 'filter2', '3': 'filter3', '4': 'filter4', '5': 'filter5', '6': 'filter6',
+  '1': 'filter1', '2': 'filter2', '3': 'filter3', '4': 'filter4', '5': 'filter5', '6': 'filter6', '7': 'filter7',
   ArrowLeft: 'panLeft', ArrowRight: 'panRight', '?': 'help',
 };
 
