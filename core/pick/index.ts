@@ -18,6 +18,7 @@ export {
   coincidence, type CoincidenceOptions, DEFAULT_COINCIDENCE, idTime, type PredictedArrivals, siteDistanceKm, type SitePosition,
   unexplainedTriggers,
 } from './coincidence';
+export { afterFront, earliestFront } from './front';
 export { chooseSiteStreams, type SiteStream } from './streams';
 export { LOCAL_EARTHQUAKE, LOCAL_EARTHQUAKE_BUSY, NEAR_FIELD_MICROSEISMIC, type PickingPreset } from './presets';
 export { type EventPickOptions, type EventSite, horizontalShare, type OriginPick, LOCAL_EVENT_PICKING, pickEventSites } from './eventSites';

@@ -21,7 +21,10 @@
  *     3-20 s after the first: a doublet, an early aftershock) go through the coincidence again; three
  *     or more sites that agree make a candidate of their own, picked without the first event's
  *     onsets and written when its origin fits (core/pick unexplainedTriggers, core/scan/duplicates.ts
- *     leaveOutOthersOnsets).
+ *     leaveOutOthersOnsets). A candidate whose origin fits badly (two events seconds apart, the first
+ *     the weaker, in one candidate) is picked and located again on the triggers of its earliest P
+ *     wave front, which keeps that origin when it fits; otherwise its triggers later than that front
+ *     allows for P go through the coincidence again, judged as above (core/pick/front.ts).
  *     Each candidate is located (core/scan eventOrigin, outliers left out at weight 0); misfits of
  *     the location are read again around their predicted times and the event located again
  *     (core/scan/reread.ts).
@@ -41,7 +44,10 @@ import { isoFromMicros, type Micros } from '../../../core/time';
 import { isMiniSeed3, looksLikeRecordStart } from '../../../core/mseed';
 import { parseStationXml, findChannel, missingMetadata, type Inventory } from '../../../core/stationxml';
 import { designForChannel, verticalPolarity } from '../../../core/dsp';
-import { chooseSiteStreams, coincidence, unexplainedTriggers, type CandidateEvent, type OriginPick, type Pick, type SitePosition, type StationTrigger } from '../../../core/pick';
+import {
+  afterFront, chooseSiteStreams, coincidence, earliestFront, LOCAL_EVENT_PICKING, unexplainedTriggers,
+  type CandidateEvent, type OriginPick, type Pick, type SitePosition, type StationTrigger,
+} from '../../../core/pick';
 import { pickComment, writeQuakeMl, type QmlEvent, type QmlOrigin } from '../../../core/quakeml';
 import {
   channelResponse, eventMagnitude, magnitudeOrigin, stationWindows, type EventMagnitude, type HorizontalTrace, type MagnitudeStation,
@@ -298,6 +304,8 @@ export interface ScanSummary {
   duplicates: string[];
   /** Candidates made of another's triggers its origin did not explain: "ID (inside ID's window)", or "ID left out (why)". */
   split: string[];
+  /** Candidates located on their earliest P wave front: "ID (N of M sites)". */
+  fronts: string[];
   /** Picks the location did not fit, read again: replaced by a new reading, or dropped. */
   reread: { replaced: number; dropped: number };
   skippedChannels: { id: string; why: string }[];
@@ -341,7 +349,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   let s = a.settings;
   const bar = a.progress === 'bar' ? progressBar(process.stderr) : a.progress === 'lines' ? progressLines(process.stderr) : null;
   const summary: ScanSummary = {
-    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, duplicates: [], split: [], reread: { replaced: 0, dropped: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
+    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, duplicates: [], split: [], fronts: [], reread: { replaced: 0, dropped: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
   };
   let bad = false;
 
@@ -500,9 +508,10 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   const predict = originPredictor(locations, a.model);
   // Candidates found inside other events' coincidence windows, with those events (earliest first).
   const foundIn = new Map<CandidateEvent, QmlEvent[]>();
-  for (let k = 0; k < events.length; k++) {
-    const ev = events[k];
-    bar?.update(0.8 + 0.2 * (k / events.length), `picking ${ev.id}`);
+  // The candidate each of those was found inside, and from which triggers.
+  const insideOf = new Map<CandidateEvent, { id: string; why: string }>();
+  // One candidate picked and located (misfits read again); `earlier`: the events it was found inside.
+  const readEvent = async (ev: CandidateEvent, earlier: readonly QmlEvent[] | undefined) => {
     const ons = ev.triggers.map((t) => t.on);
     const firstOn = Math.min(...ons), lastOn = Math.max(...ons);
     // Ahead: the filter's settling, the LTA of the re-trigger (from the first trigger less the
@@ -538,9 +547,9 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
       });
     }
     let picks = eventPicks(ev, pickSites, sosFor, s, earliestOrigin);
-    const earlier = foundIn.get(ev);
     if (earlier) picks = leaveOutOthersOnsets(picks, earlier, predict);
     let qe = toQmlEvent(ev, picks);
+    let changes: readonly RereadChange[] = [];
     let o = eventOrigin(ev.id, picks, qe.picks.map((p) => p.id), coords, a.model, a.modelId);
     if (o.ok && s.reread) {
       // Misfits of the location read again around their predicted times (core/scan/reread.ts).
@@ -557,7 +566,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
           picks = r.picks;
           qe = toQmlEvent(ev, picks, r.changes);
           o = again;
-          for (const c of r.changes) summary.reread[c.pick ? 'replaced' : 'dropped']++;
+          changes = r.changes;
         }
       }
     }
@@ -565,7 +574,48 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
       qe.origins.push(o.origin);
       qe.preferredOriginId = o.origin.id;
     } else qe.comment = `${qe.comment}; not located: ${o.message}`;
-    const fits = o.ok && (o.origin.quality?.standardError ?? Infinity) <= FIT_S;
+    return { qe, o, changes };
+  };
+  for (let k = 0; k < events.length; k++) {
+    const ev = events[k];
+    bar?.update(0.8 + 0.2 * (k / events.length), `picking ${ev.id}`);
+    const earlier = foundIn.get(ev);
+    let { qe, o, changes } = await readEvent(ev, earlier);
+    let fits = o.ok && (o.origin.quality?.standardError ?? Infinity) <= FIT_S;
+    if (!fits && !earlier) {
+      // Two events seconds apart whose triggers made one candidate (the first the weaker): its
+      // origin fits neither and predicts nothing (core/pick/front.ts). The triggers one P wave front
+      // can hold, from the earliest, within the bound of the picker's network first P (its
+      // firstPSpeed and the slack), are picked and located alone. When that origin fits as a split
+      // candidate's must (below), it is the candidate's, and the triggers it explains at neither P
+      // nor S go through the coincidence again (below). Otherwise the triggers later than the front
+      // allows for P go through it, and the candidates they make are judged as split ones (below).
+      const front = earliestFront(ev, positions, LOCAL_EVENT_PICKING.firstPSpeed, s.slack, s.minSites);
+      if (front) {
+        const r = await readEvent(front, undefined);
+        const used = r.o.ok ? (r.o.origin.quality?.usedPhaseCount ?? 0) : 0;
+        const was = o.ok ? `standard error ${(o.origin.quality?.standardError ?? NaN).toFixed(2)} s` : 'not located';
+        if (r.o.ok && (r.o.origin.quality?.standardError ?? Infinity) <= FIT_S && used > MIN_PHASES) {
+          ({ qe, o, changes } = r);
+          fits = true;
+          qe.comment = `${qe.comment}; located on its earliest P wave front, ${front.sites.length} of its ${ev.sites.length} sites (all of them: ${was})`;
+          summary.fronts.push(`${ev.id} (${front.sites.length} of ${ev.sites.length} sites)`);
+        } else {
+          const later = afterFront(ev, front, positions, LOCAL_EVENT_PICKING.firstPSpeed, s.slack);
+          if (new Set(later.map((t) => stationKey(t.id))).size >= s.minSites) {
+            for (const m of coincidence(later, positions, { ...coincide, reserved: new Set(events.map((e) => e.id)) })) {
+              let at = k + 1;
+              while (at < events.length && events[at].time <= m.time) at++;
+              events.splice(at, 0, m);
+              // No earlier origin predicts anything here, so none of its onsets is left out.
+              foundIn.set(m, []);
+              insideOf.set(m, { id: ev.id, why: 'from triggers later than its earliest P wave front allows for P' });
+            }
+          }
+        }
+      }
+    }
+    for (const c of changes) summary.reread[c.pick ? 'replaced' : 'dropped']++;
     if (earlier) {
       // A candidate found inside another's window is written only when its own origin fits its
       // picks as well as an origin must to predict anything (FIT_S), with more phases used than the
@@ -577,8 +627,9 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
         summary.split.push(`${ev.id} left out (${why})`);
         continue;
       }
-      summary.split.push(`${ev.id} (inside ${earlier[earlier.length - 1].id}'s window)`);
-      qe.comment = `${qe.comment}; found inside ${earlier[earlier.length - 1].id}'s coincidence window, from triggers its origin did not explain`;
+      const inside = insideOf.get(ev)!;
+      summary.split.push(`${ev.id} (inside ${inside.id}'s window)`);
+      qe.comment = `${qe.comment}; found inside ${inside.id}'s coincidence window, ${inside.why}`;
     }
     qmlEvents.push(qe);
     // A second event inside this one's coincidence window (a doublet, an early aftershock): the
@@ -595,6 +646,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
           while (at < events.length && events[at].time <= m.time) at++;
           events.splice(at, 0, m);
           foundIn.set(m, [...(earlier ?? []), located]);
+          insideOf.set(m, { id: located.id, why: 'from triggers its origin did not explain' });
         }
       }
     }
@@ -764,8 +816,9 @@ export function summaryText(sm: ScanSummary, out: string): string {
   if (sm.split.length) {
     const found = sm.split.filter((x) => !x.includes(' left out ('));
     const out = sm.split.length - found.length;
-    lines.push(`  found inside another event's coincidence window, from triggers its origin did not explain: ${found.length}${out ? ` (and ${out} left out: no origin within ${FIT_S} s on more than ${MIN_PHASES} phases)` : ''} (${sm.split.join(', ')})`);
+    lines.push(`  found inside another event's coincidence window, from triggers its origin did not explain or later than its earliest P wave front: ${found.length}${out ? ` (and ${out} left out: no origin within ${FIT_S} s on more than ${MIN_PHASES} phases)` : ''} (${sm.split.join(', ')})`);
   }
+  if (sm.fronts.length) lines.push(`  located on their earliest P wave front, the origin of all their sites not fitting: ${sm.fronts.length} (${sm.fronts.join(', ')})`);
   if (sm.duplicates.length) lines.push(`  left out as the same event read twice: ${sm.duplicates.length} (${sm.duplicates.join(', ')})`);
   if (sm.reread.replaced + sm.reread.dropped > 0) {
     lines.push(`  picks the locations did not fit: ${sm.reread.replaced} read again at the predicted time, ${sm.reread.dropped} dropped (nothing there above the noise)`);
