@@ -127,10 +127,16 @@ function preferredOrigin(e: QmlEvent): QmlOrigin | undefined {
   return e.origins.find((x) => x.id === e.preferredOriginId) ?? e.origins[0];
 }
 
-/** Leaves out candidates that duplicate another, moving their fitting extra picks over (module comment). */
+/**
+ * Leaves out candidates that duplicate another, moving their fitting extra picks over (module comment).
+ * `distinct`: pairs of candidates already told apart as two events (a first event located again
+ * without the onsets of the event split from it, electron/host/cli/scan.ts), never compared.
+ */
 export function leaveOutDuplicates(
   events: readonly QmlEvent[], predict: ArrivalPredictor | null = null, sameSeconds = SAME_ONSET_S, joinSeconds = JOIN_S, fitSeconds = FIT_S,
+  distinct: readonly (readonly [QmlEvent, QmlEvent])[] = [],
 ): DuplicateCheck {
+  const apart = (a: QmlEvent, b: QmlEvent) => distinct.some(([x, y]) => (x === a && y === b) || (x === b && y === a));
   const order = new Map(events.map((e, i) => [e, i]));
   const out = new Set<QmlEvent>();
   const dropped: { id: string; duplicateOf: string; reason: DuplicateReason }[] = [];
@@ -140,6 +146,7 @@ export function leaveOutDuplicates(
   for (const e of ranked) {
     let twin: { k: QmlEvent; reason: DuplicateReason } | null = null;
     for (const k of kept) {
+      if (apart(e, k)) continue;
       const reason = duplicateReason(e, k, predict, sameSeconds, joinSeconds, fitSeconds);
       if (reason) {
         twin = { k, reason };

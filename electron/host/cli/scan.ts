@@ -24,7 +24,9 @@
  *     leaveOutOthersOnsets). A candidate whose origin fits badly (two events seconds apart, the first
  *     the weaker, in one candidate) is picked and located again on the triggers of its earliest P
  *     wave front, which keeps that origin when it fits; otherwise its triggers later than that front
- *     allows for P go through the coincidence again, judged as above (core/pick/front.ts).
+ *     allows for P go through the coincidence again, judged as above (core/pick/front.ts); once such a
+ *     split candidate is written, the mixed one is picked again without its onsets and kept so when
+ *     it fits better.
  *     Each candidate is located (core/scan eventOrigin, outliers left out at weight 0); misfits of
  *     the location are read again around their predicted times and the event located again
  *     (core/scan/reread.ts).
@@ -306,6 +308,8 @@ export interface ScanSummary {
   split: string[];
   /** Candidates located on their earliest P wave front: "ID (N of M sites)". */
   fronts: string[];
+  /** Mixed first candidates located again without the onsets of the events split from them: "ID (standard error A -> B s)". */
+  cleaned: string[];
   /** Picks the location did not fit, read again: replaced by a new reading, or dropped. */
   reread: { replaced: number; dropped: number };
   skippedChannels: { id: string; why: string }[];
@@ -349,7 +353,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   let s = a.settings;
   const bar = a.progress === 'bar' ? progressBar(process.stderr) : a.progress === 'lines' ? progressLines(process.stderr) : null;
   const summary: ScanSummary = {
-    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, duplicates: [], split: [], fronts: [], reread: { replaced: 0, dropped: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
+    files: 0, skippedFiles: [], badRecords: [], channels: 0, hours: 0, candidates: 0, located: 0, magnitudeNotes: [], magnitudes: 0, picks: { P: 0, S: 0 }, duplicates: [], split: [], fronts: [], cleaned: [], reread: { replaced: 0, dropped: 0 }, skippedChannels: [], seconds: 0, settings: a.preset,
   };
   let bad = false;
 
@@ -510,6 +514,12 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   const foundIn = new Map<CandidateEvent, QmlEvent[]>();
   // The candidate each of those was found inside, and from which triggers.
   const insideOf = new Map<CandidateEvent, { id: string; why: string }>();
+  // Candidates split off a mixed one by the triggers later than its earliest P wave front, with it;
+  // each mixed candidate with its event as written and the split candidates written from it.
+  const splitFrom = new Map<CandidateEvent, CandidateEvent>();
+  const mixed = new Map<CandidateEvent, { qe: QmlEvent; splits: QmlEvent[] }>();
+  // A first event located again without the onsets of an event split from it, and that event.
+  const distinct: [QmlEvent, QmlEvent][] = [];
   // One candidate picked and located (misfits read again); `earlier`: the events it was found inside.
   const readEvent = async (ev: CandidateEvent, earlier: readonly QmlEvent[] | undefined) => {
     const ons = ev.triggers.map((t) => t.on);
@@ -561,9 +571,11 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
         qe.comment = `${qe.comment}; misfits not read again: ${(e as Error).message}`;
       }
       if (r && r.changes.length) {
-        const again = eventOrigin(ev.id, r.picks, r.picks.map((p) => pickId(ev.id, p)), coords, a.model, a.modelId);
+        // A misfit read again may take the other events' onset near its predicted time: left out as before.
+        const next = earlier ? leaveOutOthersOnsets(r.picks, earlier, predict) : r.picks;
+        const again = eventOrigin(ev.id, next, next.map((p) => pickId(ev.id, p)), coords, a.model, a.modelId);
         if (again.ok) {
-          picks = r.picks;
+          picks = next;
           qe = toQmlEvent(ev, picks, r.changes);
           o = again;
           changes = r.changes;
@@ -610,6 +622,8 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
               // No earlier origin predicts anything here, so none of its onsets is left out.
               foundIn.set(m, []);
               insideOf.set(m, { id: ev.id, why: 'from triggers later than its earliest P wave front allows for P' });
+              splitFrom.set(m, ev);
+              mixed.set(ev, { qe, splits: [] });
             }
           }
         }
@@ -632,6 +646,30 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
       qe.comment = `${qe.comment}; found inside ${inside.id}'s coincidence window, ${inside.why}`;
     }
     qmlEvents.push(qe);
+    const from = splitFrom.get(ev);
+    if (from) {
+      // A candidate split off a mixed one (above) is written: the mixed one still holds this event's
+      // onsets. It is picked again less the picks within JOIN_S of the P or S this origin (and any
+      // split off it before) predicts at their site, as a candidate found inside another's window
+      // is, and located again; that version is kept when it is located on more than MIN_PHASES
+      // phases with a smaller standard error than the mixed one's. The two are then told apart for
+      // the one-event-read-twice check (their picks no longer share onsets by construction).
+      const mx = mixed.get(from)!;
+      mx.splits.push(qe);
+      const r = await readEvent(from, mx.splits);
+      const was = mx.qe.origins.find((x) => x.id === mx.qe.preferredOriginId)?.quality?.standardError ?? Infinity;
+      const now = r.o.ok ? (r.o.origin.quality?.standardError ?? Infinity) : Infinity;
+      const used = r.o.ok ? (r.o.origin.quality?.usedPhaseCount ?? 0) : 0;
+      if (used > MIN_PHASES && now < was) {
+        const ids = mx.splits.map((x) => x.id).join(', ');
+        const wasText = Number.isFinite(was) ? `${was.toFixed(2)} s` : 'not located';
+        r.qe.comment = `${r.qe.comment}; located again without the onsets of ${ids}, split from it (standard error ${wasText} with them)`;
+        qmlEvents[qmlEvents.indexOf(mx.qe)] = r.qe;
+        mx.qe = r.qe;
+        for (const x of mx.splits) distinct.push([r.qe, x]);
+        summary.cleaned.push(`${from.id} (standard error ${wasText} -> ${now.toFixed(2)} s)`);
+      }
+    }
     // A second event inside this one's coincidence window (a doublet, an early aftershock): the
     // triggers its origin explains at neither P nor S, where three or more sites of them agree, make
     // candidates of their own (core/pick unexplainedTriggers), picked and located in their turn. Only
@@ -656,7 +694,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   // triggering on a local event's S) is written once: the copy whose origin fits better
   // (core/scan/duplicates.ts). Before the magnitudes, so no data are read for a copy left out, and
   // the copy kept is measured with the picks it took over.
-  const { kept, dropped } = leaveOutDuplicates(qmlEvents, predict);
+  const { kept, dropped } = leaveOutDuplicates(qmlEvents, predict, undefined, undefined, undefined, distinct);
   summary.duplicates = dropped.map((d) => (d.reason === 'same picks' ? `${d.id} (the same picks as ${d.duplicateOf})` : `${d.id} (its picks fit ${d.duplicateOf}'s origin)`));
   for (const qe of kept) {
     const origin = qe.origins[0];
@@ -819,6 +857,7 @@ export function summaryText(sm: ScanSummary, out: string): string {
     lines.push(`  found inside another event's coincidence window, from triggers its origin did not explain or later than its earliest P wave front: ${found.length}${out ? ` (and ${out} left out: no origin within ${FIT_S} s on more than ${MIN_PHASES} phases)` : ''} (${sm.split.join(', ')})`);
   }
   if (sm.fronts.length) lines.push(`  located on their earliest P wave front, the origin of all their sites not fitting: ${sm.fronts.length} (${sm.fronts.join(', ')})`);
+  if (sm.cleaned.length) lines.push(`  located again without the onsets of the events split from them: ${sm.cleaned.length} (${sm.cleaned.join(', ')})`);
   if (sm.duplicates.length) lines.push(`  left out as the same event read twice: ${sm.duplicates.length} (${sm.duplicates.join(', ')})`);
   if (sm.reread.replaced + sm.reread.dropped > 0) {
     lines.push(`  picks the locations did not fit: ${sm.reread.replaced} read again at the predicted time, ${sm.reread.dropped} dropped (nothing there above the noise)`);

@@ -8,7 +8,9 @@
  *    origin fits neither (standard error near 1 s), so unexplainedTriggers has nothing to judge by;
  *    the triggers later than its earliest P wave front allows for P (core/pick/front.ts) make the
  *    second event's candidate (measured by this test on the scan without that rule, which fails the
- *    first check of that case: one candidate).
+ *    first check of that case: one candidate); once that is written, the first is picked again
+ *    without the second's onsets (measured by this test on the scan without that step, which fails
+ *    the check that the first holds none of the second's picks).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { scanPair, type PairScan } from './pairNight';
@@ -54,8 +56,11 @@ describe('daybreak scan finds a stronger second event inside a weaker first one\
     expect(code).toBe(0);
     expect(events.length).toBe(2);
     const [a, b] = events;
-    // The first candidate holds picks of both events (its origin fits neither; left as it was).
+    // The first candidate, picked again without the second's onsets once that is written, holds
+    // none of the second event's picks and at least 5 of its own within 0.2 s.
     expect(within(a, 'first', 0.2)).toBeGreaterThanOrEqual(5);
+    expect(within(a, 'second', 0.2)).toBe(0);
+    expect(within(a, 'second', 1)).toBe(0);
     // The second: at least 10 picks within 0.1 s of its own arrivals, none within 0.2 s of the first's,
     // at least 90 % within 0.2 s, and an origin that fits (the split candidate's gate, FIT_S = 0.5 s).
     expect(within(b, 'second', 0.1)).toBeGreaterThanOrEqual(10);
@@ -68,5 +73,7 @@ describe('daybreak scan finds a stronger second event inside a weaker first one\
     const [a, b] = weakFirst.events;
     expect(b.comment).toContain(`found inside ${a.id}'s coincidence window, from triggers later than its earliest P wave front allows for P`);
     expect(weakFirst.stdout).toContain(`${b.id} (inside ${a.id}'s window)`);
+    expect(a.comment).toContain(`located again without the onsets of ${b.id}, split from it`);
+    expect(weakFirst.stdout).toMatch(new RegExp(`located again without the onsets of the events split from them: 1 \\(${a.id.replace(/\./g, '\\.')} \\(standard error`));
   });
 });

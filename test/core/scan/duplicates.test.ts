@@ -62,4 +62,21 @@ describe('leaveOutDuplicates', () => {
     const small = event('small', [pick('AA', 'P', 1.0), pick('BB', 'P', 1.5)], null);
     expect(leaveOutDuplicates([small, bare]).kept.map((e) => e.id)).toEqual(['bare']);
   });
+
+  it('never compares two candidates already told apart as two events', () => {
+    // first: a first event located again without second's onsets; second: the event split from it.
+    // Two of first's four picks lie within 0.15 s of second's at the same sites (AA 0.05 s, BB 0.1 s
+    // apart), so without the pair the better-fitting second keeps them both as one event read twice.
+    const first = event('first', [pick('AA', 'P', 1.0), pick('BB', 'P', 1.5), pick('CC', 'P', 6.0), pick('EE', 'S', 6.5)], 0.3);
+    const second = event('second', [pick('AA', 'P', 1.05), pick('BB', 'P', 1.6), pick('DD', 'P', 8.0)], 0.05);
+    expect(leaveOutDuplicates([first, second], predict).dropped).toEqual([{ id: 'first', duplicateOf: 'second', reason: 'same picks' }]);
+    const told = leaveOutDuplicates([first, second], predict, undefined, undefined, undefined, [[first, second]]);
+    expect(told.kept.map((e) => e.id)).toEqual(['first', 'second']);
+    expect(told.dropped).toEqual([]);
+    // The pair is one way round or the other; a copy of first (two of its three picks within 0.15 s
+    // of first's CC and EE, none near second's or the predicted 2 / 3.5 s) is still left out.
+    const copy = event('copy', [pick('CC', 'P', 6.05), pick('EE', 'S', 6.45), pick('FF', 'P', 7.0)], 0.4);
+    expect(leaveOutDuplicates([first, second, copy], predict, undefined, undefined, undefined, [[second, first]]).dropped)
+      .toEqual([{ id: 'copy', duplicateOf: 'first', reason: 'same picks' }]);
+  });
 });
