@@ -213,13 +213,14 @@ export class EventList {
     this.root.dataset.descending = String(this.descending);
     this.list.replaceChildren(...shown.map((e) => {
       const sites = sitesWithPicks(e);
+      const out = leftOut(e);
       const m = this.measure(e);
       const mark = (k: SortKey, text: string) => withData(el('span', { className: k === this.key ? 'sort-value' : '' }, text), { key: k });
       const li = withData(el('li', { tabIndex: 0, className: `state-${e.state}${e.id === this.current ? ' current' : ''}` },
         el('span', { className: 'ev-time' }, mark('time', isoFromMicros(eventTime(e)).slice(11, 19))),
         el('span', { className: 'ev-state' }, mark('state', STATE_LABEL[e.state])),
         el('span', { className: 'ev-info' },
-          mark('sites', `${sites} site${sites === 1 ? '' : 's'}`), ` \u00b7 ${e.picks.length} picks${leftOut(e) ? ` (${leftOut(e)} left out)` : ''}${e.type ? ` \u00b7 ${e.type}` : ''}`),
+          mark('sites', `${sites} site${sites === 1 ? '' : 's'}`), ` \u00b7 ${e.picks.length} picks${out ? ` (${out} left out)` : ''}${e.type ? ` \u00b7 ${e.type}` : ''}`),
         el('span', { className: 'ev-measure' },
           mark('rms', m.rmsS === null ? 'RMS \u2013' : `RMS ${m.rmsS.toFixed(3)} s`), ' \u00b7 ', mark('magnitude', m.ml === null ? 'ML \u2013' : `ML ${m.ml.toFixed(1)}`))),
       { id: e.id, sites: String(sites), state: e.state, rms: m.rmsS === null ? '' : String(m.rmsS), ml: m.ml === null ? '' : String(m.ml) });

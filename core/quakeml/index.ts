@@ -4,3 +4,4 @@ export { writeQuakeMl, xmlEscape, QUAKEML_BED_NS, QUAKEML_NS, type QuakeMlWriteO
 export { readQuakeMl, QuakeMlError } from './read';
 export { originFromHypocentre, type OriginLabels } from './fromHypocentre';
 export { pickComment, readPickComment } from './pickComment';
+export { preferredOrigin } from './preferred';

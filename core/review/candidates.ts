@@ -12,6 +12,7 @@
  */
 import { channelKey } from '../model';
 import { readPickComment } from '../quakeml/pickComment';
+import { preferredOrigin } from '../quakeml/preferred';
 import type { QmlEvent } from '../quakeml/types';
 import type { ReviewDocument, ReviewEvent, ReviewPick } from './types';
 
@@ -28,7 +29,7 @@ export interface CandidateMerge {
 
 /** QuakeML ids of the picks the event's preferred origin (else its first) gave time weight 0. */
 function leftOutByOrigin(e: QmlEvent): Set<string> {
-  const origin = e.origins.find((o) => o.id === e.preferredOriginId) ?? e.origins[0];
+  const origin = preferredOrigin(e);
   return new Set((origin?.arrivals ?? []).filter((a) => a.timeWeight === 0).map((a) => a.pickId));
 }
 
@@ -75,7 +76,7 @@ export function mergeCandidates(doc: ReviewDocument, candidates: readonly QmlEve
     const picks = picksOf(c);
     const had = byId.get(c.id);
     if (!had) {
-      const origin = c.origins.find((o) => o.id === c.preferredOriginId) ?? c.origins[0];
+      const origin = preferredOrigin(c);
       const [start, end] = span(picks, origin ? [origin.time - 10e6, origin.time + 60e6] : [0, 0]);
       if (end <= start) continue;
       const ev: ReviewEvent = { id: c.id, source: 'detector', start, end, state: 'todo', type: null, typeCertainty: null, note: '', picks };

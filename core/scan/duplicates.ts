@@ -31,7 +31,8 @@
  */
 import { stationKey, type ChannelId } from '../model';
 import type { SiteLocation, VelocityModel } from '../location';
-import type { QmlEvent, QmlOrigin } from '../quakeml';
+import type { QmlEvent } from '../quakeml';
+import { preferredOrigin } from '../quakeml/preferred';
 import type { Micros } from '../time';
 import { originArrivals } from './reread';
 
@@ -121,10 +122,6 @@ export function originPredictor(locations: ReadonlyMap<string, SiteLocation>, mo
     const at = originArrivals(o, new Map([[site, loc]]), model).get(site);
     return at ? { P: at.p, S: at.s } : null;
   };
-}
-
-function preferredOrigin(e: QmlEvent): QmlOrigin | undefined {
-  return e.origins.find((x) => x.id === e.preferredOriginId) ?? e.origins[0];
 }
 
 /**

@@ -114,6 +114,8 @@ export function rereadMisfits(
   for (const [key, s] of sites) locations.set(key, s.location);
   const predicted = originArrivals(origin, locations, model);
   const arrivalOf = new Map(origin.arrivals.map((a) => [a.pickId, a]));
+  // The misfit bound, s, of a phase predicted at `expected` (µs): misfitSeconds, or misfitShare of its travel time.
+  const misfitBound = (expected: Micros) => Math.max(o.misfitSeconds, (o.misfitShare * (expected - origin.time)) / 1e6);
   // Sites whose P and S are off by the same time: a clock, not a wrong phase (module comment).
   // A "P" read on S, with the S after it read in the S coda, can be off by about the same time too
   // (the S window follows the P pick): a P that lies within the misfit bound of the predicted S (the
@@ -125,7 +127,7 @@ export function rereadMisfits(
     const key = stationKey(p.waveformId);
     const pred = predicted.get(key);
     const onS = p.phaseHint !== 'S' && pred !== undefined
-      && Math.abs(p.time - pred.s) <= Math.max(o.misfitSeconds, (o.misfitShare * (pred.s - origin.time)) / 1e6) * 1e6;
+      && Math.abs(p.time - pred.s) <= misfitBound(pred.s) * 1e6;
     offsets.set(key, { ...offsets.get(key), [p.phaseHint === 'S' ? 'S' : 'P']: r, ...(onS ? { onS } : {}) });
   });
   const clockLike = new Set<string>();
@@ -149,8 +151,7 @@ export function rereadMisfits(
       return;
     }
     const expected = phase === 'P' ? pred.p : pred.s;
-    const travel = (expected - origin.time) / 1e6;
-    const bound = Math.max(o.misfitSeconds, o.misfitShare * travel);
+    const bound = misfitBound(expected);
     if (a.timeWeight !== 0 && Math.abs(a.timeResidual) <= bound) {
       out.push(p);
       return;

@@ -50,7 +50,7 @@ import {
   afterFront, chooseSiteStreams, coincidence, earliestFront, LOCAL_EVENT_PICKING, unexplainedTriggers,
   type CandidateEvent, type OriginPick, type Pick, type SitePosition, type StationTrigger,
 } from '../../../core/pick';
-import { pickComment, writeQuakeMl, type QmlEvent, type QmlOrigin } from '../../../core/quakeml';
+import { pickComment, preferredOrigin, writeQuakeMl, type QmlEvent, type QmlOrigin } from '../../../core/quakeml';
 import {
   channelResponse, eventMagnitude, magnitudeOrigin, stationWindows, type EventMagnitude, type HorizontalTrace, type MagnitudeStation,
 } from '../../../core/magnitude';
@@ -60,7 +60,7 @@ import { choosePreset } from '../../../core/scan/presetChoice';
 import { atomicTempPath, removeStaleTemps } from '../atomicTemp';
 import { TriggerStream } from '../../../core/scan/triggerStream';
 import { eventPicks, pickId, rereadSites, type PickChannel, type PickSite } from '../../../core/scan/eventPicks';
-import { earliestOriginFromP, eventOrigin, siteLocation, type SiteCoordinates } from '../../../core/scan/eventOrigin';
+import { earliestOriginFromP, eventOrigin, siteLocation, type OriginOutcome, type SiteCoordinates } from '../../../core/scan/eventOrigin';
 import { FIT_S, leaveOutDuplicates, leaveOutOthersOnsets, originPredictor } from '../../../core/scan/duplicates';
 import { rereadMisfits, type RereadChange } from '../../../core/scan/reread';
 import { DEFAULT_MODEL, MIN_PHASES, parseVelocityModel, type VelocityModel } from '../../../core/location';
@@ -304,8 +304,8 @@ export interface ScanSummary {
   picks: { P: number; S: number };
   /** Candidates left out as another candidate read twice: "ID (the same picks as ID)" or "ID (its picks fit ID's origin)". */
   duplicates: string[];
-  /** Candidates made of another's triggers its origin did not explain: "ID (inside ID's window)", or "ID left out (why)". */
-  split: string[];
+  /** Candidates made of another's triggers: "ID (inside ID's window)", or left out: "ID left out (why)". */
+  split: { text: string; leftOut: boolean }[];
   /** Candidates located on their earliest P wave front: "ID (N of M sites)". */
   fronts: string[];
   /** Mixed first candidates located again without the onsets of the events split from them: "ID (standard error A -> B s)". */
@@ -520,6 +520,24 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
   const mixed = new Map<CandidateEvent, { qe: QmlEvent; splits: QmlEvent[] }>();
   // A first event located again without the onsets of an event split from it, and that event.
   const distinct: [QmlEvent, QmlEvent][] = [];
+  // A location's standard error (Infinity when not located) and the phases it used.
+  const fitOf = (o: OriginOutcome) => (o.ok
+    ? { se: o.origin.quality?.standardError ?? Infinity, used: o.origin.quality?.usedPhaseCount ?? 0 }
+    : { se: Infinity, used: 0 });
+  // What a candidate split off another must show to be written: its own origin fits its picks as well
+  // as an origin must to predict anything (FIT_S), with more phases used than the four unknowns (with
+  // four, any four times fit exactly).
+  const fitsAsSplit = (o: OriginOutcome) => fitOf(o).se <= FIT_S && fitOf(o).used > MIN_PHASES;
+  // A candidate made during the loop is picked in its turn: queued after the k-th, in time order,
+  // under an identifier no other candidate has.
+  const queue = (made: readonly CandidateEvent[], k: number) => {
+    for (const m of made) {
+      let at = k + 1;
+      while (at < events.length && events[at].time <= m.time) at++;
+      events.splice(at, 0, m);
+    }
+  };
+  const coincideAgain = (list: StationTrigger[]) => coincidence(list, positions, { ...coincide, reserved: new Set(events.map((e) => e.id)) });
   // One candidate picked and located (misfits read again); `earlier`: the events it was found inside.
   const readEvent = async (ev: CandidateEvent, earlier: readonly QmlEvent[] | undefined) => {
     const ons = ev.triggers.map((t) => t.on);
@@ -593,7 +611,7 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
     bar?.update(0.8 + 0.2 * (k / events.length), `picking ${ev.id}`);
     const earlier = foundIn.get(ev);
     let { qe, o, changes } = await readEvent(ev, earlier);
-    let fits = o.ok && (o.origin.quality?.standardError ?? Infinity) <= FIT_S;
+    let fits = fitOf(o).se <= FIT_S;
     if (!fits && !earlier) {
       // Two events seconds apart whose triggers made one candidate (the first the weaker): its
       // origin fits neither and predicts nothing (core/pick/front.ts). The triggers one P wave front
@@ -605,9 +623,8 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
       const front = earliestFront(ev, positions, LOCAL_EVENT_PICKING.firstPSpeed, s.slack, s.minSites);
       if (front) {
         const r = await readEvent(front, undefined);
-        const used = r.o.ok ? (r.o.origin.quality?.usedPhaseCount ?? 0) : 0;
         const was = o.ok ? `standard error ${(o.origin.quality?.standardError ?? NaN).toFixed(2)} s` : 'not located';
-        if (r.o.ok && (r.o.origin.quality?.standardError ?? Infinity) <= FIT_S && used > MIN_PHASES) {
+        if (fitsAsSplit(r.o)) {
           ({ qe, o, changes } = r);
           fits = true;
           qe.comment = `${qe.comment}; located on its earliest P wave front, ${front.sites.length} of its ${ev.sites.length} sites (all of them: ${was})`;
@@ -615,34 +632,31 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
         } else {
           const later = afterFront(ev, front, positions, LOCAL_EVENT_PICKING.firstPSpeed, s.slack);
           if (new Set(later.map((t) => stationKey(t.id))).size >= s.minSites) {
-            for (const m of coincidence(later, positions, { ...coincide, reserved: new Set(events.map((e) => e.id)) })) {
-              let at = k + 1;
-              while (at < events.length && events[at].time <= m.time) at++;
-              events.splice(at, 0, m);
+            const made = coincideAgain(later);
+            for (const m of made) {
               // No earlier origin predicts anything here, so none of its onsets is left out.
               foundIn.set(m, []);
               insideOf.set(m, { id: ev.id, why: 'from triggers later than its earliest P wave front allows for P' });
               splitFrom.set(m, ev);
-              mixed.set(ev, { qe, splits: [] });
             }
+            if (made.length) mixed.set(ev, { qe, splits: [] });
+            queue(made, k);
           }
         }
       }
     }
     for (const c of changes) summary.reread[c.pick ? 'replaced' : 'dropped']++;
     if (earlier) {
-      // A candidate found inside another's window is written only when its own origin fits its
-      // picks as well as an origin must to predict anything (FIT_S), with more phases used than the
-      // four unknowns (with four, any four times fit exactly): triggers in an event's coda and late
-      // S triggers agree by chance, and their picks locate nowhere.
-      const used = o.ok ? (o.origin.quality?.usedPhaseCount ?? 0) : 0;
-      if (!fits || used <= MIN_PHASES) {
-        const why = !o.ok ? 'not located' : !fits ? `standard error ${(o.origin.quality?.standardError ?? NaN).toFixed(2)} s` : `${used} phases used`;
-        summary.split.push(`${ev.id} left out (${why})`);
+      // A candidate found inside another's window is written only when it fits as a split candidate
+      // must (fitsAsSplit): triggers in an event's coda and late S triggers agree by chance, and
+      // their picks locate nowhere.
+      if (!fitsAsSplit(o)) {
+        const why = !o.ok ? 'not located' : !fits ? `standard error ${(o.origin.quality?.standardError ?? NaN).toFixed(2)} s` : `${fitOf(o).used} phases used`;
+        summary.split.push({ text: `${ev.id} left out (${why})`, leftOut: true });
         continue;
       }
       const inside = insideOf.get(ev)!;
-      summary.split.push(`${ev.id} (inside ${inside.id}'s window)`);
+      summary.split.push({ text: `${ev.id} (inside ${inside.id}'s window)`, leftOut: false });
       qe.comment = `${qe.comment}; found inside ${inside.id}'s coincidence window, ${inside.why}`;
     }
     qmlEvents.push(qe);
@@ -657,9 +671,8 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
       const mx = mixed.get(from)!;
       mx.splits.push(qe);
       const r = await readEvent(from, mx.splits);
-      const was = mx.qe.origins.find((x) => x.id === mx.qe.preferredOriginId)?.quality?.standardError ?? Infinity;
-      const now = r.o.ok ? (r.o.origin.quality?.standardError ?? Infinity) : Infinity;
-      const used = r.o.ok ? (r.o.origin.quality?.usedPhaseCount ?? 0) : 0;
+      const was = preferredOrigin(mx.qe)?.quality?.standardError ?? Infinity;
+      const { se: now, used } = fitOf(r.o);
       if (used > MIN_PHASES && now < was) {
         const ids = mx.splits.map((x) => x.id).join(', ');
         const wasText = Number.isFinite(was) ? `${was.toFixed(2)} s` : 'not located';
@@ -678,14 +691,12 @@ async function scanNight(a: ScanArgs, inv: Inventory): Promise<number> {
       const located = qe;
       const left = unexplainedTriggers(ev, (site) => predict(located, site), s.slack, s.minSites);
       if (new Set(left.map((t) => stationKey(t.id))).size >= s.minSites) {
-        const more = coincidence(left, positions, { ...coincide, reserved: new Set(events.map((e) => e.id)) });
+        const more = coincideAgain(left);
         for (const m of more) {
-          let at = k + 1;
-          while (at < events.length && events[at].time <= m.time) at++;
-          events.splice(at, 0, m);
           foundIn.set(m, [...(earlier ?? []), located]);
           insideOf.set(m, { id: located.id, why: 'from triggers its origin did not explain' });
         }
+        queue(more, k);
       }
     }
   }
@@ -852,9 +863,8 @@ export function summaryText(sm: ScanSummary, out: string): string {
   lines.push(`  settings: ${sm.settings}`);
   lines.push(`  located: ${sm.located} of ${sm.candidates} (an origin each)`);
   if (sm.split.length) {
-    const found = sm.split.filter((x) => !x.includes(' left out ('));
-    const out = sm.split.length - found.length;
-    lines.push(`  found inside another event's coincidence window, from triggers its origin did not explain or later than its earliest P wave front: ${found.length}${out ? ` (and ${out} left out: no origin within ${FIT_S} s on more than ${MIN_PHASES} phases)` : ''} (${sm.split.join(', ')})`);
+    const leftOut = sm.split.filter((x) => x.leftOut).length;
+    lines.push(`  found inside another event's coincidence window, from triggers its origin did not explain or later than its earliest P wave front: ${sm.split.length - leftOut}${leftOut ? ` (and ${leftOut} left out: no origin within ${FIT_S} s on more than ${MIN_PHASES} phases)` : ''} (${sm.split.map((x) => x.text).join(', ')})`);
   }
   if (sm.fronts.length) lines.push(`  located on their earliest P wave front, the origin of all their sites not fitting: ${sm.fronts.length} (${sm.fronts.join(', ')})`);
   if (sm.cleaned.length) lines.push(`  located again without the onsets of the events split from them: ${sm.cleaned.length} (${sm.cleaned.join(', ')})`);
