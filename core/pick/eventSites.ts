@@ -385,7 +385,7 @@ export function tooLateForP(
  * The most two P onsets of one event at sites a and b can lie apart, µs: the sites' distance at
  * `firstPSpeed` plus `slack` (networkFirst's module comment says why).
  */
-function pSpread(a: SitePosition, b: SitePosition, o: { readonly firstPSpeed: number; readonly slack: number }): Micros {
+export function pSpread(a: SitePosition, b: SitePosition, o: { readonly firstPSpeed: number; readonly slack: number }): Micros {
   return Math.round((siteDistanceKm(a, b) / o.firstPSpeed + o.slack) * 1e6);
 }
 

@@ -18,17 +18,13 @@
  *    no origin that fits either.
  */
 import { stationKey } from '../model';
-import { siteDistanceKm, type SitePosition } from './coincidence';
+import type { SitePosition } from './coincidence';
+import { pSpread, tooLateForP } from './eventSites';
 import type { CandidateEvent, StationTrigger } from './types';
 
 function check(speed: number, slack: number): void {
   if (!(speed > 0 && Number.isFinite(speed))) throw new RangeError(`speed (km/s) must be > 0, got ${speed}`);
   if (!(slack >= 0 && Number.isFinite(slack))) throw new RangeError(`slack (s) must be >= 0, got ${slack}`);
-}
-
-/** The most two P onsets of one event at these sites can lie apart, µs: distance at `speed` plus `slack`. */
-function spread(a: SitePosition, b: SitePosition, speed: number, slack: number): number {
-  return Math.round((siteDistanceKm(a, b) / speed + slack) * 1e6);
 }
 
 /**
@@ -41,13 +37,14 @@ export function earliestFront(
   event: CandidateEvent, positions: ReadonlyMap<string, SitePosition>, speed: number, slack: number, minSites: number,
 ): CandidateEvent | null {
   check(speed, slack);
+  const bound = { firstPSpeed: speed, slack };
   if (!Number.isInteger(minSites) || minSites < 1) throw new RangeError(`minSites must be an integer >= 1, got ${minSites}`);
   const list = event.triggers.filter((t) => positions.has(stationKey(t.id))).sort((a, b) => a.on - b.on);
   const kept: StationTrigger[] = [];
   for (const t of list) {
     const p = positions.get(stationKey(t.id))!;
     if (kept.some((k) => stationKey(k.id) === stationKey(t.id))) continue;
-    if (kept.every((k) => Math.abs(t.on - k.on) <= spread(p, positions.get(stationKey(k.id))!, speed, slack))) kept.push(t);
+    if (kept.every((k) => Math.abs(t.on - k.on) <= pSpread(p, positions.get(stationKey(k.id))!, bound))) kept.push(t);
   }
   if (kept.length === event.triggers.length || new Set(kept.map((t) => stationKey(t.id))).size < minSites) return null;
   return {
@@ -63,8 +60,7 @@ export function earliestFront(
 
 /**
  * The triggers of `event` (members and secondary) outside `front` that come later than more than
- * half of the front's triggers allow for a P: each front trigger's time plus the two sites'
- * distance at `speed` plus `slack` (module comment). In time order. Triggers of sites without a
+ * half of the front's triggers allow for a P (eventSites.ts tooLateForP, with `speed` and `slack`). In time order. Triggers of sites without a
  * position are left out.
  */
 export function afterFront(
@@ -72,13 +68,11 @@ export function afterFront(
 ): StationTrigger[] {
   check(speed, slack);
   const inFront = new Set(front.triggers);
-  const judges = front.triggers.filter((t) => positions.has(stationKey(t.id)));
+  const judges = front.triggers.filter((t) => positions.has(stationKey(t.id))).map((t) => ({ time: t.on, position: positions.get(stationKey(t.id))! }));
   return [...event.triggers, ...event.secondary]
     .filter((t) => {
       const p = positions.get(stationKey(t.id));
-      if (!p || inFront.has(t)) return false;
-      const late = judges.filter((j) => t.on > j.on + spread(p, positions.get(stationKey(j.id))!, speed, slack)).length;
-      return 2 * late > judges.length;
+      return p !== undefined && !inFront.has(t) && tooLateForP({ time: t.on, position: p }, judges, { firstPSpeed: speed, slack });
     })
     .sort((a, b) => a.on - b.on);
 }
